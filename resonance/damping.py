@@ -94,9 +94,7 @@ def damping_ratio_from_amplification_factor(amplification_factor: object) -> np.
     """
     af = as_si_array(amplification_factor, "amplification_factor", "ratio")
     if np.any(af < 1.0):
-        raise InputValueError(
-            f"amplification_factor: got {af[af < 1.0][0]:g}; expected a value >= 1"
-        )
+        raise InputValueError(f"amplification_factor: got {af[af < 1.0][0]:g}; expected a value >= 1")
     return 1.0 / (2.0 * af)
 
 
@@ -168,9 +166,7 @@ def modal_damping(mass_matrix: object, stiffness_matrix: object, damping_ratios:
     if zeta.size == 1:
         zeta = np.full(n, zeta[0])
     if zeta.size != n:
-        raise InputValueError(
-            f"damping_ratios: got {zeta.size} ratios; expected 1 or {n} (one per mode)"
-        )
+        raise InputValueError(f"damping_ratios: got {zeta.size} ratios; expected 1 or {n} (one per mode)")
     w2, phi = scipy.linalg.eigh(k, m)
     w = np.sqrt(np.clip(w2, 0.0, None))
     mp = m @ phi

@@ -42,9 +42,7 @@ _METHODS = ("auto", "modal", "state-space", "direct")
 _DIRECT_CHUNK_BYTES = 64 * 2**20
 
 
-def _modal(
-    model: MatrixModel, w: np.ndarray, j: int, undamped: tuple[np.ndarray, np.ndarray] | None
-) -> np.ndarray:
+def _modal(model: MatrixModel, w: np.ndarray, j: int, undamped: tuple[np.ndarray, np.ndarray] | None) -> np.ndarray:
     wr, phi = undamped if undamped is not None else _undamped(model)
     cr = np.einsum("ir,ij,jr->r", phi, model.damping, phi)  # = 2 zeta_r w_r
     denominator = wr[None, :] ** 2 - w[:, None] ** 2 + 1j * w[:, None] * cr[None, :]
@@ -82,9 +80,7 @@ def _direct(model: MatrixModel, w: np.ndarray, j: int) -> np.ndarray:
     return out
 
 
-def model_receptance(
-    model: MatrixModel, frequency: object, input_dof: int, method: FrfMethod = "auto"
-) -> np.ndarray:
+def model_receptance(model: MatrixModel, frequency: object, input_dof: int, method: FrfMethod = "auto") -> np.ndarray:
     """Receptance column of a validated :class:`MatrixModel` (see :func:`receptance`)."""
     if method not in _METHODS:
         raise ValueError(f"method: got {method!r}; expected one of {list(_METHODS)}")

@@ -31,9 +31,7 @@ _FROM_PEAK: dict[str, float] = {"peak": 1.0, "peak-to-peak": 2.0, "rms": 1.0 / m
 
 def _factor(convention: str, name: str) -> float:
     if convention not in _FROM_PEAK:
-        raise InputValueError(
-            f"{name}: got {convention!r}; expected one of 'peak', 'peak-to-peak', 'rms'"
-        )
+        raise InputValueError(f"{name}: got {convention!r}; expected one of 'peak', 'peak-to-peak', 'rms'")
     return _FROM_PEAK[convention]
 
 

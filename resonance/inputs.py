@@ -39,8 +39,7 @@ def _magnitude(value: object, name: str, kind: str) -> np.ndarray:
         value = value.to(unit).magnitude
     if isinstance(value, (str, bytes)):
         raise InputTypeError(
-            f"{name}: got the text {value!r}; expected a number in {unit} or a "
-            "resonance.ureg quantity"
+            f"{name}: got the text {value!r}; expected a number in {unit} or a resonance.ureg quantity"
         )
     try:
         array = np.asarray(value, dtype=float)
@@ -142,9 +141,7 @@ def as_matrix(value: object, name: str, kind: str, size: int | None = None) -> n
     if array.ndim != 2 or array.shape[0] != array.shape[1]:
         raise InputValueError(f"{name}: got shape {array.shape}; expected a square matrix")
     if size is not None and array.shape[0] != size:
-        raise InputValueError(
-            f"{name}: got shape {array.shape}; expected ({size}, {size}) to match the mass matrix"
-        )
+        raise InputValueError(f"{name}: got shape {array.shape}; expected ({size}, {size}) to match the mass matrix")
     _check(array, name, kind, "any")
     scale = max(float(np.abs(array).max()), np.finfo(float).tiny)
     asymmetry = float(np.abs(array - array.T).max()) / scale

@@ -56,9 +56,7 @@ class MatrixModel:
         """Index of a degree of freedom given by label or index."""
         if isinstance(label_or_index, str):
             if label_or_index not in self.labels:
-                raise InputValueError(
-                    f"dof: got {label_or_index!r}; expected one of {list(self.labels)}"
-                )
+                raise InputValueError(f"dof: got {label_or_index!r}; expected one of {list(self.labels)}")
             return self.labels.index(label_or_index)
         return check_dof(label_or_index, self.size, "dof")
 
@@ -115,8 +113,7 @@ def matrix_model(
         np.linalg.cholesky(m)
     except np.linalg.LinAlgError:
         raise InputValueError(
-            "mass_matrix: is not positive definite; every degree of freedom needs a "
-            "positive mass (or inertia)"
+            "mass_matrix: is not positive definite; every degree of freedom needs a positive mass (or inertia)"
         ) from None
     k = as_matrix(stiffness_matrix, "stiffness_matrix", "stiffness", n)
     _semidefinite(k, "stiffness_matrix")
@@ -195,8 +192,7 @@ def lumped_model(masses: Mapping[str, object], springs: Sequence[Spring]) -> Mat
         for end in (spring.node_a, spring.node_b):
             if end != GROUND and end not in index:
                 raise InputValueError(
-                    f"{where}: joins {end!r}, which is not a mass; expected one of "
-                    f"{[*names, GROUND]}"
+                    f"{where}: joins {end!r}, which is not a mass; expected one of {[*names, GROUND]}"
                 )
             ends.append(index.get(end))
         if (ends[0] is None and ends[1] is None) or ends[0] == ends[1]:
@@ -240,7 +236,5 @@ def chain_model(
         )
     names = [f"m{i}" for i in range(n)]
     cs = dampings if dampings is not None else [0.0] * n
-    springs = [
-        Spring(GROUND if i == 0 else names[i - 1], names[i], stiffnesses[i], cs[i]) for i in range(n)
-    ]
+    springs = [Spring(GROUND if i == 0 else names[i - 1], names[i], stiffnesses[i], cs[i]) for i in range(n)]
     return lumped_model(dict(zip(names, masses, strict=True)), springs)

@@ -61,8 +61,7 @@ def _definition_lines() -> list[str]:
     text, count = re.subn(r"^@import constants_en.txt$", constants, text, flags=re.MULTILINE)
     if count != 1:
         raise RuntimeError(
-            f"pint {pint.__version__}: default_en.txt no longer imports "
-            "constants_en.txt; update resonance/units.py."
+            f"pint {pint.__version__}: default_en.txt no longer imports constants_en.txt; update resonance/units.py."
         )
     return (text + _ADDITIONS).splitlines()
 

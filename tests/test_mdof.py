@@ -197,17 +197,49 @@ def test_rigid_body_mode_of_free_system():
 @pytest.mark.parametrize(
     ("call", "error", "message"),
     [
-        (lambda: R.modes([[1.0, 0], [0, -1.0]], np.eye(2)), R.InputValueError, r"mass_matrix: is not positive definite"),
-        (lambda: R.modes(np.eye(2), [[1.0, 2.0], [0.0, 1.0]]), R.InputValueError, r"stiffness_matrix: the matrix is not symmetric"),
-        (lambda: R.modes(np.eye(2), [[1.0, 2.0], [2.0, 1.0]]), R.InputValueError, r"stiffness_matrix: has a negative eigenvalue"),
-        (lambda: R.modes(np.eye(2), np.eye(3)), R.InputValueError, r"stiffness_matrix: got shape \(3, 3\); expected \(2, 2\)"),
-        (lambda: R.modes(np.eye(2), np.eye(2), -np.eye(2)), R.InputValueError, r"damping_matrix: has a negative eigenvalue"),
-        (lambda: R.receptance(np.eye(2), np.eye(2), None, [1.0], 2), R.InputValueError, r"input_dof: got 2; expected an index 0\.\.1"),
+        (
+            lambda: R.modes([[1.0, 0], [0, -1.0]], np.eye(2)),
+            R.InputValueError,
+            r"mass_matrix: is not positive definite",
+        ),
+        (
+            lambda: R.modes(np.eye(2), [[1.0, 2.0], [0.0, 1.0]]),
+            R.InputValueError,
+            r"stiffness_matrix: the matrix is not symmetric",
+        ),
+        (
+            lambda: R.modes(np.eye(2), [[1.0, 2.0], [2.0, 1.0]]),
+            R.InputValueError,
+            r"stiffness_matrix: has a negative eigenvalue",
+        ),
+        (
+            lambda: R.modes(np.eye(2), np.eye(3)),
+            R.InputValueError,
+            r"stiffness_matrix: got shape \(3, 3\); expected \(2, 2\)",
+        ),
+        (
+            lambda: R.modes(np.eye(2), np.eye(2), -np.eye(2)),
+            R.InputValueError,
+            r"damping_matrix: has a negative eigenvalue",
+        ),
+        (
+            lambda: R.receptance(np.eye(2), np.eye(2), None, [1.0], 2),
+            R.InputValueError,
+            r"input_dof: got 2; expected an index 0\.\.1",
+        ),
         (lambda: R.receptance(np.eye(2), np.eye(2), None, [1.0], 0, "fast"), ValueError, r"method: got 'fast'"),
         (lambda: R.modes(np.eye(2) * math.nan, np.eye(2)), R.InputValueError, r"mass_matrix: got nan kg"),
-        (lambda: R.lumped_model({"a": 1.0}, [R.Spring("a", "b", 1.0)]), R.InputValueError, r"springs\[0\]: joins 'b', which is not a mass"),
+        (
+            lambda: R.lumped_model({"a": 1.0}, [R.Spring("a", "b", 1.0)]),
+            R.InputValueError,
+            r"springs\[0\]: joins 'b', which is not a mass",
+        ),
         (lambda: R.chain_model([1.0, 1.0], [1.0]), R.InputValueError, r"expected 2, one per mass"),
-        (lambda: R.modal_damping(np.eye(3), np.eye(3), [0.1, 0.2]), R.InputValueError, r"damping_ratios: got 2 ratios; expected 1 or 3"),
+        (
+            lambda: R.modal_damping(np.eye(3), np.eye(3), [0.1, 0.2]),
+            R.InputValueError,
+            r"damping_ratios: got 2 ratios; expected 1 or 3",
+        ),
     ],
 )
 def test_bad_matrices(call, error, message):

@@ -16,7 +16,7 @@ from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.inputs import as_si, as_si_array, as_matrix
+from resonance.inputs import as_matrix, as_si, as_si_array
 from resonance.units import display_unit, internal_unit
 
 

@@ -1,0 +1,116 @@
+"""Vibration acceptance limits: ISO casing velocity zones and the API shaft limit.
+
+References
+----------
+.. [1] ISO 10816-3:2009, *Mechanical vibration - Evaluation of machine
+   vibration by measurements on non-rotating parts - Part 3: Industrial
+   machines with nominal power above 15 kW*, Table A.1 (now ISO 20816-3:2022;
+   values from memory).
+.. [2] API Std 617, 8th ed., 2014, unbalance response verification (shaft
+   vibration limit; from memory).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Literal
+
+import numpy as np
+
+from .errors import InputValueError
+from .inputs import as_si, as_si_array
+
+__all__ = [
+    "MachineGroup",
+    "SupportClass",
+    "api_shaft_vibration_limit",
+    "iso_velocity_zone",
+    "iso_velocity_zone_limits",
+]
+
+MachineGroup = Literal[1, 2]
+SupportClass = Literal["rigid", "flexible"]
+
+# Zone boundaries A/B, B/C, C/D in mm/s RMS (ISO 10816-3 Table A.1, from memory).
+_ZONES_MM_S: dict[tuple[int, str], tuple[float, float, float]] = {
+    (1, "rigid"): (2.3, 4.5, 7.1),
+    (1, "flexible"): (3.5, 7.1, 11.0),
+    (2, "rigid"): (1.4, 2.8, 4.5),
+    (2, "flexible"): (2.3, 4.5, 7.1),
+}
+
+
+def iso_velocity_zone_limits(group: MachineGroup, support: SupportClass) -> tuple[float, float, float]:
+    """Zone boundaries A/B, B/C and C/D of broadband casing velocity [m/s RMS].
+
+    Parameters
+    ----------
+    group : {1, 2}
+        1: large machines (300 kW to 50 MW); 2: medium machines (15 to 300 kW).
+    support : {"rigid", "flexible"}
+        Support class of the machine on its foundation.
+
+    Returns
+    -------
+    tuple of float
+        The three boundaries [m/s], RMS.
+
+    References
+    ----------
+    ISO 10816-3:2009, Table A.1 (from memory).
+    """
+    key = (group, support)
+    if key not in _ZONES_MM_S:
+        raise InputValueError(
+            f"group/support: got ({group!r}, {support!r}); expected group 1 or 2 and support 'rigid' or 'flexible'"
+        )
+    return tuple(v * 1e-3 for v in _ZONES_MM_S[key])  # type: ignore[return-value]
+
+
+def iso_velocity_zone(velocity_rms: object, group: MachineGroup, support: SupportClass) -> list[str]:
+    """ISO evaluation zone (A, B, C, D) of casing velocities, RMS.
+
+    Parameters
+    ----------
+    velocity_rms : array_like or pint.Quantity
+        Broadband casing velocity, RMS [m/s] (>= 0).
+    group, support
+        See :func:`iso_velocity_zone_limits`.
+
+    Returns
+    -------
+    list of str
+        ``"A"`` (new machines), ``"B"`` (unrestricted long-term operation),
+        ``"C"`` (restricted), ``"D"`` (damage possible), one per value.
+    """
+    v = as_si_array(velocity_rms, "velocity_rms", "velocity", "nonnegative")
+    limits = np.asarray(iso_velocity_zone_limits(group, support))
+    return ["ABCD"[int(i)] for i in np.searchsorted(limits, v, side="right")]
+
+
+def api_shaft_vibration_limit(speed: object) -> float:
+    """Allowable shaft vibration of the API unbalance response test.
+
+    ``L = 25.4 sqrt(12000 / N)`` um pk-pk, and not above 25.4 um.
+
+    Parameters
+    ----------
+    speed : float or pint.Quantity
+        Maximum continuous speed [rpm] (> 0).
+
+    Returns
+    -------
+    float
+        Limit [m], peak-to-peak.
+
+    References
+    ----------
+    API Std 617, 8th ed., 2014 (from memory).
+
+    Examples
+    --------
+    >>> round(api_shaft_vibration_limit(12000.0) * 1e6, 3)
+    25.4
+    """
+    n = as_si(speed, "speed", "speed", "positive")
+    return min(25.4, 25.4 * math.sqrt(12000.0 / n)) * 1e-6
