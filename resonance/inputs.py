@@ -53,15 +53,16 @@ def _magnitude(value: object, name: str, kind: str) -> np.ndarray:
 
 def _check(array: np.ndarray, name: str, kind: str, sign: Sign) -> None:
     unit = internal_unit(kind)
+    unit = "" if unit == "dimensionless" else f" {unit}"
     if not np.all(np.isfinite(array)):
         bad = array[~np.isfinite(array)].flat[0]
-        raise InputValueError(f"{name}: got {bad} {unit}; expected a finite number")
+        raise InputValueError(f"{name}: got {bad}{unit}; expected a finite number")
     if sign == "positive" and np.any(array <= 0.0):
         bad = array[array <= 0.0].flat[0]
-        raise InputValueError(f"{name}: got {bad:g} {unit}; expected a value > 0")
+        raise InputValueError(f"{name}: got {bad:g}{unit}; expected a value > 0")
     if sign == "nonnegative" and np.any(array < 0.0):
         bad = array[array < 0.0].flat[0]
-        raise InputValueError(f"{name}: got {bad:g} {unit}; expected a value >= 0")
+        raise InputValueError(f"{name}: got {bad:g}{unit}; expected a value >= 0")
 
 
 def as_si(value: object, name: str, kind: str, sign: Sign = "any") -> float:

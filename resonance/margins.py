@@ -442,7 +442,7 @@ class TableRule:
                 raise InputValueError(f"{label}: expected finite margins >= 0 percent")
         if af.size < 1 or np.any(~np.isfinite(af)) or np.any(af < 1.0) or np.any(np.diff(af) <= 0.0):
             raise InputValueError(
-                f"amplification_factors: got {list(af)}; expected strictly increasing finite values >= 1"
+                f"amplification_factors: got {af.tolist()}; expected strictly increasing finite values >= 1"
             )
 
     def required(self, amplification_factor: float, side: Side) -> float:

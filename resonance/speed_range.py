@@ -42,7 +42,7 @@ class OperatingRange:
             if low > start:
                 out.append((start, low))
             start = max(start, high)
-        if start <= self.speed_max:
+        if start < self.speed_max or self.speed_min == self.speed_max:
             out.append((start, self.speed_max))
         return tuple(out)
 
