@@ -75,7 +75,8 @@ class Excitation:
         n = as_si_array(speed, "speed", "speed", "nonnegative")
         if self.order is not None:
             return self.order * n / 60.0
-        return np.full(n.shape, float(self.frequency))
+        assert self.frequency is not None  # exactly one of order, frequency is set
+        return np.full(n.shape, self.frequency)
 
     def coincidence_speed(self, natural_frequency: float) -> float | None:
         """Running speed [rpm] at which this order excites ``natural_frequency`` [Hz].

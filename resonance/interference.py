@@ -133,7 +133,7 @@ class FindingsTable:
 
     def rows(self, precision: int = 1) -> list[tuple[str, ...]]:
         """Rows of display strings, one per finding, in the column order of :meth:`to_text`."""
-        out = []
+        out: list[tuple[str, ...]] = []
         for f in self.findings:
             af = f.mode.amplification_factor
             out.append(

@@ -396,7 +396,7 @@ class FlatRule:
 
     percent: float
     name: str = ""
-    source: str = "common practice (no single source)"
+    source: str = "common practice, no single source"
 
     def __post_init__(self) -> None:
         if not (math.isfinite(self.percent) and self.percent > 0.0):

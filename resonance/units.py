@@ -67,7 +67,7 @@ def _definition_lines() -> list[str]:
 
 
 def _build_registry() -> pint.UnitRegistry:
-    registry = pint.UnitRegistry(None, autoconvert_offset_to_baseunit=True)
+    registry: pint.UnitRegistry = pint.UnitRegistry(None, autoconvert_offset_to_baseunit=True)
     registry.load_definitions(_definition_lines())
     registry.formatter.default_format = "~P"
     # The trade's conversions; wrong values here would corrupt every result.
@@ -81,7 +81,7 @@ def _build_registry() -> pint.UnitRegistry:
         ("1 lbf/in", "N/m", 175.126835),
     )
     for given, unit, expected in checks:
-        got = registry.Quantity(given).to(unit).magnitude
+        got = float(registry.Quantity(given).to(unit).magnitude)
         if not math.isclose(got, expected, rel_tol=1e-8):
             raise RuntimeError(
                 f"unit registry check failed: {given} = {got} {unit}, expected "

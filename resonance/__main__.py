@@ -1,0 +1,8 @@
+"""``python -m resonance``: see :mod:`resonance.cli`."""
+
+import sys
+
+from .cli import main
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,73 @@
+"""The ``check`` command: run every check of a scenario file, headless.
+
+``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` prints the
+text record, writes the self-contained HTML record and the JSON of inputs and
+findings when asked, and exits 0 when every check passes, 1 when any fails,
+and 2 on bad input (with a message naming the file and the field). Records
+are built in full before anything is written, and written through a
+temporary file, so a failed run never leaves a partial record; the scenario
+file is only read.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from collections.abc import Sequence
+from pathlib import Path
+
+from .errors import InputTypeError, InputValueError
+from .record import atomic_write, build_record
+from .scenario import load_scenario
+from .study import run_study
+
+__all__ = ["main"]
+
+EXIT_PASS, EXIT_FAIL, EXIT_BAD_INPUT = 0, 1, 2
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(prog="python -m resonance", description="Resonance and separation-margin checks.")
+    commands = parser.add_subparsers(dest="command", required=True)
+    check = commands.add_parser("check", help="run every check of a scenario file")
+    check.add_argument("scenario", type=Path, help="scenario file (TOML)")
+    check.add_argument("--html", type=Path, help="write the self-contained HTML record here")
+    check.add_argument("--json", type=Path, help="write the JSON record (inputs and findings) here")
+    return parser
+
+
+def _check(args: argparse.Namespace) -> int:
+    for option in ("html", "json"):
+        target = getattr(args, option)
+        if target is not None and target.resolve() == args.scenario.resolve():
+            raise InputValueError(f"--{option}: {target} is the scenario file itself; choose another file")
+    scenario = load_scenario(args.scenario)
+    result = run_study(scenario)
+    record = build_record(result)
+    outputs: list[tuple[str, Path, str]] = []
+    if args.json is not None:
+        outputs.append(("json", args.json, json.dumps(record.data, indent=2)))
+    if args.html is not None:
+        from .ui.report import render_html  # plotly is only needed for the HTML record
+
+        outputs.append(("html", args.html, render_html(result, record)))
+    for option, path, _ in outputs:
+        if not path.parent.is_dir():
+            raise InputValueError(f"--{option}: the folder {path.parent} does not exist")
+    for _, path, text in outputs:
+        atomic_write(path, text)
+    print(record.text)
+    for _, path, _ in outputs:
+        print(f"wrote {path}")
+    return EXIT_PASS if result.passed else EXIT_FAIL
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Entry point; returns the exit code."""
+    args = _parser().parse_args(argv)
+    try:
+        return _check(args)
+    except (InputValueError, InputTypeError) as error:
+        print(f"error: {error}", file=sys.stderr)
+        return EXIT_BAD_INPUT

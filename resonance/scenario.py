@@ -1,0 +1,609 @@
+"""Scenario files: the whole input of a check, in plain TOML.
+
+A scenario names the machine, its operating speed range (with drive skip
+bands), the excitations, the margin rule, a lumped model of the machine and
+its support, the unbalance that drives the response, the vibration class for
+the ISO zones, and what a what-if study may vary. Values are numbers in the
+package convention (SI base units, frequencies in Hz, speeds in rpm) or text
+with a unit, such as ``"45 kN/mm"``, ``"2.5e5 lbf/in"`` or ``"1800 rpm"``.
+
+Every error names the file and the field (``pump.toml: speed.max: ...``);
+:func:`load_scenario` never writes, and :func:`save_scenario` refuses to
+overwrite an existing file unless told to.
+
+Example (see ``notebooks/scenarios/`` for complete files)::
+
+    [scenario]
+    title = "Cooling-water pump P-101 on steel skid"
+    units = "SI"
+
+    [speed]
+    min = "900 rpm"
+    max = "1800 rpm"
+    skip_bands = [["1150 rpm", "1250 rpm"]]
+
+    [[excitations]]
+    order = 1
+
+    [[excitations]]
+    frequency = "100 Hz"
+    label = "2x line"
+
+    [margin]
+    rule = "api-lateral"            # or "flat-15", or a table (see below)
+
+    [model]
+    damping_ratio = 0.04
+    masses = [{ name = "pump", mass = "1800 kg" }]
+    springs = [{ between = ["pump", "ground"], stiffness = "45 kN/mm", label = "skid" }]
+
+    [response]
+    balance_grade = 6.3             # or: unbalance = "2000 g*mm"
+    rotor_mass = "350 kg"
+    force_at = "pump"
+    measure_at = "pump"
+
+    [vibration]
+    group = 2
+    support = "rigid"
+
+    [whatif]
+    vary_springs = ["skid"]
+    tolerance = 0.3
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import os
+import sys
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import tomli_w
+
+from .damping import modal_damping
+from .errors import InputTypeError, InputValueError
+from .excitations import Excitation, permissible_unbalance
+from .inputs import as_si
+from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
+from .model import GROUND, MatrixModel, Spring, lumped_model, matrix_model
+from .speed_range import OperatingRange, operating_range
+from .units import UNIT_SYSTEMS, UnitSystem, ureg
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
+
+__all__ = [
+    "ScenarioError",
+    "MassSpec",
+    "SpringSpec",
+    "ModelSpec",
+    "ResponseSpec",
+    "VibrationSpec",
+    "WhatIfSpec",
+    "Scenario",
+    "parse_scenario",
+    "load_scenario",
+    "scenario_to_dict",
+    "save_scenario",
+]
+
+
+class ScenarioError(InputValueError):
+    """A scenario file or table is invalid; the message names the file and field."""
+
+
+@dataclass(frozen=True)
+class MassSpec:
+    """A lumped mass: ``name`` and ``mass`` [kg]."""
+
+    name: str
+    mass: float
+
+
+@dataclass(frozen=True)
+class SpringSpec:
+    """A spring (with optional dashpot) between two masses or a mass and ground.
+
+    ``stiffness`` [N/m], ``damping`` [N s/m]; ``label`` names it in what-if studies.
+    """
+
+    node_a: str
+    node_b: str
+    stiffness: float
+    damping: float
+    label: str
+
+
+@dataclass(frozen=True)
+class ModelSpec:
+    """A lumped model with modal damping plus optional discrete dashpots.
+
+    Attributes
+    ----------
+    masses, springs
+        The lumped masses and their connections.
+    damping_ratio : float
+        Modal damping ratio given to every mode [-]; the dashpots of the
+        springs add (non-proportional) damping on top.
+    """
+
+    masses: tuple[MassSpec, ...]
+    springs: tuple[SpringSpec, ...]
+    damping_ratio: float
+
+    @property
+    def labels(self) -> tuple[str, ...]:
+        """Mass names in degree-of-freedom order."""
+        return tuple(m.name for m in self.masses)
+
+    def build(
+        self,
+        stiffness_scale: Mapping[str, float] | None = None,
+        mass_scale: Mapping[str, float] | None = None,
+        damping_ratio: float | None = None,
+    ) -> MatrixModel:
+        """The :class:`MatrixModel`, optionally with scaled springs and masses.
+
+        Parameters
+        ----------
+        stiffness_scale : mapping of spring label to factor, optional
+            Factors on the stiffness (and dashpot) of the named springs.
+        mass_scale : mapping of mass name to factor, optional
+            Factors on the named masses.
+        damping_ratio : float, optional
+            Modal damping ratio to use instead of the scenario's.
+        """
+        ks = stiffness_scale or {}
+        ms = mass_scale or {}
+        undamped = lumped_model(
+            {m.name: m.mass * ms.get(m.name, 1.0) for m in self.masses},
+            [Spring(s.node_a, s.node_b, s.stiffness * ks.get(s.label, 1.0), s.damping) for s in self.springs],
+        )
+        zeta = self.damping_ratio if damping_ratio is None else damping_ratio
+        modal = modal_damping(undamped.mass, undamped.stiffness, zeta) if zeta > 0.0 else 0.0
+        return matrix_model(undamped.mass, undamped.stiffness, undamped.damping + modal, undamped.labels)
+
+
+@dataclass(frozen=True)
+class ResponseSpec:
+    """What drives the forced response and where it is read.
+
+    Attributes
+    ----------
+    unbalance : float
+        Unbalance [kg m] acting at 1x.
+    unbalance_basis : str
+        How the unbalance was set (a value, or a balance grade), for the record.
+    force_at, measure_at : str
+        Mass names where the unbalance force acts and the response is read.
+    """
+
+    unbalance: float
+    unbalance_basis: str
+    force_at: str
+    measure_at: str
+
+
+@dataclass(frozen=True)
+class VibrationSpec:
+    """ISO 10816-3 class for the casing-velocity zones: group 1 or 2, rigid or flexible."""
+
+    group: int
+    support: str
+
+
+@dataclass(frozen=True)
+class WhatIfSpec:
+    """What a what-if study varies: spring labels, mass names, and the stiffness tolerance [-]."""
+
+    vary_springs: tuple[str, ...]
+    vary_masses: tuple[str, ...]
+    tolerance: float
+
+
+@dataclass(frozen=True)
+class Scenario:
+    """A validated scenario (see the module notes for the file format)."""
+
+    title: str
+    description: str
+    units: UnitSystem
+    speed: OperatingRange
+    excitations: tuple[Excitation, ...]
+    rule: MarginRule
+    model: ModelSpec
+    response: ResponseSpec
+    vibration: VibrationSpec
+    whatif: WhatIfSpec
+    source: str = "<scenario>"
+
+    def replace(self, **changes: Any) -> Scenario:
+        """A copy with some fields changed (the original is untouched)."""
+        return dataclasses.replace(self, **changes)
+
+
+# --- parsing helpers ---------------------------------------------------------
+
+
+class _Reader:
+    def __init__(self, source: str) -> None:
+        self.source = source
+
+    def fail(self, field: str, message: str) -> ScenarioError:
+        return ScenarioError(f"{self.source}: {field}: {message}")
+
+    def table(self, data: Mapping[str, Any], key: str, field: str, required: bool = True) -> Mapping[str, Any]:
+        if key not in data:
+            if required:
+                raise self.fail(field, "missing; expected a table")
+            return {}
+        value = data[key]
+        if not isinstance(value, Mapping):
+            raise self.fail(field, f"got {value!r}; expected a table")
+        return value
+
+    def known(self, data: Mapping[str, Any], allowed: Sequence[str], field: str) -> None:
+        unknown = sorted(set(data) - set(allowed))
+        if unknown:
+            raise self.fail(
+                f"{field}.{unknown[0]}" if field else unknown[0], f"unknown field; expected one of {sorted(allowed)}"
+            )
+
+    def text(self, data: Mapping[str, Any], key: str, field: str, default: str | None = None) -> str:
+        if key not in data:
+            if default is None:
+                raise self.fail(field, "missing; expected text")
+            return default
+        value = data[key]
+        if not isinstance(value, str):
+            raise self.fail(field, f"got {value!r}; expected text")
+        return value
+
+    def quantity(self, data: Mapping[str, Any], key: str, field: str, kind: str, sign: str = "any") -> float:
+        if key not in data:
+            raise self.fail(field, f"missing; expected a {kind.replace('_', ' ')}")
+        return self.value(data[key], field, kind, sign)
+
+    def value(self, raw: Any, field: str, kind: str, sign: str = "any") -> float:
+        if isinstance(raw, bool):
+            raise self.fail(field, f"got {raw!r}; expected a number or a value with a unit")
+        if isinstance(raw, str):
+            try:
+                raw = ureg.Quantity(raw)
+            except Exception:
+                raise self.fail(field, f"got {raw!r}, which is not a number with a known unit") from None
+        try:
+            return as_si(raw, "value", kind, sign)  # type: ignore[arg-type]
+        except (InputTypeError, InputValueError) as error:
+            raise self.fail(field, str(error).removeprefix("value: ")) from None
+
+    def integer(self, data: Mapping[str, Any], key: str, field: str, default: int | None = None) -> int:
+        if key not in data:
+            if default is None:
+                raise self.fail(field, "missing; expected a whole number")
+            return default
+        value = data[key]
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise self.fail(field, f"got {value!r}; expected a whole number")
+        return value
+
+    def array(self, data: Mapping[str, Any], key: str, field: str, required: bool = True) -> list[Any]:
+        if key not in data:
+            if required:
+                raise self.fail(field, "missing; expected a list")
+            return []
+        value = data[key]
+        if not isinstance(value, list):
+            raise self.fail(field, f"got {value!r}; expected a list")
+        return value
+
+
+def _excitations(r: _Reader, items: list[Any]) -> tuple[Excitation, ...]:
+    out = []
+    for i, item in enumerate(items):
+        field = f"excitations[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with order or frequency")
+        r.known(item, ("order", "frequency", "label"), field)
+        if ("order" in item) == ("frequency" in item):
+            raise r.fail(field, "give exactly one of order (multiple of running speed) or frequency (fixed)")
+        if "order" in item:
+            order = r.value(item["order"], f"{field}.order", "ratio", "positive")
+            label = r.text(item, "label", f"{field}.label", f"{order:g}x")
+            out.append(Excitation(label, order=order))
+        else:
+            frequency = r.value(item["frequency"], f"{field}.frequency", "frequency", "positive")
+            label = r.text(item, "label", f"{field}.label", f"{frequency:g} Hz")
+            out.append(Excitation(label, frequency=frequency))
+    if not out:
+        raise r.fail("excitations", "empty; expected at least one excitation")
+    return tuple(out)
+
+
+def _rule(r: _Reader, data: Mapping[str, Any]) -> MarginRule:
+    r.known(data, ("rule", "table", "name", "source"), "margin")
+    if "table" in data:
+        table = r.table(data, "table", "margin.table")
+        r.known(table, ("amplification_factors", "below", "above"), "margin.table")
+        arrays = {}
+        for key in ("amplification_factors", "below", "above"):
+            values = r.array(table, key, f"margin.table.{key}")
+            arrays[key] = tuple(r.value(v, f"margin.table.{key}[{j}]", "ratio") for j, v in enumerate(values))
+        try:
+            return TableRule(
+                arrays["amplification_factors"],
+                arrays["below"],
+                arrays["above"],
+                r.text(data, "name", "margin.name", "user table"),
+                r.text(data, "source", "margin.source", f"user-defined in {r.source}"),
+            )
+        except InputValueError as error:
+            raise r.fail("margin.table", str(error)) from None
+    name = r.text(data, "rule", "margin.rule", "api-lateral")
+    try:
+        return rule_by_name(name)
+    except InputValueError as error:
+        raise r.fail("margin.rule", str(error).removeprefix("rule: ")) from None
+
+
+def _model(r: _Reader, data: Mapping[str, Any]) -> ModelSpec:
+    r.known(data, ("damping_ratio", "masses", "springs"), "model")
+    zeta = r.quantity(data, "damping_ratio", "model.damping_ratio", "ratio", "nonnegative")
+    if zeta >= 1.0:
+        raise r.fail("model.damping_ratio", f"got {zeta:g}; expected a ratio below 1 (underdamped modes)")
+    masses: list[MassSpec] = []
+    for i, item in enumerate(r.array(data, "masses", "model.masses")):
+        field = f"model.masses[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with name and mass")
+        r.known(item, ("name", "mass"), field)
+        name = r.text(item, "name", f"{field}.name")
+        if name == GROUND or name in [m.name for m in masses]:
+            raise r.fail(f"{field}.name", f"got {name!r}; expected a unique name other than {GROUND!r}")
+        masses.append(MassSpec(name, r.quantity(item, "mass", f"{field}.mass", "mass", "positive")))
+    if not masses:
+        raise r.fail("model.masses", "empty; expected at least one mass")
+    names = [m.name for m in masses]
+    springs = []
+    for i, item in enumerate(r.array(data, "springs", "model.springs")):
+        field = f"model.springs[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with between and stiffness")
+        r.known(item, ("between", "stiffness", "damping", "label"), field)
+        between = r.array(item, "between", f"{field}.between")
+        if len(between) != 2 or any(not isinstance(b, str) for b in between):
+            raise r.fail(f"{field}.between", f"got {between!r}; expected two names")
+        for b in between:
+            if b not in [*names, GROUND]:
+                raise r.fail(
+                    f"{field}.between", f"names {b!r}, which is not a mass; expected one of {[*names, GROUND]}"
+                )
+        if between[0] == between[1]:
+            raise r.fail(f"{field}.between", f"joins {between[0]!r} to itself")
+        stiffness = r.quantity(item, "stiffness", f"{field}.stiffness", "stiffness", "positive")
+        damping = r.value(item.get("damping", 0.0), f"{field}.damping", "damping", "nonnegative")
+        label = r.text(item, "label", f"{field}.label", f"{between[0]}-{between[1]}")
+        springs.append(SpringSpec(between[0], between[1], stiffness, damping, label))
+    if not springs:
+        raise r.fail("model.springs", "empty; expected at least one spring")
+    if not any(GROUND in (s.node_a, s.node_b) for s in springs):
+        raise r.fail("model.springs", "none is grounded; expected the support to reach 'ground'")
+    labels = [s.label for s in springs]
+    if len(set(labels)) != len(labels):
+        raise r.fail("model.springs", f"labels {labels} repeat; expected distinct labels")
+    spec = ModelSpec(tuple(masses), tuple(springs), zeta)
+    try:
+        model = spec.build()
+    except InputValueError as error:
+        raise r.fail("model", str(error)) from None
+    if np.linalg.eigvalsh(model.stiffness)[0] <= 1e-12 * np.abs(model.stiffness).max():
+        raise r.fail("model.springs", "leave a mass free to drift (a zero-frequency mode); connect every mass")
+    return spec
+
+
+def _response(r: _Reader, data: Mapping[str, Any], names: Sequence[str], speed_max: float) -> ResponseSpec:
+    r.known(data, ("unbalance", "balance_grade", "rotor_mass", "force_at", "measure_at"), "response")
+    if "unbalance" in data:
+        if "balance_grade" in data:
+            raise r.fail("response", "give either unbalance or balance_grade with rotor_mass, not both")
+        unbalance = r.quantity(data, "unbalance", "response.unbalance", "unbalance", "positive")
+        basis = f"{unbalance * 1e6:.4g} g mm as given"
+    else:
+        grade = r.quantity(data, "balance_grade", "response.balance_grade", "balance_grade", "positive")
+        rotor = r.quantity(data, "rotor_mass", "response.rotor_mass", "mass", "positive")
+        unbalance = permissible_unbalance(grade, rotor, speed_max)
+        basis = f"ISO 21940-11 G{grade:g} for a {rotor:g} kg rotor at {speed_max:g} rpm"
+    ends = []
+    for key in ("force_at", "measure_at"):
+        value = r.text(data, key, f"response.{key}", names[0])
+        if value not in names:
+            raise r.fail(f"response.{key}", f"got {value!r}; expected one of {list(names)}")
+        ends.append(value)
+    return ResponseSpec(unbalance, basis, ends[0], ends[1])
+
+
+def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scenario:
+    """Validate a scenario given as nested tables (as read from TOML).
+
+    Raises
+    ------
+    ScenarioError
+        Any missing, unknown or invalid field; the message names ``source``
+        and the field.
+    """
+    r = _Reader(source)
+    r.known(data, ("scenario", "speed", "excitations", "margin", "model", "response", "vibration", "whatif"), "")
+    head = r.table(data, "scenario", "scenario")
+    r.known(head, ("title", "description", "units"), "scenario")
+    units = r.text(head, "units", "scenario.units", "SI")
+    if units not in UNIT_SYSTEMS:
+        raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
+
+    speed = r.table(data, "speed", "speed")
+    r.known(speed, ("min", "max", "skip_bands"), "speed")
+    low = r.quantity(speed, "min", "speed.min", "speed", "positive")
+    high = r.quantity(speed, "max", "speed.max", "speed", "positive")
+    if low > high:
+        raise r.fail("speed.max", f"got {high:g} rpm, below speed.min = {low:g} rpm; expected min <= max")
+    bands = []
+    for i, band in enumerate(r.array(speed, "skip_bands", "speed.skip_bands", required=False)):
+        if not isinstance(band, list) or len(band) != 2:
+            raise r.fail(f"speed.skip_bands[{i}]", f"got {band!r}; expected [low, high]")
+        bands.append(tuple(r.value(b, f"speed.skip_bands[{i}]", "speed", "positive") for b in band))
+    try:
+        speed_range = operating_range(low, high, bands)  # type: ignore[arg-type]
+    except InputValueError as error:
+        raise r.fail("speed.skip_bands", str(error)) from None
+
+    model = _model(r, r.table(data, "model", "model"))
+    response = _response(r, r.table(data, "response", "response"), model.labels, high)
+
+    vibration = r.table(data, "vibration", "vibration", required=False)
+    r.known(vibration, ("group", "support"), "vibration")
+    group = r.integer(vibration, "group", "vibration.group", 2)
+    support = r.text(vibration, "support", "vibration.support", "rigid")
+    if group not in (1, 2) or support not in ("rigid", "flexible"):
+        raise r.fail(
+            "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
+        )
+
+    whatif = r.table(data, "whatif", "whatif", required=False)
+    r.known(whatif, ("vary_springs", "vary_masses", "tolerance"), "whatif")
+    spring_labels = [s.label for s in model.springs]
+    grounded = [s.label for s in model.springs if GROUND in (s.node_a, s.node_b)]
+    vary_springs = tuple(r.array(whatif, "vary_springs", "whatif.vary_springs", required=False) or grounded)
+    for name in vary_springs:
+        if name not in spring_labels:
+            raise r.fail("whatif.vary_springs", f"names {name!r}; expected spring labels from {spring_labels}")
+    vary_masses = tuple(r.array(whatif, "vary_masses", "whatif.vary_masses", required=False) or model.labels)
+    for name in vary_masses:
+        if name not in model.labels:
+            raise r.fail("whatif.vary_masses", f"names {name!r}; expected mass names from {list(model.labels)}")
+    tolerance = r.value(whatif.get("tolerance", 0.3), "whatif.tolerance", "ratio", "nonnegative")
+    if not tolerance < 1.0:
+        raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1 (0.3 is +/- 30 %)")
+
+    return Scenario(
+        title=r.text(head, "title", "scenario.title"),
+        description=r.text(head, "description", "scenario.description", ""),
+        units=units,  # type: ignore[arg-type]
+        speed=speed_range,
+        excitations=_excitations(r, r.array(data, "excitations", "excitations")),
+        rule=_rule(r, r.table(data, "margin", "margin", required=False)),
+        model=model,
+        response=response,
+        vibration=VibrationSpec(group, support),
+        whatif=WhatIfSpec(vary_springs, vary_masses, tolerance),
+        source=source,
+    )
+
+
+def load_scenario(path: str | os.PathLike[str]) -> Scenario:
+    """Read and validate a scenario file (TOML). The file is only read.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing, is not valid TOML, or has an invalid field.
+    """
+    name = os.fspath(path)
+    try:
+        raw = Path(path).read_bytes()
+    except OSError as error:
+        raise ScenarioError(f"{name}: cannot be read ({error.strerror})") from None
+    try:
+        data = tomllib.loads(raw.decode("utf-8"))
+    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
+        raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
+    return parse_scenario(data, Path(name).name)
+
+
+def _rule_table(rule: MarginRule) -> dict[str, Any]:
+    if isinstance(rule, ApiLateralRule):
+        return {"rule": "api-lateral"}
+    if isinstance(rule, FlatRule):
+        return {"rule": f"flat-{rule.percent:g}"}
+    if isinstance(rule, TableRule):
+        return {
+            "name": rule.name,
+            "source": rule.source,
+            "table": {
+                "amplification_factors": list(rule.amplification_factors),
+                "below": list(rule.below),
+                "above": list(rule.above),
+            },
+        }
+    raise InputTypeError(f"rule: a {type(rule).__name__} cannot be saved to a scenario file")
+
+
+def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
+    """The scenario as nested tables, in the package convention, ready for TOML.
+
+    ``parse_scenario(scenario_to_dict(s))`` gives back an equal scenario.
+    """
+
+    def excitation(e: Excitation) -> dict[str, Any]:
+        key = {"order": e.order} if e.order is not None else {"frequency": f"{e.frequency!r} Hz"}
+        return {**key, "label": e.label}
+
+    m = scenario.model
+    response: dict[str, Any] = {
+        "unbalance": f"{scenario.response.unbalance!r} kg*m",
+        "force_at": scenario.response.force_at,
+        "measure_at": scenario.response.measure_at,
+    }
+    return {
+        "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
+        "speed": {
+            "min": f"{scenario.speed.speed_min!r} rpm",
+            "max": f"{scenario.speed.speed_max!r} rpm",
+            "skip_bands": [[f"{a!r} rpm", f"{b!r} rpm"] for a, b in scenario.speed.skip_bands],
+        },
+        "excitations": [excitation(e) for e in scenario.excitations],
+        "margin": _rule_table(scenario.rule),
+        "model": {
+            "damping_ratio": m.damping_ratio,
+            "masses": [{"name": x.name, "mass": f"{x.mass!r} kg"} for x in m.masses],
+            "springs": [
+                {
+                    "between": [s.node_a, s.node_b],
+                    "stiffness": f"{s.stiffness!r} N/m",
+                    "damping": f"{s.damping!r} N*s/m",
+                    "label": s.label,
+                }
+                for s in m.springs
+            ],
+        },
+        "response": response,
+        "vibration": {"group": scenario.vibration.group, "support": scenario.vibration.support},
+        "whatif": {
+            "vary_springs": list(scenario.whatif.vary_springs),
+            "vary_masses": list(scenario.whatif.vary_masses),
+            "tolerance": scenario.whatif.tolerance,
+        },
+    }
+
+
+def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: bool = False) -> Path:
+    """Write a scenario as TOML; an existing file is kept unless ``overwrite``.
+
+    Raises
+    ------
+    FileExistsError
+        ``path`` exists and ``overwrite`` is False.
+    """
+    target = Path(path)
+    if target.exists() and not overwrite:
+        raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")
+    text = tomli_w.dumps(scenario_to_dict(scenario))
+    temporary = target.with_name(f".{target.name}.tmp")
+    temporary.write_text(text, encoding="utf-8")
+    os.replace(temporary, target)
+    return target

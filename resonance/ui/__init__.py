@@ -1,0 +1,10 @@
+"""Presentation: plotly figures from results and ipywidgets panels.
+
+Nothing here computes physics: figures are drawn from :class:`StudyResult`
+and the what-if results, and panels edit a scenario and re-run
+:func:`resonance.study.run_study`.
+"""
+
+from .panels import DesignPanel, RecordPanel, WhatIfPanel, caution_banner, multi_mode_panel, single_mode_panel
+
+__all__ = ["DesignPanel", "RecordPanel", "WhatIfPanel", "caution_banner", "multi_mode_panel", "single_mode_panel"]

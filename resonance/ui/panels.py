@@ -1,0 +1,489 @@
+"""Widget panels: a scenario, a few controls, live figures and verdicts.
+
+A panel holds a scenario, lets the user edit the speed range, the damping and
+the unit system (and, in the what-if panel, support stiffness, mass, a drive
+skip band and the tolerance band), re-runs the one flow
+(:func:`resonance.study.run_study`) on every change and updates its figures'
+traces in place. Panels can be driven without a browser: set a control's
+``.value`` and the result, the text and the figure data change at once.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import html
+import math
+import os
+from pathlib import Path
+
+import ipywidgets as w
+
+from ..errors import InputValueError
+from ..record import CAUTION, Record, build_record, write_json
+from ..scenario import Scenario, load_scenario, save_scenario
+from ..speed_range import operating_range
+from ..study import StudyResult, run_study
+from ..units import UnitSystem, display_unit
+from ..whatif import ToleranceResult, scaled_model, smallest_change, tolerance_check
+from .plots import (
+    findings_table_html,
+    interference_figure,
+    modes_table_html,
+    response_figure,
+    update_interference_figure,
+    update_response_figure,
+)
+from .report import write_html
+
+__all__ = ["caution_banner", "DesignPanel", "single_mode_panel", "multi_mode_panel", "WhatIfPanel", "RecordPanel"]
+
+_BANNER_STYLE = "background:#fff4e0;border-left:6px solid #e08a00;padding:8px 12px;margin:4px 0;font-size:90%"
+
+
+def caution_banner() -> w.HTML:
+    """The caution every notebook shows first."""
+    return w.HTML(f"<div style='{_BANNER_STYLE}'><b>Caution.</b> {html.escape(CAUTION)}</div>")
+
+
+def _verdict_html(text: str, passed: bool) -> str:
+    colour = "#2a9d4b" if passed else "#d62828"
+    lines = "<br>".join(html.escape(line) for line in text.splitlines())
+    return f"<div class='verdict' style='border-left:6px solid {colour};padding:6px 10px'>{lines}</div>"
+
+
+def _speed_slider(scenario: Scenario) -> w.IntRangeSlider:
+    low, high = scenario.speed.speed_min, scenario.speed.speed_max
+    step = 10 if high < 6000 else 50
+    return w.IntRangeSlider(
+        value=(round(low), round(high)),
+        min=int(max(step, step * math.floor(0.4 * low / step))),
+        max=int(step * math.ceil(1.6 * high / step)),
+        step=step,
+        description="speed [rpm]",
+        continuous_update=False,
+        layout=w.Layout(width="520px"),
+        style={"description_width": "110px"},
+    )
+
+
+class DesignPanel:
+    """Live check of one scenario: speed range, damping and units as controls.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The starting input (never modified; the panel keeps its own edited copy
+        in :attr:`scenario`).
+    views : tuple of str
+        Which views to show: ``"response"``, ``"interference"``, ``"modes"``,
+        ``"findings"``.
+
+    Attributes
+    ----------
+    scenario : Scenario
+        The scenario as currently edited.
+    result : StudyResult
+        The result of the current scenario.
+    widget : ipywidgets.VBox
+        The panel (a notebook shows it when the panel is a cell's last value).
+    """
+
+    def __init__(self, scenario: Scenario, views: tuple[str, ...] = ("response", "interference", "modes", "findings")):
+        self.original = scenario
+        self.scenario = scenario
+        self.views = views
+        self.speed = _speed_slider(scenario)
+        self.damping = w.FloatSlider(
+            value=scenario.model.damping_ratio,
+            min=0.005,
+            max=0.3,
+            step=0.005,
+            readout_format=".3f",
+            description="damping ratio",
+            continuous_update=False,
+            style={"description_width": "110px"},
+            layout=w.Layout(width="520px"),
+        )
+        self.af_label = w.HTML()
+        self.units = w.ToggleButtons(
+            options=["SI", "US"],
+            value=scenario.units,
+            description="units",
+            style={"description_width": "110px", "button_width": "60px"},
+        )
+        self.point = w.Dropdown(
+            options=list(scenario.model.labels),
+            value=scenario.response.measure_at,
+            description="response at",
+            style={"description_width": "110px"},
+        )
+        self.verdict = w.HTML()
+        self.findings_html = w.HTML()
+        self.modes_html = w.HTML()
+        self.message = w.HTML()
+        self.save_name = w.Text(
+            placeholder="new-scenario.toml", description="save as", style={"description_width": "110px"}
+        )
+        self.save_button = w.Button(description="Save scenario", icon="save")
+        self.result: StudyResult = self.compute()
+        self.response_fig = response_figure(self.result, self.system, widget=True) if "response" in views else None
+        self.interference_fig = (
+            interference_figure(self.result, self.system, widget=True) if "interference" in views else None
+        )
+        self._render_text()
+        for control in (self.speed, self.damping, self.units, self.point):
+            control.observe(self._changed, names="value")
+        self.save_button.on_click(lambda _: self.save(self.save_name.value))
+        self.widget = w.VBox(self._children())
+
+    # -- state ------------------------------------------------------------
+    @property
+    def system(self) -> UnitSystem:
+        """The unit system shown."""
+        return self.units.value  # type: ignore[no-any-return]
+
+    def edited_scenario(self) -> Scenario:
+        """The scenario with the controls' values applied."""
+        low, high = self.speed.value
+        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
+        speed = operating_range(float(low), float(high), bands)
+        model = dataclasses.replace(self.original.model, damping_ratio=float(self.damping.value))
+        response = dataclasses.replace(self.original.response, measure_at=self.point.value)
+        return self.original.replace(speed=speed, model=model, response=response, units=self.system)
+
+    def compute(self) -> StudyResult:
+        """Re-run the study for the controls' values (no drawing)."""
+        self.scenario = self.edited_scenario()
+        return run_study(self.scenario)
+
+    def update(self) -> None:
+        """Recompute and refresh every view in place."""
+        self.result = self.compute()
+        if self.response_fig is not None:
+            update_response_figure(self.response_fig, self.result, self.system)
+        if self.interference_fig is not None:
+            update_interference_figure(self.interference_fig, self.result, self.system)
+        self._render_text()
+
+    def _changed(self, _change: object) -> None:
+        try:
+            self.update()
+            self.message.value = ""
+        except InputValueError as error:
+            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+
+    def save(self, path: str | os.PathLike[str]) -> Path | None:
+        """Save the edited scenario; an existing file is never overwritten."""
+        if not str(path).strip():
+            self.message.value = "<span style='color:#d62828'>save as: give a file name</span>"
+            return None
+        try:
+            target = save_scenario(self.scenario, path)
+        except FileExistsError as error:
+            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+            return None
+        self.message.value = f"saved {html.escape(str(target))}"
+        return target
+
+    # -- text ---------------------------------------------------------------
+    def summary(self) -> str:
+        """What the panel says, as plain text (the verdict, AF and margins)."""
+        r = self.result
+        lines = [r.summary()]
+        hp = r.half_power
+        if hp is not None and r.modes:
+            mode = min(r.modes, key=lambda m: abs(m.speed - hp.peak_frequency))
+            lines.append(
+                f"Response peak at {hp.peak_frequency:.0f} rpm: AF {hp.amplification_factor:.1f} by half-power; "
+                f"{mode.label}: 1/(2 zeta) = {mode.amplification_factor:.1f}"
+            )
+        return "\n".join(lines)
+
+    def _render_text(self) -> None:
+        zeta = float(self.damping.value)
+        self.af_label.value = (
+            f"AF = 1/(2 zeta) = {1 / (2 * zeta):.1f}; log dec. {2 * math.pi * zeta / math.sqrt(1 - zeta**2):.3f}"
+        )
+        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.findings_html.value = findings_table_html(self.result)
+        self.modes_html.value = modes_table_html(self.result, self.system)
+
+    def _children(self) -> list[w.Widget]:
+        controls = [self.speed, w.HBox([self.damping, self.af_label]), self.units]
+        if len(self.scenario.model.labels) > 1:
+            controls.append(self.point)
+        children: list[w.Widget] = [
+            caution_banner(),
+            w.HTML(f"<h3>{html.escape(self.scenario.title)}</h3>"),
+            *controls,
+            self.verdict,
+            self.message,
+        ]
+        if self.response_fig is not None:
+            children.append(self.response_fig)
+        if "modes" in self.views:
+            children.append(self.modes_html)
+        if self.interference_fig is not None:
+            children.append(self.interference_fig)
+        if "findings" in self.views:
+            children.append(self.findings_html)
+        children.append(w.HBox([self.save_name, self.save_button]))
+        return children
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
+
+
+def single_mode_panel(scenario: Scenario) -> DesignPanel:
+    """A one-mode check: response and phase against speed, AF, margins, verdict."""
+    return DesignPanel(scenario, views=("response", "findings"))
+
+
+def multi_mode_panel(scenario: Scenario) -> DesignPanel:
+    """A machine-on-support check: modes, receptance, interference diagram, findings, ISO zone."""
+    return DesignPanel(scenario, views=("response", "modes", "interference", "findings"))
+
+
+class WhatIfPanel:
+    """What-if study: scale support stiffness and mass, move the range, add a skip band.
+
+    Also finds the smallest stiffness or mass change that makes every check
+    pass, and evaluates the checks over the stiffness tolerance band.
+    """
+
+    def __init__(self, scenario: Scenario):
+        self.original = scenario
+        self.scenario = scenario
+        style = {"description_width": "130px"}
+        wide = w.Layout(width="520px")
+        self.stiffness = w.FloatLogSlider(
+            value=1.0,
+            base=10,
+            min=-0.6,
+            max=0.6,
+            step=0.002,
+            readout_format=".3f",
+            description="stiffness x",
+            continuous_update=False,
+            style=style,
+            layout=wide,
+        )
+        self.mass = w.FloatLogSlider(
+            value=1.0,
+            base=10,
+            min=-0.6,
+            max=0.6,
+            step=0.002,
+            readout_format=".3f",
+            description="mass x",
+            continuous_update=False,
+            style=style,
+            layout=wide,
+        )
+        self.speed = _speed_slider(scenario)
+        low, high = scenario.speed.speed_min, scenario.speed.speed_max
+        band = (
+            scenario.speed.skip_bands[0]
+            if scenario.speed.skip_bands
+            else (low + 0.4 * (high - low), low + 0.5 * (high - low))
+        )
+        self.skip_on = w.Checkbox(value=bool(scenario.speed.skip_bands), description="drive skip band", indent=False)
+        self.skip = w.IntRangeSlider(
+            value=(int(band[0]), int(band[1])),
+            min=self.speed.min,
+            max=self.speed.max,
+            step=self.speed.step,
+            description="skip [rpm]",
+            continuous_update=False,
+            style=style,
+            layout=wide,
+        )
+        self.tolerance = w.FloatSlider(
+            value=scenario.whatif.tolerance,
+            min=0.0,
+            max=0.6,
+            step=0.05,
+            description="stiffness +/-",
+            readout_format=".0%",
+            continuous_update=False,
+            style=style,
+            layout=wide,
+        )
+        self.units = w.ToggleButtons(
+            options=["SI", "US"],
+            value=scenario.units,
+            description="units",
+            style={"description_width": "130px", "button_width": "60px"},
+        )
+        self.find_stiffness = w.Button(description="Smallest stiffness fix")
+        self.find_mass = w.Button(description="Smallest mass fix")
+        self.values = w.HTML()
+        self.verdict = w.HTML()
+        self.tolerance_text = w.HTML()
+        self.fix_text = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+        self.result, self.band = self.compute()
+        self.figure = interference_figure(self.result, self.system, self.band, widget=True)
+        self._render_text()
+        for control in (self.stiffness, self.mass, self.speed, self.skip_on, self.skip, self.tolerance, self.units):
+            control.observe(self._changed, names="value")
+        self.find_stiffness.on_click(lambda _: self.solve("stiffness"))
+        self.find_mass.on_click(lambda _: self.solve("mass"))
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                w.HTML(f"<h3>What-if: {html.escape(scenario.title)}</h3>"),
+                self.stiffness,
+                self.mass,
+                self.values,
+                self.speed,
+                w.HBox([self.skip_on, self.skip]),
+                self.tolerance,
+                self.units,
+                self.verdict,
+                self.tolerance_text,
+                w.HBox([self.find_stiffness, self.find_mass]),
+                self.fix_text,
+                self.message,
+                self.figure,
+                self.findings_html,
+            ]
+        )
+
+    @property
+    def system(self) -> UnitSystem:
+        """The unit system shown."""
+        return self.units.value  # type: ignore[no-any-return]
+
+    def edited_scenario(self) -> Scenario:
+        """The scenario with the range, skip band and tolerance of the controls."""
+        low, high = self.speed.value
+        bands = []
+        if self.skip_on.value:
+            a, b = self.skip.value
+            a, b = max(a, low), min(b, high)
+            if a < b and not (a <= low and b >= high):
+                bands.append((float(a), float(b)))
+        whatif = dataclasses.replace(self.original.whatif, tolerance=float(self.tolerance.value))
+        return self.original.replace(
+            speed=operating_range(float(low), float(high), bands), whatif=whatif, units=self.system
+        )
+
+    def compute(self) -> tuple[StudyResult, ToleranceResult]:
+        """Re-run the study and the tolerance band for the controls (no drawing)."""
+        self.scenario = self.edited_scenario()
+        model = scaled_model(self.scenario, float(self.stiffness.value), float(self.mass.value))
+        result = run_study(self.scenario, model=model)
+        band = tolerance_check(
+            self.scenario, stiffness_scale=float(self.stiffness.value), mass_scale=float(self.mass.value)
+        )
+        return result, band
+
+    def update(self) -> None:
+        """Recompute and refresh in place."""
+        self.result, self.band = self.compute()
+        update_interference_figure(self.figure, self.result, self.system, self.band)
+        self._render_text()
+
+    def _changed(self, _change: object) -> None:
+        try:
+            self.update()
+            self.message.value = ""
+        except InputValueError as error:
+            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+
+    def solve(self, parameter: str) -> str:
+        """Find the smallest fix of one parameter, show it and set its slider."""
+        change = smallest_change(self.edited_scenario(), parameter)  # type: ignore[arg-type]
+        targets = self.scenario.whatif.vary_springs if parameter == "stiffness" else self.scenario.whatif.vary_masses
+        text = change.describe(targets)
+        if change.scale is not None:
+            slider = self.stiffness if parameter == "stiffness" else self.mass
+            slider.value = change.scale
+        self.fix_text.value = html.escape(text)
+        return text
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return f"{self.result.summary()}\n{self.band.summary()}"
+
+    def _render_text(self) -> None:
+        k_unit, k_factor = display_unit("stiffness", self.system)
+        m_unit, m_factor = display_unit("mass", self.system)
+        springs = {s.label: s for s in self.original.model.springs}
+        masses = {m.name: m for m in self.original.model.masses}
+        parts = [
+            f"{name}: {springs[name].stiffness * self.stiffness.value * k_factor:.4g} {k_unit}"
+            for name in self.original.whatif.vary_springs
+        ] + [
+            f"{name}: {masses[name].mass * self.mass.value * m_factor:.4g} {m_unit}"
+            for name in self.original.whatif.vary_masses
+        ]
+        self.values.value = "<small>" + html.escape("; ".join(parts)) + "</small>"
+        self.verdict.value = _verdict_html(self.result.summary(), self.result.passed)
+        self.tolerance_text.value = _verdict_html(self.band.summary(), self.band.passed)
+        self.findings_html.value = findings_table_html(self.result)
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
+
+
+class RecordPanel:
+    """Load a scenario file, run every check, show the record and export it."""
+
+    def __init__(self, path: str | os.PathLike[str] = "", output_dir: str | os.PathLike[str] = "records"):
+        self.path = w.Text(value=str(path), description="scenario", layout=w.Layout(width="520px"))
+        self.output_dir = w.Text(value=str(output_dir), description="export to", layout=w.Layout(width="520px"))
+        self.load_button = w.Button(description="Load and run", icon="play")
+        self.export_button = w.Button(description="Export HTML + JSON", icon="download")
+        self.text = w.HTML()
+        self.message = w.HTML()
+        self.record: Record | None = None
+        self.result: StudyResult | None = None
+        self.load_button.on_click(lambda _: self.load())
+        self.export_button.on_click(lambda _: self.export())
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                self.path,
+                w.HBox([self.load_button]),
+                self.message,
+                self.text,
+                self.output_dir,
+                self.export_button,
+            ]
+        )
+        if self.path.value:
+            self.load()
+
+    def load(self) -> bool:
+        """Load and run the scenario in the path field; show errors, never a partial record."""
+        try:
+            scenario = load_scenario(self.path.value)
+            result = run_study(scenario)
+        except InputValueError as error:
+            self.record, self.result = None, None
+            self.text.value = ""
+            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+            return False
+        self.result, self.record = result, build_record(result)
+        self.text.value = f"<pre style='font-size:85%'>{html.escape(self.record.text)}</pre>"
+        self.message.value = _verdict_html(result.summary(), result.passed)
+        return True
+
+    def export(self) -> tuple[Path, Path] | None:
+        """Write the HTML and JSON records to the export folder."""
+        if self.record is None or self.result is None:
+            self.message.value = "<span style='color:#d62828'>nothing to export: load a scenario first</span>"
+            return None
+        folder = Path(self.output_dir.value)
+        folder.mkdir(parents=True, exist_ok=True)
+        stem = Path(self.path.value).stem
+        html_path = write_html(self.result, self.record, folder / f"{stem}.html")
+        json_path = write_json(self.record, folder / f"{stem}.json")
+        self.message.value += f"<p>exported {html.escape(str(html_path))} and {html.escape(str(json_path))}</p>"
+        return html_path, json_path
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]

@@ -1,0 +1,253 @@
+"""Plotly figures drawn from study results (no physics here).
+
+Each view has a builder that makes an empty figure with a fixed set of traces
+and an updater that fills them from a result, so a live panel updates its
+traces in place (``FigureWidget``) and a static record draws the same figure
+(``go.Figure``).
+"""
+
+from __future__ import annotations
+
+import html
+import math
+from collections.abc import Sequence
+
+import numpy as np
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from ..study import StudyResult, clear_band, required_margins
+from ..units import UnitSystem, display_unit
+from ..whatif import ToleranceResult
+
+__all__ = [
+    "response_figure",
+    "update_response_figure",
+    "interference_figure",
+    "update_interference_figure",
+    "modes_table_html",
+    "findings_table_html",
+]
+
+# Colours of our own: operating speeds blue, required clear bands orange,
+# passing coincidences green, failing ones red.
+OPERATING = "rgba(60, 120, 216, 0.15)"
+CLEAR_BAND = "rgba(230, 140, 20, 0.22)"
+TOLERANCE = "rgba(120, 120, 120, 0.18)"
+PASS = "#2a9d4b"
+FAIL = "#d62828"
+
+
+def _operating_shapes(result: StudyResult, rows: Sequence[int]) -> list[dict]:
+    shapes = []
+    for low, high in result.scenario.speed.intervals:
+        for row in rows:
+            axis = "" if row == 1 else str(row)
+            shapes.append(
+                {
+                    "type": "rect",
+                    "xref": f"x{axis}",
+                    "yref": f"y{axis} domain",
+                    "x0": low,
+                    "x1": high,
+                    "y0": 0,
+                    "y1": 1,
+                    "fillcolor": OPERATING,
+                    "line_width": 0,
+                    "layer": "below",
+                }
+            )
+    return shapes
+
+
+def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
+    """Unbalance response, receptance and phase lag against speed.
+
+    Three rows sharing the speed axis: unbalance response (displacement
+    pk-pk), response per unit harmonic force (receptance magnitude), and
+    phase lag; the operating speeds shaded, the speeds the range must keep
+    clear of around each 1x coincidence shaded, and the half-power peak marked.
+    """
+    fig = make_subplots(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.06, row_heights=[0.42, 0.3, 0.28])
+    fig.add_trace(go.Scatter(name="unbalance response", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
+    fig.add_trace(
+        go.Scatter(name="peak (half-power)", mode="markers", marker={"size": 9, "color": "#1f4e9c"}), row=1, col=1
+    )
+    fig.add_trace(go.Scatter(name="per unit force", mode="lines", line={"color": "#6a4c93"}), row=2, col=1)
+    fig.add_trace(go.Scatter(name="phase lag", mode="lines", line={"color": "#444444"}), row=3, col=1)
+    fig.update_layout(
+        height=620, margin={"l": 70, "r": 20, "t": 40, "b": 50}, showlegend=False, template="plotly_white"
+    )
+    fig.update_xaxes(title_text="speed [rpm]", row=3, col=1)
+    fig.update_yaxes(range=[0, 180], dtick=45, title_text="phase lag [deg]", row=3, col=1)
+    if widget:
+        fig = go.FigureWidget(fig)
+    update_response_figure(fig, result, system)
+    return fig
+
+
+def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSystem = "SI") -> None:
+    """Fill a :func:`response_figure` from a result, in place."""
+    d_unit, d_factor = display_unit("displacement", system)
+    h_unit, h_factor = display_unit("receptance", system)
+    pk_pk = 2.0 * result.displacement * d_factor
+    shapes = _operating_shapes(result, (1, 2, 3))
+    for finding in result.findings:
+        if finding.excitation.order == 1.0 and finding.coincidence_speed is not None:
+            below, above = required_margins(result.scenario.rule, finding.mode)
+            low, high = clear_band(finding.coincidence_speed, below, above)
+            for axis in ("", "2", "3"):
+                shapes.append(
+                    {
+                        "type": "rect",
+                        "xref": f"x{axis}",
+                        "yref": f"y{axis} domain",
+                        "x0": low,
+                        "x1": high,
+                        "y0": 0,
+                        "y1": 1,
+                        "fillcolor": CLEAR_BAND,
+                        "line_width": 0,
+                        "layer": "below",
+                    }
+                )
+    with fig.batch_update():
+        fig.data[0].update(x=result.speed, y=pk_pk)
+        hp = result.half_power
+        fig.data[1].update(
+            x=[hp.peak_frequency] if hp else [],
+            y=[2.0 * hp.peak_amplitude * d_factor] if hp else [],
+            text=[f"AF {hp.amplification_factor:.1f}"] if hp else [],
+        )
+        fig.data[2].update(x=result.speed, y=result.receptance * h_factor)
+        fig.data[3].update(x=result.speed, y=np.degrees(result.phase_lag))
+        fig.layout.shapes = shapes
+        fig.layout.yaxis.title.text = f"unbalance response [{d_unit} pk-pk]"
+        fig.layout.yaxis2.title.text = f"|H| [{h_unit}]"
+        fig.layout.title.text = html.escape(result.scenario.title)
+
+
+def interference_figure(
+    result: StudyResult, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None, widget: bool = False
+) -> go.Figure:
+    """Natural frequencies against speed with the excitation lines (an interference diagram).
+
+    Order lines ``f = n N / 60`` and fixed-frequency sources as lines, natural
+    frequencies as dashed lines, the operating speeds shaded, the speeds to keep
+    clear around each coincidence shaded on its frequency, coincidences marked
+    green (pass) or red (fail), and the tolerance band of each mode (when given)
+    shaded grey.
+    """
+    fig = go.Figure()
+    for excitation in result.scenario.excitations:
+        fig.add_trace(go.Scatter(name=excitation.label, mode="lines", line={"width": 1.5}))
+    for mode in result.modes:
+        fig.add_trace(go.Scatter(name=mode.label, mode="lines", line={"dash": "dash", "color": "#555555", "width": 1}))
+    fig.add_trace(
+        go.Scatter(name="coincidences", mode="markers", marker={"size": 11, "symbol": "circle-open", "line_width": 3})
+    )
+    fig.update_layout(
+        height=480,
+        margin={"l": 70, "r": 20, "t": 40, "b": 50},
+        template="plotly_white",
+        xaxis_title="speed [rpm]",
+        legend={"orientation": "h", "y": -0.18},
+    )
+    if widget:
+        fig = go.FigureWidget(fig)
+    update_interference_figure(fig, result, system, tolerance)
+    return fig
+
+
+def update_interference_figure(
+    fig: go.Figure, result: StudyResult, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None
+) -> None:
+    """Fill an :func:`interference_figure` from a result, in place."""
+    f_unit, f_factor = display_unit("frequency", system)
+    speed_max = result.scenario.speed.speed_max
+    x_max = 1.4 * speed_max
+    frequencies = [m.frequency for m in result.modes]
+    fixed = [e.frequency for e in result.scenario.excitations if e.frequency is not None]
+    top_order = max((e.order for e in result.scenario.excitations if e.order is not None), default=1.0)
+    y_max = 1.25 * max([*frequencies, *fixed, top_order * speed_max / 60.0]) * f_factor
+    shapes = _operating_shapes(result, (1,))
+    xs, ys, colours, texts = [], [], [], []
+    for finding in result.findings:
+        if finding.coincidence_speed is None:
+            continue
+        n_c, f_n = finding.coincidence_speed, finding.mode.frequency * f_factor
+        low, high = clear_band(n_c, *required_margins(result.scenario.rule, finding.mode))
+        shapes.append(
+            {
+                "type": "rect",
+                "x0": low,
+                "x1": min(high, 10 * x_max),
+                "y0": 0.97 * f_n,
+                "y1": 1.03 * f_n,
+                "fillcolor": CLEAR_BAND,
+                "line_width": 0,
+                "layer": "below",
+            }
+        )
+        if n_c <= x_max:
+            xs.append(n_c)
+            ys.append(f_n)
+            colours.append(PASS if finding.passed else FAIL)
+            texts.append(
+                f"{finding.mode.label} x {finding.excitation.label}: SM {finding.margin:.1f} % "
+                f"(required {finding.required_margin:.1f} %) {finding.verdict}"
+            )
+    if tolerance is not None:
+        for low_f, high_f in tolerance.frequency_bands:
+            shapes.append(
+                {
+                    "type": "rect",
+                    "xref": "x domain",
+                    "x0": 0,
+                    "x1": 1,
+                    "y0": low_f * f_factor,
+                    "y1": high_f * f_factor,
+                    "fillcolor": TOLERANCE,
+                    "line_width": 0,
+                    "layer": "below",
+                }
+            )
+    with fig.batch_update():
+        for i, excitation in enumerate(result.scenario.excitations):
+            fig.data[i].update(x=[0.0, x_max], y=excitation.frequency_at([0.0, x_max]) * f_factor)
+        offset = len(result.scenario.excitations)
+        for i, mode in enumerate(result.modes):
+            fig.data[offset + i].update(x=[0.0, x_max], y=[mode.frequency * f_factor] * 2)
+        fig.data[-1].update(
+            x=xs,
+            y=ys,
+            marker_color=colours,
+            marker_line_color=colours,
+            text=texts,
+            hovertemplate="%{text}<extra></extra>",
+        )
+        fig.layout.shapes = shapes
+        fig.layout.yaxis.range = [0.0, y_max]
+        fig.layout.xaxis.range = [0.0, x_max]
+        fig.layout.yaxis.title.text = f"frequency [{f_unit}]"
+        fig.layout.title.text = "Natural frequencies against excitations"
+
+
+def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
+    """Modes as an HTML table: frequency, damping ratio, log decrement, AF."""
+    f_unit, f_factor = display_unit("frequency", system)
+    rows = "".join(
+        f"<tr><td>{html.escape(m.label)}</td><td>{m.frequency * f_factor:.2f}</td><td>{m.speed:.0f}</td>"
+        f"<td>{m.damping_ratio:.4f}</td><td>{m.log_decrement:.3f}</td>"
+        f"<td>{'inf' if math.isinf(m.amplification_factor) else f'{m.amplification_factor:.1f}'}</td></tr>"
+        for m in result.modes
+    )
+    return (
+        f"<table class='modes'><thead><tr><th>mode</th><th>f<sub>n</sub> [{f_unit}]</th><th>1x speed [rpm]</th>"
+        f"<th>damping ratio</th><th>log dec.</th><th>AF</th></tr></thead><tbody>{rows}</tbody></table>"
+    )
+
+
+def findings_table_html(result: StudyResult) -> str:
+    """The findings table, worst first, as HTML."""
+    return result.findings.to_html()

@@ -1,0 +1,58 @@
+"""The self-contained HTML record: text, tables and figures, readable offline.
+
+plotly.js is embedded once, inline, so the file opens without a network.
+"""
+
+from __future__ import annotations
+
+import html
+import os
+from pathlib import Path
+
+from ..record import CAUTION, Record, atomic_write
+from ..study import StudyResult
+from .plots import interference_figure, modes_table_html, response_figure
+
+__all__ = ["render_html", "write_html"]
+
+_STYLE = """
+body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:0 16px;color:#222}
+table{border-collapse:collapse;font-size:90%;margin:8px 0}td,th{border:1px solid #bbb;padding:3px 8px;text-align:left}
+tr.fail td{background:#fde2e2}tr.pass td{background:#e6f4ea}.caution{background:#fff4e0;border-left:6px solid #e08a00;
+padding:8px 12px}.verdict{font-size:120%;font-weight:bold}
+pre{background:#f6f6f6;padding:8px;overflow-x:auto;font-size:85%}
+"""
+
+
+def render_html(result: StudyResult, record: Record) -> str:
+    """The HTML record as text (figures with plotly.js inline)."""
+    system = result.scenario.units
+    figures = [response_figure(result, system), interference_figure(result, system)]
+    plots = [fig.to_html(full_html=False, include_plotlyjs=(i == 0)) for i, fig in enumerate(figures)]
+    verdict_colour = "#2a9d4b" if result.passed else "#d62828"
+    data = record.data
+    return f"""<!DOCTYPE html>
+<html lang="en"><head><meta charset="utf-8"><title>{html.escape(result.scenario.title)}</title>
+<style>{_STYLE}</style></head><body>
+<h1>{html.escape(result.scenario.title)}</h1>
+<p class="caution"><b>Caution.</b> {html.escape(CAUTION)}</p>
+<p class="verdict" style="color:{verdict_colour}">Verdict: {html.escape(result.verdict)}</p>
+<pre>{html.escape(result.summary())}</pre>
+<h2>Findings (worst first)</h2>{result.findings.to_html()}
+<h2>Modes</h2>{modes_table_html(result, system)}
+<h2>Figures</h2>{"".join(plots)}
+<h2>Assumptions</h2><ul>{"".join(f"<li>{html.escape(a)}</li>" for a in data["assumptions"])}</ul>
+<h2>Methods and references</h2><ul>{
+        "".join(f"<li>{html.escape(m['method'])} <i>[{html.escape(m['reference'])}]</i></li>" for m in data["methods"])
+    }</ul>
+<h2>Full text record</h2><pre>{html.escape(record.text)}</pre>
+<p><small>Created {html.escape(data["created_utc"])} with {
+        html.escape(", ".join(f"{k} {v}" for k, v in data["software"].items()))
+    }.</small></p>
+</body></html>
+"""
+
+
+def write_html(result: StudyResult, record: Record, path: str | os.PathLike[str]) -> Path:
+    """Write the HTML record (through a temporary file: never a partial record)."""
+    return atomic_write(path, render_html(result, record))
