@@ -1,0 +1,134 @@
+"""Write the notebooks in notebooks/ from the cell lists below and execute them.
+
+The notebooks are the product's face and stay thin: each loads a scenario,
+shows a panel from resonance.ui and prints the verdict as text (which nbval
+compares). Cells whose output is a live widget view carry the tag
+``nbval-ignore-output`` (widget model ids change at every run).
+
+Run after changing a notebook's cells or anything that changes what they print:
+``python tools/build_notebooks.py`` (executes with stored widget state off, so
+each notebook stays a few KB; see ../shared/STACK.md).
+"""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+from pathlib import Path
+
+import nbformat
+from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook
+
+HERE = Path(__file__).resolve().parent.parent / "notebooks"
+
+CAUTION = (
+    "> **Caution.** Running a machine near an unverified resonance can fail shafts, bearings, couplings, "
+    "welds and anchors by fatigue within hours. These results are engineering estimates that depend on "
+    "the model and its inputs (support stiffness above all). They do not replace the governing standard, "
+    "the manufacturer's data, local codes, field verification, or review by a qualified (where required, "
+    "licensed) engineer."
+)
+
+WIDGET = {"tags": ["nbval-ignore-output"]}  # live widget view: model ids are volatile
+
+
+def code(source: str, widget: bool = False) -> nbformat.NotebookNode:
+    return new_code_cell(source, metadata=dict(WIDGET) if widget else {})
+
+
+NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
+    "01_single_mode_check.ipynb": [
+        new_markdown_cell(
+            "# Single-mode check: a machine on its support\n\n"
+            "One degree of freedom: the pump and motor mass on the lateral stiffness of its skid. "
+            "Drag the **speed range** and the **damping** and watch the unbalance response, the phase lag, "
+            "the amplification factor (half-power method) and the separation margins against every "
+            "excitation order. Shaded blue: the operating speeds; shaded orange: the speeds the range must "
+            "keep clear of around the 1x critical (required margin by the rule in the scenario).\n\n" + CAUTION
+        ),
+        code("from resonance.scenario import load_scenario\nfrom resonance.ui import single_mode_panel"),
+        code('scenario = load_scenario("scenarios/cooling_water_pump.toml")\npanel = single_mode_panel(scenario)\npanel', widget=True),
+        new_markdown_cell("The verdict, as text (this is what the tests compare):"),
+        code("print(panel.summary())\nprint()\nprint(panel.result.findings.to_text())"),
+        new_markdown_cell(
+            "Try: raise the minimum speed to about 1450 rpm (the 2x line then clears the mode by the "
+            "required margin), or switch the units to US customary."
+        ),
+    ],
+    "02_machine_on_support.ipynb": [
+        new_markdown_cell(
+            "# Machine on baseplate on foundation: several modes\n\n"
+            "A lumped model of the machine, its baseplate and a concrete block on soil. The panel shows the "
+            "modes, the unbalance response and receptance at a chosen mass, the interference diagram "
+            "(natural frequencies against the excitation lines over speed, coincidences green when they "
+            "pass and red when they fail), the findings worst first, and the predicted 1x casing velocity "
+            "against the ISO 10816-3 zones.\n\n" + CAUTION
+        ),
+        code("from resonance.scenario import load_scenario\nfrom resonance.ui import multi_mode_panel"),
+        code('scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = multi_mode_panel(scenario)\npanel', widget=True),
+        new_markdown_cell("Modes, verdict and findings as text:"),
+        code(
+            "for mode in panel.result.modes:\n"
+            '    print(f"{mode.label}: {mode.frequency:.2f} Hz, damping ratio {mode.damping_ratio:.4f}, AF {mode.amplification_factor:.1f}")\n'
+            "print()\nprint(panel.summary())\nprint()\nprint(panel.result.findings.to_text())"
+        ),
+    ],
+    "03_what_if.ipynb": [
+        new_markdown_cell(
+            "# What-if study: support stiffness, mass, speed range, skip bands, tolerance\n\n"
+            "Scale the stiffness of the chosen springs and the chosen masses, move the speed range, add a "
+            "drive skip band, and see the margins move. The buttons find the smallest stiffness or mass "
+            "change that makes every check pass; the grey bands show each natural frequency over the "
+            "support-stiffness tolerance, and the checks are evaluated over the whole band.\n\n" + CAUTION
+        ),
+        code("from resonance.scenario import load_scenario\nfrom resonance.ui import WhatIfPanel"),
+        code('scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = WhatIfPanel(scenario)\npanel', widget=True),
+        new_markdown_cell("As loaded:"),
+        code("print(panel.summary())"),
+        new_markdown_cell("The smallest fixes (each sets its slider, so the panel above shows the fixed design):"),
+        code('print(panel.solve("mass"))\npanel.mass.value = 1.0\nprint(panel.solve("stiffness"))\nprint()\nprint(panel.summary())'),
+        new_markdown_cell(
+            "The stiffness fix passes at its nominal value but not over the whole +/- 30 % band: the "
+            "margin is too thin to rely on an uncertain support stiffness. A drive skip band is another "
+            "remedy; tick *drive skip band* and move it over the failing coincidence."
+        ),
+    ],
+    "04_calculation_record.ipynb": [
+        new_markdown_cell(
+            "# Calculation record\n\n"
+            "Load a scenario file, run every check, read the record (inputs, assumptions, methods and "
+            "references, results, verdicts, cautions) and export it as a self-contained HTML file "
+            "(figures included, readable offline) and a JSON file. The same record comes from the command "
+            "line: `python -m resonance check scenarios/feed_pump_foundation.toml --html record.html "
+            "--json record.json`.\n\n" + CAUTION
+        ),
+        code("from resonance.ui import RecordPanel"),
+        code('panel = RecordPanel("scenarios/feed_pump_foundation.toml", output_dir="records")\npanel', widget=True),
+        new_markdown_cell("The record as text (time stamp and versions are replaced when the tests compare it):"),
+        code("print(panel.record.text)"),
+        new_markdown_cell("Export (the panel's button does the same):"),
+        code("html_path, json_path = panel.export()\nprint(html_path.as_posix(), json_path.as_posix())"),
+    ],
+}
+
+
+def main() -> None:
+    for name, cells in NOTEBOOKS.items():
+        notebook = new_notebook(cells=cells)
+        notebook.metadata["kernelspec"] = {"name": "python3", "display_name": "Python 3", "language": "python"}
+        path = HERE / name
+        nbformat.write(notebook, path)
+        subprocess.run(
+            [
+                sys.executable, "-m", "jupyter", "nbconvert", "--execute", "--to", "notebook", "--inplace",
+                "--ExecutePreprocessor.store_widget_state=False", "--ExecutePreprocessor.record_timing=False",
+                str(path),
+            ],
+            check=True,
+            cwd=HERE,
+        )
+        print(f"wrote and executed {path.relative_to(HERE.parent)} ({path.stat().st_size // 1024} KiB)")
+
+
+if __name__ == "__main__":
+    main()
