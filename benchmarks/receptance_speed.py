@@ -23,6 +23,7 @@ from __future__ import annotations
 import argparse
 import multiprocessing
 import time
+from functools import partial
 
 import control
 import numpy as np
@@ -77,9 +78,9 @@ def measure(sizes: list[int]) -> list[str]:
         f = np.linspace(0.1, 1.3 * R.modal_properties(model).frequency.max(), FREQUENCIES)
         stride = 10 if n >= 300 else 1
         repeats = 5 if n <= 100 else 1
-        t_pkg, h = best_of(lambda: R.model_receptance(model, f, 0), repeats)
-        t_ctl, h_ctl = best_of(lambda: control_response(model, f[::stride]), 1 if n > 100 else 3)
-        t_loop, h_loop = best_of(lambda: loop_solve(model, f[::stride]), 1 if n > 100 else 3)
+        t_pkg, h = best_of(partial(R.model_receptance, model, f, 0), repeats)
+        t_ctl, h_ctl = best_of(partial(control_response, model, f[::stride]), 1 if n > 100 else 3)
+        t_loop, h_loop = best_of(partial(loop_solve, model, f[::stride]), 1 if n > 100 else 3)
         t_ctl *= stride
         t_loop *= stride
         diff = max(error(h[::stride], h_loop), error(h_ctl, h_loop))
@@ -102,10 +103,7 @@ def main() -> None:
     parser.add_argument("--sizes", type=int, nargs="+", default=[10, 100, 500])
     parser.add_argument("--load", action="store_true", help="measure again with one core kept busy")
     args = parser.parse_args()
-    header = (
-        "    n   this [ms]  control [ms]   loop [ms]  control/this   loop/this   max diff\n"
-        + "-" * 86
-    )
+    header = "    n   this [ms]  control [ms]   loop [ms]  control/this   loop/this   max diff\n" + "-" * 86
     print(f"receptance column, {FREQUENCIES} frequencies, non-proportional damping")
     print("idle machine:")
     print(header)

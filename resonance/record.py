@@ -84,7 +84,7 @@ def _assumptions(result: StudyResult) -> list[str]:
         "Linear model, small vibration, viscous damping; lumped masses with one translational degree of freedom each.",
         f"Modal damping ratio {s.model.damping_ratio:g} on every mode, plus the discrete dashpots of the springs.",
         "Support stiffness as given; it is the most uncertain input (see the what-if tolerance band).",
-        f"Unbalance {result.scenario.response.unbalance * 1e6:.4g} g mm at 1x ({s.response.unbalance_basis}), "
+        f"Unbalance {result.scenario.response.unbalance * 1e6:.4g} g mm at 1x ({s.response.basis}), "
         f"acting at '{s.response.force_at}'; response read at '{s.response.measure_at}'.",
         "Predicted vibration is the 1x unbalance response only (not a broadband overall value); "
         "velocity RMS = w X / sqrt(2).",

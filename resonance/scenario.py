@@ -179,16 +179,26 @@ class ResponseSpec:
     ----------
     unbalance : float
         Unbalance [kg m] acting at 1x.
-    unbalance_basis : str
-        How the unbalance was set (a value, or a balance grade), for the record.
     force_at, measure_at : str
         Mass names where the unbalance force acts and the response is read.
+    balance_grade : float or None
+        ISO 21940-11 grade [mm/s] the unbalance was set from, if any.
+    rotor_mass : float or None
+        Rotor mass [kg] for the grade.
     """
 
     unbalance: float
-    unbalance_basis: str
     force_at: str
     measure_at: str
+    balance_grade: float | None = None
+    rotor_mass: float | None = None
+
+    @property
+    def basis(self) -> str:
+        """How the unbalance was set, for the record."""
+        if self.balance_grade is None:
+            return f"{self.unbalance * 1e6:.4g} g mm as given"
+        return f"ISO 21940-11 G{self.balance_grade:g} for a {self.rotor_mass:g} kg rotor at the maximum speed"
 
 
 @dataclass(frozen=True)
@@ -227,6 +237,14 @@ class Scenario:
     def replace(self, **changes: Any) -> Scenario:
         """A copy with some fields changed (the original is untouched)."""
         return dataclasses.replace(self, **changes)
+
+    def with_speed(self, speed: OperatingRange) -> Scenario:
+        """A copy with another speed range; a grade-based unbalance follows the new maximum speed."""
+        response = self.response
+        if response.balance_grade is not None and response.rotor_mass is not None:
+            unbalance = permissible_unbalance(response.balance_grade, response.rotor_mass, speed.speed_max)
+            response = dataclasses.replace(response, unbalance=unbalance)
+        return dataclasses.replace(self, speed=speed, response=response)
 
 
 # --- parsing helpers ---------------------------------------------------------
@@ -414,19 +432,19 @@ def _response(r: _Reader, data: Mapping[str, Any], names: Sequence[str], speed_m
         if "balance_grade" in data:
             raise r.fail("response", "give either unbalance or balance_grade with rotor_mass, not both")
         unbalance = r.quantity(data, "unbalance", "response.unbalance", "unbalance", "positive")
-        basis = f"{unbalance * 1e6:.4g} g mm as given"
+        grade: float | None = None
+        rotor: float | None = None
     else:
         grade = r.quantity(data, "balance_grade", "response.balance_grade", "balance_grade", "positive")
         rotor = r.quantity(data, "rotor_mass", "response.rotor_mass", "mass", "positive")
         unbalance = permissible_unbalance(grade, rotor, speed_max)
-        basis = f"ISO 21940-11 G{grade:g} for a {rotor:g} kg rotor at {speed_max:g} rpm"
     ends = []
     for key in ("force_at", "measure_at"):
         value = r.text(data, key, f"response.{key}", names[0])
         if value not in names:
             raise r.fail(f"response.{key}", f"got {value!r}; expected one of {list(names)}")
         ends.append(value)
-    return ResponseSpec(unbalance, basis, ends[0], ends[1])
+    return ResponseSpec(unbalance, ends[0], ends[1], grade, rotor)
 
 
 def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scenario:
@@ -554,11 +572,13 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
         return {**key, "label": e.label}
 
     m = scenario.model
-    response: dict[str, Any] = {
-        "unbalance": f"{scenario.response.unbalance!r} kg*m",
-        "force_at": scenario.response.force_at,
-        "measure_at": scenario.response.measure_at,
-    }
+    given = scenario.response
+    response: dict[str, Any] = (
+        {"unbalance": f"{given.unbalance!r} kg*m"}
+        if given.balance_grade is None
+        else {"balance_grade": given.balance_grade, "rotor_mass": f"{given.rotor_mass!r} kg"}
+    )
+    response.update(force_at=given.force_at, measure_at=given.measure_at)
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
         "speed": {

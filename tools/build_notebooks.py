@@ -47,7 +47,10 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "keep clear of around the 1x critical (required margin by the rule in the scenario).\n\n" + CAUTION
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import single_mode_panel"),
-        code('scenario = load_scenario("scenarios/cooling_water_pump.toml")\npanel = single_mode_panel(scenario)\npanel', widget=True),
+        code(
+            'scenario = load_scenario("scenarios/cooling_water_pump.toml")\npanel = single_mode_panel(scenario)\npanel',
+            widget=True,
+        ),
         new_markdown_cell("The verdict, as text (this is what the tests compare):"),
         code("print(panel.summary())\nprint()\nprint(panel.result.findings.to_text())"),
         new_markdown_cell(
@@ -65,7 +68,10 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "against the ISO 10816-3 zones.\n\n" + CAUTION
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import multi_mode_panel"),
-        code('scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = multi_mode_panel(scenario)\npanel', widget=True),
+        code(
+            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = multi_mode_panel(scenario)\npanel',
+            widget=True,
+        ),
         new_markdown_cell("Modes, verdict and findings as text:"),
         code(
             "for mode in panel.result.modes:\n"
@@ -82,11 +88,16 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "support-stiffness tolerance, and the checks are evaluated over the whole band.\n\n" + CAUTION
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import WhatIfPanel"),
-        code('scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = WhatIfPanel(scenario)\npanel', widget=True),
+        code(
+            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = WhatIfPanel(scenario)\npanel',
+            widget=True,
+        ),
         new_markdown_cell("As loaded:"),
         code("print(panel.summary())"),
         new_markdown_cell("The smallest fixes (each sets its slider, so the panel above shows the fixed design):"),
-        code('print(panel.solve("mass"))\npanel.mass.value = 1.0\nprint(panel.solve("stiffness"))\nprint()\nprint(panel.summary())'),
+        code(
+            'print(panel.solve("mass"))\npanel.mass.value = 1.0\nprint(panel.solve("stiffness"))\nprint()\nprint(panel.summary())'
+        ),
         new_markdown_cell(
             "The stiffness fix passes at its nominal value but not over the whole +/- 30 % band: the "
             "margin is too thin to rely on an uncertain support stiffness. A drive skip band is another "
@@ -120,8 +131,16 @@ def main() -> None:
         nbformat.write(notebook, path)
         subprocess.run(
             [
-                sys.executable, "-m", "jupyter", "nbconvert", "--execute", "--to", "notebook", "--inplace",
-                "--ExecutePreprocessor.store_widget_state=False", "--ExecutePreprocessor.record_timing=False",
+                sys.executable,
+                "-m",
+                "jupyter",
+                "nbconvert",
+                "--execute",
+                "--to",
+                "notebook",
+                "--inplace",
+                "--ExecutePreprocessor.store_widget_state=False",
+                "--ExecutePreprocessor.record_timing=False",
                 str(path),
             ],
             check=True,

@@ -147,9 +147,10 @@ class DesignPanel:
         low, high = self.speed.value
         bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
         speed = operating_range(float(low), float(high), bands)
-        model = dataclasses.replace(self.original.model, damping_ratio=float(self.damping.value))
-        response = dataclasses.replace(self.original.response, measure_at=self.point.value)
-        return self.original.replace(speed=speed, model=model, response=response, units=self.system)
+        edited = self.original.with_speed(speed)
+        model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
+        response = dataclasses.replace(edited.response, measure_at=self.point.value)
+        return edited.replace(model=model, response=response, units=self.system)
 
     def compute(self) -> StudyResult:
         """Re-run the study for the controls' values (no drawing)."""
@@ -366,9 +367,8 @@ class WhatIfPanel:
             if a < b and not (a <= low and b >= high):
                 bands.append((float(a), float(b)))
         whatif = dataclasses.replace(self.original.whatif, tolerance=float(self.tolerance.value))
-        return self.original.replace(
-            speed=operating_range(float(low), float(high), bands), whatif=whatif, units=self.system
-        )
+        edited = self.original.with_speed(operating_range(float(low), float(high), bands))
+        return edited.replace(whatif=whatif, units=self.system)
 
     def compute(self) -> tuple[StudyResult, ToleranceResult]:
         """Re-run the study and the tolerance band for the controls (no drawing)."""

@@ -1,0 +1,29 @@
+"""Shared fixtures: the demo scenarios (invented machines, see notebooks/scenarios/)."""
+
+from pathlib import Path
+
+import pytest
+
+from resonance.scenario import load_scenario
+
+SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
+
+
+@pytest.fixture
+def pump_path() -> Path:
+    return SCENARIOS / "cooling_water_pump.toml"
+
+
+@pytest.fixture
+def foundation_path() -> Path:
+    return SCENARIOS / "feed_pump_foundation.toml"
+
+
+@pytest.fixture
+def pump(pump_path):
+    return load_scenario(pump_path)
+
+
+@pytest.fixture
+def foundation(foundation_path):
+    return load_scenario(foundation_path)
