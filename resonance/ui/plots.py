@@ -80,10 +80,10 @@ def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool
     )
     fig.update_xaxes(title_text="speed [rpm]", row=3, col=1)
     fig.update_yaxes(range=[0, 180], dtick=45, title_text="phase lag [deg]", row=3, col=1)
-    if widget:
-        fig = go.FigureWidget(fig)
     update_response_figure(fig, result, system)
-    return fig
+    # Wrap after filling: a FigureWidget sends later changes as messages to live views, so the data
+    # must be in its initial state for a view that opens afterwards (Voila, a re-opened notebook).
+    return go.FigureWidget(fig) if widget else fig
 
 
 def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSystem = "SI") -> None:
@@ -122,6 +122,8 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
         fig.data[2].update(x=result.speed, y=result.receptance * h_factor)
         fig.data[3].update(x=result.speed, y=np.degrees(result.phase_lag))
         fig.layout.shapes = shapes
+        for axis in (fig.layout.xaxis, fig.layout.xaxis2, fig.layout.xaxis3):
+            axis.range = [float(result.speed[0]), float(result.speed[-1])]
         fig.layout.yaxis.title.text = f"unbalance response [{d_unit} pk-pk]"
         fig.layout.yaxis2.title.text = f"|H| [{h_unit}]"
         fig.layout.title.text = html.escape(result.scenario.title)
@@ -153,10 +155,8 @@ def interference_figure(
         xaxis_title="speed [rpm]",
         legend={"orientation": "h", "y": -0.18},
     )
-    if widget:
-        fig = go.FigureWidget(fig)
     update_interference_figure(fig, result, system, tolerance)
-    return fig
+    return go.FigureWidget(fig) if widget else fig
 
 
 def update_interference_figure(
