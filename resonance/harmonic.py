@@ -17,8 +17,9 @@ import math
 from typing import Literal
 
 import numpy as np
+import pint
 
-from .errors import InputValueError
+from .errors import InputTypeError, InputValueError
 from .inputs import as_si_array
 
 __all__ = ["AmplitudeConvention", "acceleration_amplitude", "convert_amplitude", "velocity_amplitude"]
@@ -57,6 +58,10 @@ def convert_amplitude(
     >>> convert_amplitude([1.0], "peak", "peak-to-peak")
     array([2.])
     """
+    if isinstance(amplitude, pint.Quantity):
+        raise InputTypeError(
+            "amplitude: got a pint quantity; pass its magnitude (the unit is unchanged by the conversion)"
+        )
     values = np.atleast_1d(np.asarray(amplitude, dtype=float))
     scale = _factor(to_convention, "to_convention") / _factor(from_convention, "from_convention")
     return values * scale

@@ -22,6 +22,7 @@ from .excitations import Excitation
 from .margins import ApiLateralRule, Location, MarginRule, Side, range_margin
 from .modes import Mode
 from .speed_range import OperatingRange
+from .units import UnitSystem, display_unit
 
 __all__ = ["Finding", "FindingsTable", "interference_check"]
 
@@ -100,7 +101,9 @@ class Finding:
         }
 
 
-_COLUMNS = ("mode", "f_n [Hz]", "AF", "excitation", "coincidence [rpm]", "where", "SM [%]", "req. [%]", "verdict")
+def _columns(system: UnitSystem) -> tuple[str, ...]:
+    unit = display_unit("frequency", system)[0]
+    return ("mode", f"f_n [{unit}]", "AF", "excitation", "coincidence [rpm]", "where", "SM [%]", "req. [%]", "verdict")
 
 
 @dataclass(frozen=True)
@@ -131,15 +134,20 @@ class FindingsTable:
         """The failing findings, worst first."""
         return tuple(f for f in self.findings if not f.passed)
 
-    def rows(self, precision: int = 1) -> list[tuple[str, ...]]:
-        """Rows of display strings, one per finding, in the column order of :meth:`to_text`."""
+    def rows(self, precision: int = 1, system: UnitSystem = "SI") -> list[tuple[str, ...]]:
+        """Rows of display strings, one per finding, in the column order of :meth:`to_text`.
+
+        Frequencies are in Hz (SI) or cpm (US); speeds in rpm; margins in percent.
+        """
+        factor = display_unit("frequency", system)[1]
+        digits = precision + 1 if system == "SI" else 0
         out: list[tuple[str, ...]] = []
         for f in self.findings:
             af = f.mode.amplification_factor
             out.append(
                 (
                     f.mode.label,
-                    f"{f.mode.frequency:.{precision + 1}f}",
+                    f"{f.mode.frequency * factor:.{digits}f}",
                     "inf" if math.isinf(af) else f"{af:.{precision}f}",
                     f.excitation.label,
                     "-" if f.coincidence_speed is None else f"{f.coincidence_speed:.0f}",
@@ -151,10 +159,11 @@ class FindingsTable:
             )
         return out
 
-    def to_text(self, precision: int = 1) -> str:
+    def to_text(self, precision: int = 1, system: UnitSystem = "SI") -> str:
         """A fixed-width text table, worst first, and a summary line."""
-        rows = [_COLUMNS, *self.rows(precision)]
-        widths = [max(len(r[c]) for r in rows) for c in range(len(_COLUMNS))]
+        columns = _columns(system)
+        rows = [columns, *self.rows(precision, system)]
+        widths = [max(len(r[c]) for r in rows) for c in range(len(columns))]
         lines = ["  ".join(cell.ljust(w) for cell, w in zip(row, widths, strict=True)).rstrip() for row in rows]
         lines.insert(1, "  ".join("-" * w for w in widths))
         lines.append(self.summary())
@@ -182,11 +191,11 @@ class FindingsTable:
         """JSON text of :meth:`to_records`."""
         return json.dumps(self.to_records(), indent=2)
 
-    def to_html(self, precision: int = 1) -> str:
+    def to_html(self, precision: int = 1, system: UnitSystem = "SI") -> str:
         """An HTML table (no styles beyond a class per verdict)."""
-        head = "".join(f"<th>{html.escape(c)}</th>" for c in _COLUMNS)
+        head = "".join(f"<th>{html.escape(c)}</th>" for c in _columns(system))
         body = []
-        for f, row in zip(self.findings, self.rows(precision), strict=True):
+        for f, row in zip(self.findings, self.rows(precision, system), strict=True):
             cells = "".join(f"<td>{html.escape(c)}</td>" for c in row)
             body.append(f'<tr class="{f.verdict.lower()}">{cells}</tr>')
         return (

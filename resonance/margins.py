@@ -25,6 +25,7 @@ from dataclasses import dataclass
 from typing import Literal, Protocol
 
 import numpy as np
+import pint
 
 from .errors import InputValueError
 from .inputs import as_si, as_si_array
@@ -126,7 +127,7 @@ def half_power_points(frequency: object, amplitude: object, near: object | None 
     frequency : array_like or pint.Quantity
         Strictly increasing frequencies or speeds. Plain numbers may be in any
         one unit (Hz, rpm, cpm); the results are in the same unit.
-    amplitude : array_like
+    amplitude : array_like or pint.Quantity
         Response amplitudes (> 0, any unit and convention; pk-pk, peak or RMS
         give the same AF).
     near : float, optional
@@ -159,6 +160,8 @@ def half_power_points(frequency: object, amplitude: object, near: object | None 
     *Modal Testing*, 2nd ed., 2000, sec. 4.3.
     """
     f = as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    if isinstance(amplitude, pint.Quantity):
+        amplitude = amplitude.magnitude  # any unit: AF is a ratio
     a = np.atleast_1d(np.asarray(amplitude, dtype=float))
     if a.shape != f.shape:
         raise InputValueError(f"amplitude: got {a.size} values for {f.size} frequencies; expected one per frequency")

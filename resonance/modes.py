@@ -27,6 +27,7 @@ import scipy.linalg
 from ._threads import blas_threads_for
 from .damping import amplification_factor_from_damping_ratio, log_decrement
 from .errors import InputValueError
+from .inputs import as_si
 from .model import MatrixModel, matrix_model
 
 __all__ = ["Mode", "ModeSet", "is_proportional", "modal_properties", "modes"]
@@ -66,10 +67,19 @@ class Mode:
     amplification_factor_override: float | None = None
 
     def __post_init__(self) -> None:
-        if not (math.isfinite(self.frequency) and self.frequency > 0.0):
+        # Quantities (for example ureg("2400 cpm")) become floats in the package convention.
+        try:
+            frequency = as_si(self.frequency, f"{self.label}: frequency", "frequency")
+            damping = as_si(self.damping_ratio, f"{self.label}: damping ratio", "ratio")
+        except InputValueError:
+            raise InputValueError(
+                f"{self.label}: frequency {self.frequency!r} Hz, damping ratio {self.damping_ratio!r}; "
+                "expected finite values"
+            ) from None
+        object.__setattr__(self, "frequency", frequency)
+        object.__setattr__(self, "damping_ratio", damping)
+        if not self.frequency > 0.0:
             raise InputValueError(f"{self.label}: frequency {self.frequency!r} Hz; expected a finite value > 0")
-        if not math.isfinite(self.damping_ratio):
-            raise InputValueError(f"{self.label}: damping ratio {self.damping_ratio!r}; expected a finite value")
         af = self.amplification_factor_override
         if af is not None and not (af >= 1.0):
             raise InputValueError(f"{self.label}: amplification factor {af!r}; expected a value >= 1")

@@ -19,6 +19,7 @@ from .margins import HalfPower, MarginRule, half_power_points
 from .model import MatrixModel
 from .modes import Mode, ModeSet, modal_properties
 from .scenario import Scenario
+from .units import UnitSystem, display_unit
 
 __all__ = ["StudyResult", "run_study", "speed_axis", "study_modes", "clear_band", "ACCEPTABLE_ZONES"]
 
@@ -91,13 +92,16 @@ class StudyResult:
         """``"PASS"`` or ``"FAIL"`` for the whole scenario."""
         return "PASS" if self.passed else "FAIL"
 
-    def summary(self) -> str:
-        """Three lines: the verdict, the margin checks and the vibration check."""
+    def summary(self, system: UnitSystem = "SI") -> str:
+        """Three lines: the verdict, the margin checks and the vibration check (SI or US units)."""
         b = iso_velocity_zone_limits(self.scenario.vibration.group, self.scenario.vibration.support)  # type: ignore[arg-type]
+        unit, factor = display_unit("velocity", system)
+        digits = 2 if system == "SI" else 3
         return (
             f"Verdict: {self.verdict}\nMargins: {self.findings.summary()}\n"
-            f"Vibration: {self.peak_velocity_rms * 1e3:.2f} mm/s RMS at {self.peak_velocity_speed:.0f} rpm, "
-            f"ISO 10816-3 zone {self.zone} (B/C at {b[1] * 1e3:.1f} mm/s) -> "
+            f"Vibration: {self.peak_velocity_rms * factor:.{digits}f} {unit} RMS "
+            f"at {self.peak_velocity_speed:.0f} rpm, "
+            f"ISO 10816-3 zone {self.zone} (B/C at {b[1] * factor:.{digits}f} {unit}) -> "
             f"{'acceptable' if self.vibration_passed else 'NOT acceptable'} for long-term operation"
         )
 

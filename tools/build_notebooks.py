@@ -125,6 +125,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
 
 def main() -> None:
     for name, cells in NOTEBOOKS.items():
+        for number, cell in enumerate(cells):
+            cell["id"] = f"cell-{number}"  # stable ids keep re-builds' diffs to what changed
         notebook = new_notebook(cells=cells)
         notebook.metadata["kernelspec"] = {"name": "python3", "display_name": "Python 3", "language": "python"}
         path = HERE / name

@@ -18,6 +18,7 @@ from pathlib import Path
 
 import ipywidgets as w
 
+from ..damping import amplification_factor_from_damping_ratio, log_decrement
 from ..errors import InputValueError
 from ..record import CAUTION, Record, build_record, write_json
 from ..scenario import Scenario, load_scenario, save_scenario
@@ -66,6 +67,25 @@ def _speed_slider(scenario: Scenario) -> w.IntRangeSlider:
     )
 
 
+def _damping_slider(scenario: Scenario) -> w.FloatSlider:
+    return w.FloatSlider(
+        value=scenario.model.damping_ratio,
+        min=0.005,
+        max=0.3,
+        step=0.005,
+        readout_format=".3f",
+        description="damping ratio",
+        continuous_update=False,
+        style={"description_width": "110px"},
+        layout=w.Layout(width="520px"),
+    )
+
+
+def _af_text(zeta: float) -> str:
+    af = float(amplification_factor_from_damping_ratio(zeta)[0])
+    return f"AF = 1/(2 zeta) = {af:.1f}; log dec. {float(log_decrement(zeta)[0]):.3f}"
+
+
 class DesignPanel:
     """Live check of one scenario: speed range, damping and units as controls.
 
@@ -93,17 +113,7 @@ class DesignPanel:
         self.scenario = scenario
         self.views = views
         self.speed = _speed_slider(scenario)
-        self.damping = w.FloatSlider(
-            value=scenario.model.damping_ratio,
-            min=0.005,
-            max=0.3,
-            step=0.005,
-            readout_format=".3f",
-            description="damping ratio",
-            continuous_update=False,
-            style={"description_width": "110px"},
-            layout=w.Layout(width="520px"),
-        )
+        self.damping = _damping_slider(scenario)
         self.af_label = w.HTML()
         self.units = w.ToggleButtons(
             options=["SI", "US"],
@@ -190,7 +200,7 @@ class DesignPanel:
     def summary(self) -> str:
         """What the panel says, as plain text (the verdict, AF and margins)."""
         r = self.result
-        lines = [r.summary()]
+        lines = [r.summary(self.system)]
         hp = r.half_power
         if hp is not None and r.modes:
             mode = min(r.modes, key=lambda m: abs(m.speed - hp.peak_frequency))
@@ -201,12 +211,9 @@ class DesignPanel:
         return "\n".join(lines)
 
     def _render_text(self) -> None:
-        zeta = float(self.damping.value)
-        self.af_label.value = (
-            f"AF = 1/(2 zeta) = {1 / (2 * zeta):.1f}; log dec. {2 * math.pi * zeta / math.sqrt(1 - zeta**2):.3f}"
-        )
+        self.af_label.value = _af_text(float(self.damping.value))
         self.verdict.value = _verdict_html(self.summary(), self.result.passed)
-        self.findings_html.value = findings_table_html(self.result)
+        self.findings_html.value = findings_table_html(self.result, self.system)
         self.modes_html.value = modes_table_html(self.result, self.system)
 
     def _children(self) -> list[w.Widget]:
@@ -281,6 +288,8 @@ class WhatIfPanel:
             style=style,
             layout=wide,
         )
+        self.damping = _damping_slider(scenario)
+        self.af_label = w.HTML(_af_text(scenario.model.damping_ratio))
         self.speed = _speed_slider(scenario)
         low, high = scenario.speed.speed_min, scenario.speed.speed_max
         band = (
@@ -327,7 +336,8 @@ class WhatIfPanel:
         self.result, self.band = self.compute()
         self.figure = interference_figure(self.result, self.system, self.band, widget=True)
         self._render_text()
-        for control in (self.stiffness, self.mass, self.speed, self.skip_on, self.skip, self.tolerance, self.units):
+        controls = (self.stiffness, self.mass, self.damping, self.speed, self.skip_on, self.skip, self.tolerance)
+        for control in (*controls, self.units):
             control.observe(self._changed, names="value")
         self.find_stiffness.on_click(lambda _: self.solve("stiffness"))
         self.find_mass.on_click(lambda _: self.solve("mass"))
@@ -338,6 +348,7 @@ class WhatIfPanel:
                 self.stiffness,
                 self.mass,
                 self.values,
+                w.HBox([self.damping, self.af_label]),
                 self.speed,
                 w.HBox([self.skip_on, self.skip]),
                 self.tolerance,
@@ -358,7 +369,7 @@ class WhatIfPanel:
         return self.units.value  # type: ignore[no-any-return]
 
     def edited_scenario(self) -> Scenario:
-        """The scenario with the range, skip band and tolerance of the controls."""
+        """The scenario with the range, skip band, damping and tolerance of the controls."""
         low, high = self.speed.value
         bands = []
         if self.skip_on.value:
@@ -368,7 +379,8 @@ class WhatIfPanel:
                 bands.append((float(a), float(b)))
         whatif = dataclasses.replace(self.original.whatif, tolerance=float(self.tolerance.value))
         edited = self.original.with_speed(operating_range(float(low), float(high), bands))
-        return edited.replace(whatif=whatif, units=self.system)
+        model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
+        return edited.replace(model=model, whatif=whatif, units=self.system)
 
     def compute(self) -> tuple[StudyResult, ToleranceResult]:
         """Re-run the study and the tolerance band for the controls (no drawing)."""
@@ -394,7 +406,11 @@ class WhatIfPanel:
             self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
 
     def solve(self, parameter: str) -> str:
-        """Find the smallest fix of one parameter, show it and set its slider."""
+        """Find the smallest fix of one parameter, show it and set its slider.
+
+        The other factor is taken at 1 (the solver changes one parameter of the
+        scenario at a time); the range, skip band and damping are the panel's.
+        """
         change = smallest_change(self.edited_scenario(), parameter)  # type: ignore[arg-type]
         targets = self.scenario.whatif.vary_springs if parameter == "stiffness" else self.scenario.whatif.vary_masses
         text = change.describe(targets)
@@ -406,7 +422,7 @@ class WhatIfPanel:
 
     def summary(self) -> str:
         """What the panel says, as plain text."""
-        return f"{self.result.summary()}\n{self.band.summary()}"
+        return f"{self.result.summary(self.system)}\n{self.band.summary()}"
 
     def _render_text(self) -> None:
         k_unit, k_factor = display_unit("stiffness", self.system)
@@ -421,24 +437,34 @@ class WhatIfPanel:
             for name in self.original.whatif.vary_masses
         ]
         self.values.value = "<small>" + html.escape("; ".join(parts)) + "</small>"
-        self.verdict.value = _verdict_html(self.result.summary(), self.result.passed)
+        self.af_label.value = _af_text(float(self.damping.value))
+        self.verdict.value = _verdict_html(self.result.summary(self.system), self.result.passed)
         self.tolerance_text.value = _verdict_html(self.band.summary(), self.band.passed)
-        self.findings_html.value = findings_table_html(self.result)
+        self.findings_html.value = findings_table_html(self.result, self.system)
 
     def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
         return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
 
 
 class RecordPanel:
-    """Load a scenario file, run every check, show the record and export it."""
+    """Load a scenario file, run every check, show the record and export it.
+
+    After loading, the speed range and damping can be changed for a
+    sensitivity look; the record then states the edited scenario it was made
+    from, so the exported JSON re-runs with the ``check`` command.
+    """
 
     def __init__(self, path: str | os.PathLike[str] = "", output_dir: str | os.PathLike[str] = "records"):
         self.path = w.Text(value=str(path), description="scenario", layout=w.Layout(width="520px"))
         self.output_dir = w.Text(value=str(output_dir), description="export to", layout=w.Layout(width="520px"))
         self.load_button = w.Button(description="Load and run", icon="play")
         self.export_button = w.Button(description="Export HTML + JSON", icon="download")
+        self.controls = w.VBox()
         self.text = w.HTML()
         self.message = w.HTML()
+        self.original: Scenario | None = None
+        self.speed: w.IntRangeSlider | None = None
+        self.damping: w.FloatSlider | None = None
         self.record: Record | None = None
         self.result: StudyResult | None = None
         self.load_button.on_click(lambda _: self.load())
@@ -446,12 +472,11 @@ class RecordPanel:
         self.widget = w.VBox(
             [
                 caution_banner(),
-                self.path,
-                w.HBox([self.load_button]),
+                w.HBox([self.path, self.load_button]),
+                self.controls,
                 self.message,
                 self.text,
-                self.output_dir,
-                self.export_button,
+                w.HBox([self.output_dir, self.export_button]),
             ]
         )
         if self.path.value:
@@ -461,16 +486,35 @@ class RecordPanel:
         """Load and run the scenario in the path field; show errors, never a partial record."""
         try:
             scenario = load_scenario(self.path.value)
-            result = run_study(scenario)
         except InputValueError as error:
-            self.record, self.result = None, None
+            self.original = self.record = self.result = None
+            self.controls.children = ()
             self.text.value = ""
             self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
             return False
+        self.original = scenario
+        self.speed, self.damping = _speed_slider(scenario), _damping_slider(scenario)
+        for control in (self.speed, self.damping):
+            control.observe(lambda _change: self.run(), names="value")
+        self.controls.children = (self.speed, self.damping)
+        self.run()
+        return True
+
+    def edited_scenario(self) -> Scenario:
+        """The loaded scenario with the panel's speed range and damping."""
+        if self.original is None or self.speed is None or self.damping is None:
+            raise InputValueError("scenario: none loaded; load a scenario file first")
+        low, high = self.speed.value
+        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
+        edited = self.original.with_speed(operating_range(float(low), float(high), bands))
+        return edited.replace(model=dataclasses.replace(edited.model, damping_ratio=float(self.damping.value)))
+
+    def run(self) -> None:
+        """Run every check of the (edited) scenario and rebuild the record."""
+        result = run_study(self.edited_scenario())
         self.result, self.record = result, build_record(result)
         self.text.value = f"<pre style='font-size:85%'>{html.escape(self.record.text)}</pre>"
         self.message.value = _verdict_html(result.summary(), result.passed)
-        return True
 
     def export(self) -> tuple[Path, Path] | None:
         """Write the HTML and JSON records to the export folder."""

@@ -248,6 +248,6 @@ def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
     )
 
 
-def findings_table_html(result: StudyResult) -> str:
+def findings_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
     """The findings table, worst first, as HTML."""
-    return result.findings.to_html()
+    return result.findings.to_html(system=system)

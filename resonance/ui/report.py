@@ -37,8 +37,8 @@ def render_html(result: StudyResult, record: Record) -> str:
 <h1>{html.escape(result.scenario.title)}</h1>
 <p class="caution"><b>Caution.</b> {html.escape(CAUTION)}</p>
 <p class="verdict" style="color:{verdict_colour}">Verdict: {html.escape(result.verdict)}</p>
-<pre>{html.escape(result.summary())}</pre>
-<h2>Findings (worst first)</h2>{result.findings.to_html()}
+<pre>{html.escape(result.summary(system))}</pre>
+<h2>Findings (worst first)</h2>{result.findings.to_html(system=system)}
 <h2>Modes</h2>{modes_table_html(result, system)}
 <h2>Figures</h2>{"".join(plots)}
 <h2>Assumptions</h2><ul>{"".join(f"<li>{html.escape(a)}</li>" for a in data["assumptions"])}</ul>
