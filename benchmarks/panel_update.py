@@ -14,10 +14,11 @@ Run: ``python benchmarks/panel_update.py [--load] [--repeats 40]``
 from __future__ import annotations
 
 import argparse
-import multiprocessing
 import statistics
 import time
 from pathlib import Path
+
+from _load import one_core_busy
 
 from resonance.scenario import load_scenario
 from resonance.ui import WhatIfPanel, multi_mode_panel, single_mode_panel
@@ -56,12 +57,6 @@ def measure(repeats: int) -> list[str]:
     return rows
 
 
-def _burn(stop) -> None:
-    x = 0
-    while not stop.is_set():
-        x = (x * 31 + 7) % 1000003
-
-
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--repeats", type=int, default=40)
@@ -72,17 +67,10 @@ def main() -> None:
     print(header)
     print("\n".join(measure(args.repeats)))
     if args.load:
-        stop = multiprocessing.Event()
-        burner = multiprocessing.Process(target=_burn, args=(stop,), daemon=True)
-        burner.start()
-        try:
-            time.sleep(0.5)
+        with one_core_busy():
             print("one core kept busy by another process:")
             print(header)
             print("\n".join(measure(args.repeats)))
-        finally:
-            stop.set()
-            burner.join(5)
 
 
 if __name__ == "__main__":

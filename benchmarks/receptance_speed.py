@@ -21,12 +21,12 @@ Run: ``python benchmarks/receptance_speed.py [--load] [--sizes 10 100 500]``
 from __future__ import annotations
 
 import argparse
-import multiprocessing
 import time
 from functools import partial
 
 import control
 import numpy as np
+from _load import one_core_busy
 
 import resonance as R
 
@@ -92,12 +92,6 @@ def measure(sizes: list[int]) -> list[str]:
     return rows
 
 
-def _burn(stop: multiprocessing.synchronize.Event) -> None:
-    x = 0
-    while not stop.is_set():
-        x = (x * 31 + 7) % 1000003
-
-
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", type=int, nargs="+", default=[10, 100, 500])
@@ -109,17 +103,10 @@ def main() -> None:
     print(header)
     print("\n".join(measure(args.sizes)))
     if args.load:
-        stop = multiprocessing.Event()
-        burner = multiprocessing.Process(target=_burn, args=(stop,), daemon=True)
-        burner.start()
-        try:
-            time.sleep(0.5)
+        with one_core_busy():
             print("one core kept busy by another process:")
             print(header)
             print("\n".join(measure(args.sizes)))
-        finally:
-            stop.set()
-            burner.join(5)
     print("targets: n=10 loop/this >= 10; n=100 control/this >= 30 and loop/this >= 2; max diff <= 1e-9")
 
 

@@ -142,6 +142,21 @@ def receptance(
     return model_receptance(model, frequency, input_dof, method)
 
 
+def _derivative(
+    order: int,
+    mass_matrix: object,
+    stiffness_matrix: object,
+    damping_matrix: object | None,
+    frequency: object,
+    input_dof: int,
+    method: FrfMethod,
+) -> np.ndarray:
+    # Velocity and acceleration of a harmonic motion: (i w)^order times the displacement.
+    h = receptance(mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)
+    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    return (1j * w[:, None]) ** order * h
+
+
 def mobility(
     mass_matrix: object,
     stiffness_matrix: object,
@@ -151,9 +166,7 @@ def mobility(
     method: FrfMethod = "auto",
 ) -> np.ndarray:
     """Mobility ``i w H``: velocity per unit force [m/(N s)]; see :func:`receptance`."""
-    h = receptance(mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)
-    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
-    return 1j * w[:, None] * h
+    return _derivative(1, mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)
 
 
 def accelerance(
@@ -165,6 +178,4 @@ def accelerance(
     method: FrfMethod = "auto",
 ) -> np.ndarray:
     """Accelerance ``-w^2 H``: acceleration per unit force [m/(N s^2)]; see :func:`receptance`."""
-    h = receptance(mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)
-    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
-    return -(w[:, None] ** 2) * h
+    return _derivative(2, mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)

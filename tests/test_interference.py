@@ -120,3 +120,10 @@ def test_undamped_mode_has_infinite_af_and_max_requirement():
 def test_bad_check_inputs(call, error, message):
     with pytest.raises(error, match=message):
         call()
+
+
+def test_mode_accepts_quantities():
+    # 2400 cpm = 40 Hz (1 Hz = 60 cpm, common practice).
+    assert R.Mode(R.ureg("2400 cpm"), 0.04, "q").frequency == 40.0
+    with pytest.raises(R.InputTypeError, match=r"q: frequency: got 3 m"):
+        R.Mode(R.ureg("3 m"), 0.04, "q")

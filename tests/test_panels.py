@@ -124,3 +124,15 @@ def test_record_panel(tmp_path, foundation_path):
 def test_every_panel_shows_the_caution(pump, factory):
     panel = factory(pump)
     assert "Caution." in panel.widget.children[0].value
+
+
+def test_record_panel_sensitivity_controls(tmp_path, foundation_path):
+    # Raising the minimum speed to 2600 rpm moves the 2x band up: mode 2's 2x coincidence (about
+    # 2095 rpm) is then 100 (2600 - 2095) / 2600 = 19 % below, above the flat 15 % (common practice).
+    panel = RecordPanel(foundation_path, output_dir=tmp_path)
+    assert panel.record.data["verdict"] == "FAIL"
+    panel.speed.value = (2600, 3000)
+    assert panel.record.data["verdict"] == "PASS"
+    assert panel.record.data["scenario"]["speed"]["min"] == "2600.0 rpm"
+    two_x = next(f for f in panel.result.findings if f.excitation.label == "2x" and f.mode.label.startswith("mode 2"))
+    assert_allclose(two_x.margin, R.separation_margin(two_x.coincidence_speed, 2600, 3000), rtol=1e-12)

@@ -264,29 +264,21 @@ class WhatIfPanel:
         self.scenario = scenario
         style = {"description_width": "130px"}
         wide = w.Layout(width="520px")
-        self.stiffness = w.FloatLogSlider(
-            value=1.0,
-            base=10,
-            min=-0.6,
-            max=0.6,
-            step=0.002,
-            readout_format=".3f",
-            description="stiffness x",
-            continuous_update=False,
-            style=style,
-            layout=wide,
-        )
-        self.mass = w.FloatLogSlider(
-            value=1.0,
-            base=10,
-            min=-0.6,
-            max=0.6,
-            step=0.002,
-            readout_format=".3f",
-            description="mass x",
-            continuous_update=False,
-            style=style,
-            layout=wide,
+        # Factors from x0.25 to x4 on a logarithmic scale.
+        self.stiffness, self.mass = (
+            w.FloatLogSlider(
+                value=1.0,
+                base=10,
+                min=-0.6,
+                max=0.6,
+                step=0.002,
+                readout_format=".3f",
+                description=label,
+                continuous_update=False,
+                style=style,
+                layout=wide,
+            )
+            for label in ("stiffness x", "mass x")
         )
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML(_af_text(scenario.model.damping_ratio))

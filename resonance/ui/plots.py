@@ -38,9 +38,10 @@ PASS = "#2a9d4b"
 FAIL = "#d62828"
 
 
-def _operating_shapes(result: StudyResult, rows: Sequence[int]) -> list[dict]:
+def _vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
+    """Rectangles spanning the full height of the given subplot rows, one per speed span."""
     shapes = []
-    for low, high in result.scenario.speed.intervals:
+    for low, high in spans:
         for row in rows:
             axis = "" if row == 1 else str(row)
             shapes.append(
@@ -52,7 +53,7 @@ def _operating_shapes(result: StudyResult, rows: Sequence[int]) -> list[dict]:
                     "x1": high,
                     "y0": 0,
                     "y1": 1,
-                    "fillcolor": OPERATING,
+                    "fillcolor": colour,
                     "line_width": 0,
                     "layer": "below",
                 }
@@ -91,26 +92,13 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
     d_unit, d_factor = display_unit("displacement", system)
     h_unit, h_factor = display_unit("receptance", system)
     pk_pk = 2.0 * result.displacement * d_factor
-    shapes = _operating_shapes(result, (1, 2, 3))
-    for finding in result.findings:
-        if finding.excitation.order == 1.0 and finding.coincidence_speed is not None:
-            below, above = required_margins(result.scenario.rule, finding.mode)
-            low, high = clear_band(finding.coincidence_speed, below, above)
-            for axis in ("", "2", "3"):
-                shapes.append(
-                    {
-                        "type": "rect",
-                        "xref": f"x{axis}",
-                        "yref": f"y{axis} domain",
-                        "x0": low,
-                        "x1": high,
-                        "y0": 0,
-                        "y1": 1,
-                        "fillcolor": CLEAR_BAND,
-                        "line_width": 0,
-                        "layer": "below",
-                    }
-                )
+    clear = [
+        clear_band(f.coincidence_speed, *required_margins(result.scenario.rule, f.mode))
+        for f in result.findings
+        if f.excitation.order == 1.0 and f.coincidence_speed is not None
+    ]
+    shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2, 3))
+    shapes += _vertical_bands(clear, CLEAR_BAND, (1, 2, 3))
     with fig.batch_update():
         fig.data[0].update(x=result.speed, y=pk_pk)
         hp = result.half_power
@@ -170,7 +158,7 @@ def update_interference_figure(
     fixed = [e.frequency for e in result.scenario.excitations if e.frequency is not None]
     top_order = max((e.order for e in result.scenario.excitations if e.order is not None), default=1.0)
     y_max = 1.25 * max([*frequencies, *fixed, top_order * speed_max / 60.0]) * f_factor
-    shapes = _operating_shapes(result, (1,))
+    shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
     xs, ys, colours, texts = [], [], [], []
     for finding in result.findings:
         if finding.coincidence_speed is None:
