@@ -2,7 +2,8 @@
 
 A :class:`Record` is built once from a :class:`~resonance.study.StudyResult`
 and carries the same content two ways: ``data`` (JSON-ready, SI values,
-speeds in rpm) and ``text`` (a plain-text record a reviewer can read). The
+speeds in rpm) and ``text`` (a plain-text record a reviewer can read, in the
+scenario's unit system). The
 offline HTML record adds the figures (:mod:`resonance.ui.report`).
 """
 
@@ -21,6 +22,7 @@ from typing import Any
 from .margins import ApiLateralRule
 from .scenario import scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
+from .units import display_unit
 
 __all__ = ["CAUTION", "METHODS", "Record", "build_record", "write_json", "atomic_write"]
 
@@ -96,6 +98,7 @@ def _assumptions(result: StudyResult) -> list[str]:
 
 def _text(result: StudyResult, data: dict[str, Any]) -> str:
     s = result.scenario
+    v_unit, v_factor = display_unit("velocity", s.units)
     lines = [f"CALCULATION RECORD: {s.title}", "=" * 78]
     if s.description:
         lines.append(s.description)
@@ -133,11 +136,11 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
         ),
         "",
         "FINDINGS (worst first)",
-        result.findings.to_text(),
+        result.findings.to_text(system=s.units),
         "",
         "VIBRATION",
-        f"  peak 1x casing velocity {data['vibration']['peak_velocity_rms_mm_s']:.2f} mm/s RMS at "
-        f"{data['vibration']['at_speed_rpm']:.0f} rpm: ISO zone {data['vibration']['zone']}",
+        f"  peak 1x casing velocity {result.peak_velocity_rms * v_factor:.{3 if s.units == 'US' else 2}f} "
+        f"{v_unit} RMS at {result.peak_velocity_speed:.0f} rpm: ISO zone {result.zone}",
         "",
         f"VERDICT: {data['verdict']}",
         "",

@@ -136,3 +136,13 @@ def test_record_panel_sensitivity_controls(tmp_path, foundation_path):
     assert panel.record.data["scenario"]["speed"]["min"] == "2600.0 rpm"
     two_x = next(f for f in panel.result.findings if f.excitation.label == "2x" and f.mode.label.startswith("mode 2"))
     assert_allclose(two_x.margin, R.separation_margin(two_x.coincidence_speed, 2600, 3000), rtol=1e-12)
+
+
+def test_record_panel_units(tmp_path, foundation_path):
+    # US customary: frequencies in cpm (1 Hz = 60 cpm), velocity in in/s (1 in = 25.4 mm).
+    panel = RecordPanel(foundation_path, output_dir=tmp_path)
+    mm_s = panel.result.peak_velocity_rms * 1e3
+    panel.units.value = "US"
+    assert "f_n [cpm]" in panel.record.text
+    assert f"{mm_s / 25.4:.3f} in/s RMS" in panel.record.text
+    assert panel.record.data["scenario"]["scenario"]["units"] == "US"

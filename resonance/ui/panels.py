@@ -457,6 +457,7 @@ class RecordPanel:
         self.original: Scenario | None = None
         self.speed: w.IntRangeSlider | None = None
         self.damping: w.FloatSlider | None = None
+        self.units: w.ToggleButtons | None = None
         self.record: Record | None = None
         self.result: StudyResult | None = None
         self.load_button.on_click(lambda _: self.load())
@@ -486,27 +487,34 @@ class RecordPanel:
             return False
         self.original = scenario
         self.speed, self.damping = _speed_slider(scenario), _damping_slider(scenario)
-        for control in (self.speed, self.damping):
+        self.units = w.ToggleButtons(
+            options=["SI", "US"],
+            value=scenario.units,
+            description="units",
+            style={"description_width": "110px", "button_width": "60px"},
+        )
+        for control in (self.speed, self.damping, self.units):
             control.observe(lambda _change: self.run(), names="value")
-        self.controls.children = (self.speed, self.damping)
+        self.controls.children = (self.speed, self.damping, self.units)
         self.run()
         return True
 
     def edited_scenario(self) -> Scenario:
-        """The loaded scenario with the panel's speed range and damping."""
-        if self.original is None or self.speed is None or self.damping is None:
+        """The loaded scenario with the panel's speed range, damping and unit system."""
+        if self.original is None or self.speed is None or self.damping is None or self.units is None:
             raise InputValueError("scenario: none loaded; load a scenario file first")
         low, high = self.speed.value
         bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
         edited = self.original.with_speed(operating_range(float(low), float(high), bands))
-        return edited.replace(model=dataclasses.replace(edited.model, damping_ratio=float(self.damping.value)))
+        model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
+        return edited.replace(model=model, units=self.units.value)
 
     def run(self) -> None:
         """Run every check of the (edited) scenario and rebuild the record."""
         result = run_study(self.edited_scenario())
         self.result, self.record = result, build_record(result)
         self.text.value = f"<pre style='font-size:85%'>{html.escape(self.record.text)}</pre>"
-        self.message.value = _verdict_html(result.summary(), result.passed)
+        self.message.value = _verdict_html(result.summary(result.scenario.units), result.passed)
 
     def export(self) -> tuple[Path, Path] | None:
         """Write the HTML and JSON records to the export folder."""
