@@ -115,6 +115,7 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "angle": ("rad", "deg", "deg"),
     "ratio": ("dimensionless", "dimensionless", "dimensionless"),
     "balance_grade": ("mm/s", "mm/s", "mm/s"),
+    "inertia": ("kg*m**2", "kg*m**2", "lbm*in**2"),
 }
 
 

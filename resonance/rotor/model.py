@@ -1,0 +1,327 @@
+"""A rotor-bearing system: shaft sections, rigid discs, bearings and pedestals.
+
+Lateral motion in two planes. Degrees of freedom: at every node a
+translation and a slope in the x-z plane, then the same in the y-z plane,
+then two translations per pedestal. The equation of motion at spin speed
+``W`` [rad/s] is ``M q'' + (C(N) + W G) q' + K(N) q = f``, with bearing
+coefficients that may depend on the speed ``N`` [rpm] (tables, interpolated).
+
+Stations are the ends of the shaft sections, numbered 0 to ``len(sections)``;
+discs and bearings sit at stations. Sections may be split into several
+elements; the stations stay where they are.
+
+References
+----------
+H. D. Nelson and J. M. McVaugh, J. Eng. Ind. 98(2), 1976; H. D. Nelson,
+J. Mech. Des. 102(4), 1980; M. I. Friswell, J. E. T. Penny, S. D. Garvey and
+A. W. Lees, *Dynamics of Rotating Machines*, Cambridge, 2010, ch. 5.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import InputValueError
+from ..inputs import as_si
+from .elements import beam_rotary_mass, beam_stiffness, beam_translational_mass, shear_coefficient
+
+__all__ = ["Material", "STEEL", "ShaftSection", "Disc", "Bearing", "Pedestal", "Rotor", "rotor_model"]
+
+
+@dataclass(frozen=True)
+class Material:
+    """Density [kg/m^3], Young's modulus [Pa] and Poisson's ratio [-] (shear modulus from them)."""
+
+    density: float
+    youngs_modulus: float
+    poisson_ratio: float
+    name: str = "material"
+
+    @property
+    def shear_modulus(self) -> float:
+        """``G = E / (2 (1 + nu))`` [Pa]."""
+        return self.youngs_modulus / (2.0 * (1.0 + self.poisson_ratio))
+
+
+# Carbon steel, common handbook values.
+STEEL = Material(7850.0, 2.05e11, 0.29, "steel")
+
+
+@dataclass(frozen=True)
+class ShaftSection:
+    """A uniform shaft section: length and diameters [m], material, elements to split it into."""
+
+    length: float
+    outer_diameter: float
+    inner_diameter: float = 0.0
+    material: Material = STEEL
+    elements: int = 1
+
+
+@dataclass(frozen=True)
+class Disc:
+    """A rigid disc at a station: mass [kg], polar and diametral inertia [kg m^2]."""
+
+    station: int
+    mass: float
+    polar_inertia: float
+    diametral_inertia: float
+    label: str = "disc"
+
+
+@dataclass(frozen=True)
+class Pedestal:
+    """A support mass [kg] between a bearing and the ground, with stiffness [N/m] and damping [N s/m]."""
+
+    mass: float
+    kxx: float
+    kyy: float
+    cxx: float = 0.0
+    cyy: float = 0.0
+
+
+@dataclass(frozen=True)
+class Bearing:
+    """A bearing at a station: direct and cross-coupled stiffness [N/m] and damping [N s/m].
+
+    Each coefficient is a number, or a sequence of values at ``speeds`` [rpm]
+    (linear interpolation; a speed outside the table is an error).
+    ``tilt_stiffness`` [N m/rad] resists the slope in both planes (a clamped
+    end, or a long bearing or pair of bearings treated as one).
+    """
+
+    station: int
+    kxx: float | Sequence[float]
+    kyy: float | Sequence[float]
+    kxy: float | Sequence[float] = 0.0
+    kyx: float | Sequence[float] = 0.0
+    cxx: float | Sequence[float] = 0.0
+    cyy: float | Sequence[float] = 0.0
+    cxy: float | Sequence[float] = 0.0
+    cyx: float | Sequence[float] = 0.0
+    speeds: Sequence[float] | None = None
+    pedestal: Pedestal | None = None
+    label: str = "bearing"
+    tilt_stiffness: float = 0.0
+
+    def coefficients(self, speed: float) -> tuple[np.ndarray, np.ndarray]:
+        """Stiffness and damping matrices ``[[xx, xy], [yx, yy]]`` at a speed [rpm]."""
+        names = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+        if self.speeds is None:
+            values = [float(getattr(self, n)) for n in names]  # type: ignore[arg-type]
+        else:
+            table = np.asarray(self.speeds, dtype=float)
+            if not table[0] <= speed <= table[-1]:
+                raise InputValueError(
+                    f"{self.label}: speed {speed:g} rpm is outside its coefficient table "
+                    f"({table[0]:g}-{table[-1]:g} rpm); extend the table to cover the sweep"
+                )
+            values = [
+                float(np.interp(speed, table, np.broadcast_to(np.asarray(getattr(self, n), dtype=float), table.shape)))
+                for n in names
+            ]
+        k = np.array([[values[0], values[1]], [values[2], values[3]]])
+        c = np.array([[values[4], values[5]], [values[6], values[7]]])
+        return k, c
+
+
+@dataclass(frozen=True)
+class Rotor:
+    """An assembled rotor (build with :func:`rotor_model`).
+
+    Attributes
+    ----------
+    node_z : numpy.ndarray
+        Axial position of every node [m].
+    station_nodes : tuple of int
+        The node of each station.
+    mass, shaft_stiffness, gyroscopic : numpy.ndarray
+        Mass [kg...], shaft stiffness [N/m...] and gyroscopic matrix per rad/s of spin [kg m^2...]
+        over all degrees of freedom (bearings not included).
+    bearings, discs : tuple
+        The supports and discs.
+    """
+
+    node_z: np.ndarray
+    station_nodes: tuple[int, ...]
+    mass: np.ndarray
+    shaft_stiffness: np.ndarray
+    gyroscopic: np.ndarray
+    bearings: tuple[Bearing, ...]
+    discs: tuple[Disc, ...]
+    polar_mass: np.ndarray = field(repr=False)
+
+    @property
+    def nodes(self) -> int:
+        """Number of shaft nodes."""
+        return int(self.node_z.size)
+
+    @property
+    def size(self) -> int:
+        """Number of degrees of freedom."""
+        return int(self.mass.shape[0])
+
+    def dof(self, node: int, direction: str) -> int:
+        """Index of the ``"x"``/``"y"`` translation or ``"sx"``/``"sy"`` slope of a node."""
+        offset = {"x": 0, "sx": 1, "y": 2 * self.nodes, "sy": 2 * self.nodes + 1}[direction]
+        return offset + 2 * node
+
+    def station_dof(self, station: int, direction: str) -> int:
+        """Index of a translation or slope at a station."""
+        if not 0 <= station < len(self.station_nodes):
+            raise InputValueError(f"station: got {station}; expected 0..{len(self.station_nodes) - 1}")
+        return self.dof(self.station_nodes[station], direction)
+
+    def bearing_blocks(self, speed: float) -> list[tuple[list[int], np.ndarray, np.ndarray]]:
+        """The supports at a speed [rpm] as (degrees of freedom, stiffness block, damping block)."""
+        blocks = []
+        pedestal = 4 * self.nodes
+        for bearing in self.bearings:
+            kb, cb = bearing.coefficients(speed)
+            tilt = [self.station_dof(bearing.station, "sx"), self.station_dof(bearing.station, "sy")]
+            if bearing.tilt_stiffness:
+                blocks.append((tilt, bearing.tilt_stiffness * np.eye(2), np.zeros((2, 2))))
+            shaft = [self.station_dof(bearing.station, "x"), self.station_dof(bearing.station, "y")]
+            if bearing.pedestal is None:
+                blocks.append((shaft, kb, cb))
+                continue
+            p = bearing.pedestal
+            coupling = np.array([[1.0, -1.0], [-1.0, 1.0]])
+            blocks.append(
+                (
+                    [*shaft, pedestal, pedestal + 1],
+                    np.kron(coupling, kb) + np.diag([0.0, 0.0, p.kxx, p.kyy]),
+                    np.kron(coupling, cb) + np.diag([0.0, 0.0, p.cxx, p.cyy]),
+                )
+            )
+            pedestal += 2
+        return blocks
+
+    def bearing_matrices(self, speed: float) -> tuple[np.ndarray, np.ndarray]:
+        """Bearing and pedestal stiffness and damping over all degrees of freedom at a speed [rpm]."""
+        k = np.zeros_like(self.mass)
+        c = np.zeros_like(self.mass)
+        for dofs, kb, cb in self.bearing_blocks(speed):
+            k[np.ix_(dofs, dofs)] += kb
+            c[np.ix_(dofs, dofs)] += cb
+        return k, c
+
+
+def _positive(value: float, name: str, kind: str) -> float:
+    return as_si(value, name, kind, "positive")
+
+
+def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearings: Sequence[Bearing]) -> Rotor:
+    """Assemble a rotor from shaft sections, discs and bearings.
+
+    Raises
+    ------
+    InputValueError
+        A non-positive length or diameter, an inner diameter not less than the
+        outer, a disc or bearing at a station that does not exist, a rotor
+        with no bearing (free-floating), a coefficient table that does not
+        match its speeds, or a negative direct stiffness.
+    """
+    if not sections:
+        raise InputValueError("sections: got none; expected at least one shaft section")
+    lengths, nodes_per_station = [], [0]
+    for i, s in enumerate(sections):
+        where = f"sections[{i}]"
+        length = _positive(s.length, f"{where}.length", "length")
+        do = _positive(s.outer_diameter, f"{where}.outer_diameter", "length")
+        di = as_si(s.inner_diameter, f"{where}.inner_diameter", "length", "nonnegative")
+        if di >= do:
+            raise InputValueError(f"{where}.inner_diameter: got {di:g} m, not less than the outer diameter {do:g} m")
+        if isinstance(s.elements, bool) or not isinstance(s.elements, int) or s.elements < 1:
+            raise InputValueError(f"{where}.elements: got {s.elements!r}; expected a whole number >= 1")
+        lengths += [length / s.elements] * s.elements
+        nodes_per_station.append(nodes_per_station[-1] + s.elements)
+    n_nodes = len(lengths) + 1
+    n_ped = sum(1 for b in bearings if b.pedestal is not None)
+    size = 4 * n_nodes + 2 * n_ped
+    plane_m = np.zeros((2 * n_nodes, 2 * n_nodes))
+    plane_k = np.zeros_like(plane_m)
+    plane_rot = np.zeros_like(plane_m)  # rotary inertia, whose double is the shaft's polar inertia
+    element = 0
+    for s in sections:
+        do, di, mat = s.outer_diameter, s.inner_diameter, s.material
+        area = math.pi * (do**2 - di**2) / 4.0
+        inertia = math.pi * (do**4 - di**4) / 64.0
+        kappa = shear_coefficient(do, di, mat.poisson_ratio)
+        for _ in range(s.elements):
+            length = lengths[element]
+            phi = 12.0 * mat.youngs_modulus * inertia / (kappa * mat.shear_modulus * area * length**2)
+            block = slice(2 * element, 2 * element + 4)
+            plane_k[block, block] += beam_stiffness(mat.youngs_modulus * inertia, length, phi)
+            plane_m[block, block] += beam_translational_mass(mat.density * area, length, phi)
+            plane_rot[block, block] += beam_rotary_mass(mat.density * inertia, length, phi)
+            element += 1
+    stations = len(sections) + 1
+    plane_polar = 2.0 * plane_rot
+    plane_m = plane_m + plane_rot
+    for i, disc in enumerate(discs):
+        if not 0 <= disc.station < stations:
+            raise InputValueError(
+                f"discs[{i}] ({disc.label}): station {disc.station} does not exist; expected 0..{stations - 1}"
+            )
+        node = nodes_per_station[disc.station]
+        plane_m[2 * node, 2 * node] += _positive(disc.mass, f"discs[{i}].mass", "mass")
+        plane_m[2 * node + 1, 2 * node + 1] += as_si(
+            disc.diametral_inertia, f"discs[{i}].diametral_inertia", "inertia", "nonnegative"
+        )
+        plane_polar[2 * node + 1, 2 * node + 1] += as_si(
+            disc.polar_inertia, f"discs[{i}].polar_inertia", "inertia", "nonnegative"
+        )
+    if not bearings:
+        raise InputValueError("bearings: got none; a free-floating rotor has no critical speeds; add its bearings")
+    for i, b in enumerate(bearings):
+        if not 0 <= b.station < stations:
+            raise InputValueError(
+                f"bearings[{i}] ({b.label}): station {b.station} does not exist; expected 0..{stations - 1}"
+            )
+        if b.speeds is not None:
+            table = np.asarray(b.speeds, dtype=float)
+            if table.ndim != 1 or table.size < 2 or np.any(np.diff(table) <= 0):
+                raise InputValueError(f"bearings[{i}].speeds: expected at least 2 increasing speeds [rpm]")
+            for name in ("kxx", "kyy", "kxy", "kyx", "cxx", "cyy", "cxy", "cyx"):
+                values = np.atleast_1d(np.asarray(getattr(b, name), dtype=float))
+                if values.size not in (1, table.size):
+                    raise InputValueError(
+                        f"bearings[{i}].{name}: got {values.size} values for {table.size} speeds; "
+                        "expected one per speed"
+                    )
+        for name in ("kxx", "kyy"):
+            values = np.atleast_1d(np.asarray(getattr(b, name), dtype=float))
+            if np.any(~np.isfinite(values)) or np.any(values < 0.0):
+                raise InputValueError(f"bearings[{i}].{name}: expected finite values >= 0 N/m")
+    mass = np.zeros((size, size))
+    stiffness = np.zeros_like(mass)
+    gyro = np.zeros_like(mass)
+    px, py = slice(0, 2 * n_nodes), slice(2 * n_nodes, 4 * n_nodes)
+    for plane in (px, py):
+        mass[plane, plane] = plane_m
+        stiffness[plane, plane] = plane_k
+    # Spin W about +z (x towards y): I_d s_x'' + W I_p s_y' = Q_sx and I_d s_y'' - W I_p s_x' = Q_sy,
+    # so M q'' + W G q' with G = [[0, P], [-P, 0]] between the planes (P: polar inertia at the slopes).
+    gyro[px, py] = plane_polar
+    gyro[py, px] = -plane_polar
+    offset = 4 * n_nodes
+    for i, b in enumerate(bearings):
+        if b.pedestal is not None:
+            m = _positive(b.pedestal.mass, f"bearings[{i}].pedestal.mass", "mass")
+            mass[offset, offset] = mass[offset + 1, offset + 1] = m
+            offset += 2
+    return Rotor(
+        np.concatenate([[0.0], np.cumsum(lengths)]),
+        tuple(nodes_per_station),
+        mass,
+        stiffness,
+        gyro,
+        tuple(bearings),
+        tuple(discs),
+        plane_polar,
+    )
