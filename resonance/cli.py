@@ -1,6 +1,7 @@
 """The ``check`` command: run every check of a scenario file, headless.
 
-``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` prints the
+``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` runs a
+support scenario, or a rotor scenario (one with a ``rotor`` table), prints the
 text record, writes the self-contained HTML record and the JSON of inputs and
 findings when asked, and exits 0 when every check passes, 1 when any fails,
 and 2 on bad input (with a message naming the file and the field). Records
@@ -19,7 +20,7 @@ from pathlib import Path
 
 from .errors import InputTypeError, InputValueError
 from .record import atomic_write, build_record
-from .scenario import load_scenario
+from .scenario import parse_scenario, read_scenario_file
 from .study import run_study
 
 __all__ = ["main"]
@@ -42,16 +43,35 @@ def _check(args: argparse.Namespace) -> int:
         target = getattr(args, option)
         if target is not None and target.resolve() == args.scenario.resolve():
             raise InputValueError(f"--{option}: {target} is the scenario file itself; choose another file")
-    scenario = load_scenario(args.scenario)
-    result = run_study(scenario)
-    record = build_record(result)
+    data = read_scenario_file(args.scenario)
+    name = args.scenario.name
+    if "rotor" in data:  # a rotor scenario
+        from .rotor.record import build_rotor_record
+        from .rotor.scenario import parse_rotor_scenario
+        from .rotor.study import run_rotor_study
+
+        rotor_result = run_rotor_study(parse_rotor_scenario(data, name))
+        record, passed = build_rotor_record(rotor_result), rotor_result.passed
+
+        def page() -> str:
+            from .ui.report import render_rotor_html
+
+            return render_rotor_html(rotor_result, record)
+
+    else:
+        result = run_study(parse_scenario(data, name))
+        record, passed = build_record(result), result.passed
+
+        def page() -> str:
+            from .ui.report import render_html  # plotly is only needed for the HTML record
+
+            return render_html(result, record)
+
     outputs: list[tuple[str, Path, str]] = []
     if args.json is not None:
         outputs.append(("json", args.json, json.dumps(record.data, indent=2)))
     if args.html is not None:
-        from .ui.report import render_html  # plotly is only needed for the HTML record
-
-        outputs.append(("html", args.html, render_html(result, record)))
+        outputs.append(("html", args.html, page()))
     for option, path, _ in outputs:
         if not path.parent.is_dir():
             raise InputValueError(f"--{option}: the folder {path.parent} does not exist")
@@ -60,7 +80,7 @@ def _check(args: argparse.Namespace) -> int:
     print(record.text)
     for _, path, _ in outputs:
         print(f"wrote {path}")
-    return EXIT_PASS if result.passed else EXIT_FAIL
+    return EXIT_PASS if passed else EXIT_FAIL
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -115,6 +115,13 @@ class FindingsTable:
 
     findings: tuple[Finding, ...]
 
+    @classmethod
+    def combine(cls, tables: Sequence[FindingsTable]) -> FindingsTable:
+        """One table of the findings of several, worst first."""
+        findings = [f for table in tables for f in table]
+        findings.sort(key=lambda f: (f.passed, -f.shortfall))
+        return cls(tuple(findings))
+
     def __iter__(self) -> Iterator[Finding]:
         return iter(self.findings)
 
@@ -271,6 +278,6 @@ def interference_check(
             "(build one with resonance.operating_range)"
         )
     rule = rule if rule is not None else ApiLateralRule()
-    findings = [_finding(m, e, speed_range, rule) for m in modes for e in excitations]
-    findings.sort(key=lambda f: (f.passed, -f.shortfall))
-    return FindingsTable(tuple(findings))
+    return FindingsTable.combine(
+        [FindingsTable(tuple(_finding(m, e, speed_range, rule) for m in modes for e in excitations))]
+    )

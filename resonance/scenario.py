@@ -90,6 +90,7 @@ __all__ = [
     "Scenario",
     "parse_scenario",
     "load_scenario",
+    "read_scenario_file",
     "scenario_to_dict",
     "save_scenario",
 ]
@@ -323,6 +324,36 @@ class _Reader:
         return value
 
 
+def _speed(r: _Reader, speed: Mapping[str, Any]) -> OperatingRange:
+    r.known(speed, ("min", "max", "skip_bands"), "speed")
+    low = r.quantity(speed, "min", "speed.min", "speed", "positive")
+    high = r.quantity(speed, "max", "speed.max", "speed", "positive")
+    if low > high:
+        raise r.fail("speed.max", f"got {high:g} rpm, below speed.min = {low:g} rpm; expected min <= max")
+    bands = []
+    for i, band in enumerate(r.array(speed, "skip_bands", "speed.skip_bands", required=False)):
+        if not isinstance(band, list) or len(band) != 2:
+            raise r.fail(f"speed.skip_bands[{i}]", f"got {band!r}; expected [low, high]")
+        bands.append(tuple(r.value(b, f"speed.skip_bands[{i}]", "speed", "positive") for b in band))
+    try:
+        return operating_range(low, high, bands)  # type: ignore[arg-type]
+    except InputValueError as error:
+        raise r.fail("speed.skip_bands", str(error)) from None
+
+
+def _speed_table(speed: OperatingRange) -> dict[str, Any]:
+    return {
+        "min": f"{speed.speed_min!r} rpm",
+        "max": f"{speed.speed_max!r} rpm",
+        "skip_bands": [[f"{a!r} rpm", f"{b!r} rpm"] for a, b in speed.skip_bands],
+    }
+
+
+def _excitation_table(e: Excitation) -> dict[str, Any]:
+    key = {"order": e.order} if e.order is not None else {"frequency": f"{e.frequency!r} Hz"}
+    return {**key, "label": e.label}
+
+
 def _excitations(r: _Reader, items: list[Any]) -> tuple[Excitation, ...]:
     out = []
     for i, item in enumerate(items):
@@ -464,22 +495,8 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     if units not in UNIT_SYSTEMS:
         raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
 
-    speed = r.table(data, "speed", "speed")
-    r.known(speed, ("min", "max", "skip_bands"), "speed")
-    low = r.quantity(speed, "min", "speed.min", "speed", "positive")
-    high = r.quantity(speed, "max", "speed.max", "speed", "positive")
-    if low > high:
-        raise r.fail("speed.max", f"got {high:g} rpm, below speed.min = {low:g} rpm; expected min <= max")
-    bands = []
-    for i, band in enumerate(r.array(speed, "skip_bands", "speed.skip_bands", required=False)):
-        if not isinstance(band, list) or len(band) != 2:
-            raise r.fail(f"speed.skip_bands[{i}]", f"got {band!r}; expected [low, high]")
-        bands.append(tuple(r.value(b, f"speed.skip_bands[{i}]", "speed", "positive") for b in band))
-    try:
-        speed_range = operating_range(low, high, bands)  # type: ignore[arg-type]
-    except InputValueError as error:
-        raise r.fail("speed.skip_bands", str(error)) from None
-
+    speed_range = _speed(r, r.table(data, "speed", "speed"))
+    high = speed_range.speed_max
     model = _model(r, r.table(data, "model", "model"))
     response = _response(r, r.table(data, "response", "response"), model.labels, high)
 
@@ -523,6 +540,25 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     )
 
 
+def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
+    """The tables of a scenario file (TOML), unvalidated. The file is only read.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing or is not valid TOML.
+    """
+    name = os.fspath(path)
+    try:
+        raw = Path(path).read_bytes()
+    except OSError as error:
+        raise ScenarioError(f"{name}: cannot be read ({error.strerror})") from None
+    try:
+        return tomllib.loads(raw.decode("utf-8"))
+    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
+        raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
+
+
 def load_scenario(path: str | os.PathLike[str]) -> Scenario:
     """Read and validate a scenario file (TOML). The file is only read.
 
@@ -531,16 +567,7 @@ def load_scenario(path: str | os.PathLike[str]) -> Scenario:
     ScenarioError
         The file is missing, is not valid TOML, or has an invalid field.
     """
-    name = os.fspath(path)
-    try:
-        raw = Path(path).read_bytes()
-    except OSError as error:
-        raise ScenarioError(f"{name}: cannot be read ({error.strerror})") from None
-    try:
-        data = tomllib.loads(raw.decode("utf-8"))
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
-        raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
-    return parse_scenario(data, Path(name).name)
+    return parse_scenario(read_scenario_file(path), Path(os.fspath(path)).name)
 
 
 def _rule_table(rule: MarginRule) -> dict[str, Any]:
@@ -566,11 +593,6 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
 
     ``parse_scenario(scenario_to_dict(s))`` gives back an equal scenario.
     """
-
-    def excitation(e: Excitation) -> dict[str, Any]:
-        key = {"order": e.order} if e.order is not None else {"frequency": f"{e.frequency!r} Hz"}
-        return {**key, "label": e.label}
-
     m = scenario.model
     given = scenario.response
     response: dict[str, Any] = (
@@ -581,12 +603,8 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
     response.update(force_at=given.force_at, measure_at=given.measure_at)
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
-        "speed": {
-            "min": f"{scenario.speed.speed_min!r} rpm",
-            "max": f"{scenario.speed.speed_max!r} rpm",
-            "skip_bands": [[f"{a!r} rpm", f"{b!r} rpm"] for a, b in scenario.speed.skip_bands],
-        },
-        "excitations": [excitation(e) for e in scenario.excitations],
+        "speed": _speed_table(scenario.speed),
+        "excitations": [_excitation_table(e) for e in scenario.excitations],
         "margin": _rule_table(scenario.rule),
         "model": {
             "damping_ratio": m.damping_ratio,
@@ -619,11 +637,15 @@ def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: b
     FileExistsError
         ``path`` exists and ``overwrite`` is False.
     """
+    return write_scenario_table(scenario_to_dict(scenario), path, overwrite)
+
+
+def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str], overwrite: bool = False) -> Path:
+    """Write scenario tables as TOML through a temporary file; an existing file is kept unless ``overwrite``."""
     target = Path(path)
     if target.exists() and not overwrite:
         raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")
-    text = tomli_w.dumps(scenario_to_dict(scenario))
     temporary = target.with_name(f".{target.name}.tmp")
-    temporary.write_text(text, encoding="utf-8")
+    temporary.write_text(tomli_w.dumps(table), encoding="utf-8")
     os.replace(temporary, target)
     return target

@@ -116,6 +116,9 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "ratio": ("dimensionless", "dimensionless", "dimensionless"),
     "balance_grade": ("mm/s", "mm/s", "mm/s"),
     "inertia": ("kg*m**2", "kg*m**2", "lbm*in**2"),
+    "density": ("kg/m**3", "kg/m**3", "lbm/in**3"),
+    "pressure": ("Pa", "GPa", "psi"),
+    "moment_stiffness": ("N*m/rad", "kN*m/rad", "lbf*in/rad"),
 }
 
 

@@ -124,6 +124,7 @@ EXPECTED_TEXT = {
     "02_machine_on_support.ipynb": "Verdict: FAIL",
     "03_what_if.ipynb": "over the stiffness +/- 30 %",
     "04_calculation_record.ipynb": "VERDICT: FAIL",
+    "05_rotor_critical_speeds.ipynb": "Forward critical speeds:",
 }
 
 

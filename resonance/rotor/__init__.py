@@ -19,6 +19,8 @@ from .analysis import (
     unbalance_response_rotor,
 )
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
+from .scenario import RotorScenario, load_rotor_scenario, parse_rotor_scenario
+from .study import RotorStudyResult, run_rotor_study
 
 __all__ = [
     "Material",
@@ -38,4 +40,9 @@ __all__ = [
     "Unbalance",
     "UnbalanceResponse",
     "unbalance_response_rotor",
+    "RotorScenario",
+    "load_rotor_scenario",
+    "parse_rotor_scenario",
+    "RotorStudyResult",
+    "run_rotor_study",
 ]

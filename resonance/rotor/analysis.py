@@ -45,6 +45,7 @@ from .model import Rotor
 __all__ = [
     "RotorModes",
     "rotor_modes",
+    "deflected_shape",
     "CampbellData",
     "campbell",
     "CriticalSpeed",
@@ -257,6 +258,21 @@ def _modes_from(rotor: Rotor, speed: float, lam: np.ndarray, shapes: np.ndarray)
     return RotorModes(speed, lam.imag / TWO_PI, wn / TWO_PI, -lam.real / wn, _whirl(rotor, shapes), shapes)
 
 
+def deflected_shape(rotor: Rotor, modes: RotorModes, index: int) -> tuple[np.ndarray, np.ndarray]:
+    """Deflected shape of one mode along the shaft: node positions [m] and orbit semi-major axis.
+
+    The shape is scaled to a largest semi-major axis of 1 (mode shapes have no absolute size).
+    """
+    if not 0 <= index < modes.shapes.shape[1]:
+        raise InputValueError(f"index: got {index}; expected 0..{modes.shapes.shape[1] - 1}")
+    n = rotor.nodes
+    u = modes.shapes[:, index]
+    x, y = u[0 : 2 * n : 2], u[2 * n : 4 * n : 2]
+    ax, ay, cross = np.abs(x) ** 2, np.abs(y) ** 2, np.real(x * np.conj(y))
+    semi = np.sqrt((ax + ay) / 2.0 + np.sqrt(((ax - ay) / 2.0) ** 2 + cross**2))
+    return rotor.node_z.copy(), semi / semi.max()
+
+
 def _mac(a: np.ndarray, b: np.ndarray) -> np.ndarray:
     """Modal assurance criterion between the columns of a and b (complex shapes)."""
     num = np.abs(a.conj().T @ b) ** 2
@@ -323,8 +339,9 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
     zeta = np.empty_like(freq)
     shapes = np.empty((grid.size, rotor.size, count), dtype=complex)
     votes = np.zeros(count)
-    with blas_threads_for(2 * rotor.size):
-        basis = _ritz_basis(rotor, float(np.median(grid)), extra) if reduced else None
+    basis = _ritz_basis(rotor, float(np.median(grid)), extra) if reduced else None
+    # The sweep's eigenproblems have the order of the basis, not of the model.
+    with blas_threads_for(2 * (basis.vectors.shape[1] if basis is not None else rotor.size)):
         previous = None
         for i, speed in enumerate(grid):
             lam, vec = _solve_modes(rotor, float(speed), extra, basis)

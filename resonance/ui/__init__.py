@@ -6,5 +6,14 @@ and the what-if results, and panels edit a scenario and re-run
 """
 
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, caution_banner, multi_mode_panel, single_mode_panel
+from .rotor_panel import RotorPanel
 
-__all__ = ["DesignPanel", "RecordPanel", "WhatIfPanel", "caution_banner", "multi_mode_panel", "single_mode_panel"]
+__all__ = [
+    "DesignPanel",
+    "RecordPanel",
+    "RotorPanel",
+    "WhatIfPanel",
+    "caution_banner",
+    "multi_mode_panel",
+    "single_mode_panel",
+]

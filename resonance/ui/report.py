@@ -10,10 +10,12 @@ import os
 from pathlib import Path
 
 from ..record import CAUTION, Record, atomic_write
+from ..rotor.study import RotorStudyResult
 from ..study import StudyResult
 from .plots import interference_figure, modes_table_html, response_figure
+from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 
-__all__ = ["render_html", "write_html"]
+__all__ = ["render_html", "render_rotor_html", "write_html"]
 
 _STYLE = """
 body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:0 16px;color:#222}
@@ -24,22 +26,23 @@ pre{background:#f6f6f6;padding:8px;overflow-x:auto;font-size:85%}
 """
 
 
-def render_html(result: StudyResult, record: Record) -> str:
-    """The HTML record as text (figures with plotly.js inline)."""
-    system = result.scenario.units
-    figures = [response_figure(result, system), interference_figure(result, system)]
+def _page(
+    title: str, passed: bool, summary: str, findings: str, tables: list[tuple[str, str]], figures: list, record: Record
+) -> str:
+    """A self-contained page: caution, verdict, findings, tables, figures (plotly.js inline once), record."""
     plots = [fig.to_html(full_html=False, include_plotlyjs=(i == 0)) for i, fig in enumerate(figures)]
-    verdict_colour = "#2a9d4b" if result.passed else "#d62828"
+    verdict_colour = "#2a9d4b" if passed else "#d62828"
     data = record.data
+    extra = "".join(f"<h2>{html.escape(heading)}</h2>{body}" for heading, body in tables)
     return f"""<!DOCTYPE html>
-<html lang="en"><head><meta charset="utf-8"><title>{html.escape(result.scenario.title)}</title>
+<html lang="en"><head><meta charset="utf-8"><title>{html.escape(title)}</title>
 <style>{_STYLE}</style></head><body>
-<h1>{html.escape(result.scenario.title)}</h1>
+<h1>{html.escape(title)}</h1>
 <p class="caution"><b>Caution.</b> {html.escape(CAUTION)}</p>
-<p class="verdict" style="color:{verdict_colour}">Verdict: {html.escape(result.verdict)}</p>
-<pre>{html.escape(result.summary(system))}</pre>
-<h2>Findings (worst first)</h2>{result.findings.to_html(system=system)}
-<h2>Modes</h2>{modes_table_html(result, system)}
+<p class="verdict" style="color:{verdict_colour}">Verdict: {"PASS" if passed else "FAIL"}</p>
+<pre>{html.escape(summary)}</pre>
+<h2>Findings (worst first)</h2>{findings}
+{extra}
 <h2>Figures</h2>{"".join(plots)}
 <h2>Assumptions</h2><ul>{"".join(f"<li>{html.escape(a)}</li>" for a in data["assumptions"])}</ul>
 <h2>Methods and references</h2><ul>{
@@ -51,6 +54,39 @@ def render_html(result: StudyResult, record: Record) -> str:
     }.</small></p>
 </body></html>
 """
+
+
+def render_html(result: StudyResult, record: Record) -> str:
+    """The HTML record of a support study as text (figures with plotly.js inline)."""
+    system = result.scenario.units
+    return _page(
+        result.scenario.title,
+        result.passed,
+        result.summary(system),
+        result.findings.to_html(system=system),
+        [("Modes", modes_table_html(result, system))],
+        [response_figure(result, system), interference_figure(result, system)],
+        record,
+    )
+
+
+def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
+    """The HTML record of a rotor study as text."""
+    system = result.scenario.units
+    return _page(
+        result.scenario.title,
+        result.passed,
+        result.summary(system),
+        result.findings.to_html(system=system),
+        [],
+        [
+            campbell_figure(result, system),
+            rotor_response_figure(result, system),
+            speed_map_figure(result, system),
+            mode_shape_figure(result),
+        ],
+        record,
+    )
 
 
 def write_html(result: StudyResult, record: Record, path: str | os.PathLike[str]) -> Path:

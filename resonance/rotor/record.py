@@ -1,0 +1,134 @@
+"""The calculation record of a rotor study (text and JSON), like :mod:`resonance.record`."""
+
+from __future__ import annotations
+
+import datetime as _dt
+from typing import Any
+
+from ..record import CAUTION, Record, _versions
+from ..units import display_unit
+from .scenario import rotor_scenario_to_dict
+from .study import RotorStudyResult
+
+__all__ = ["ROTOR_METHODS", "build_rotor_record"]
+
+ROTOR_METHODS: tuple[tuple[str, str], ...] = (
+    (
+        "Shaft finite elements with rotary inertia, gyroscopic moments and Timoshenko shear",
+        "H. D. Nelson and J. M. McVaugh, J. Eng. Ind. 98(2), 1976; H. D. Nelson, J. Mech. Des. 102(4), 1980",
+    ),
+    (
+        "Damped whirl modes, Campbell diagram, log decrement; critical speeds by root finding on each tracked branch",
+        "M. I. Friswell et al., Dynamics of Rotating Machines, Cambridge, 2010, ch. 3-6",
+    ),
+    ("Undamped critical speed map (synchronous forward whirl)", "API RP 684, 2nd ed. (from memory)"),
+    (
+        "Unbalance response; AF by the half-power method on the response; separation margin and required margin",
+        "API Std 617 8th ed. / API RP 684 2nd ed. (from memory)",
+    ),
+    ("Shaft vibration limit 25.4 sqrt(12000 / N) um pk-pk, not above 25.4 um", "API Std 617, 8th ed. (from memory)"),
+)
+
+
+def _assumptions(result: RotorStudyResult) -> list[str]:
+    s = result.scenario
+    return [
+        "Linear rotor-bearing model: lateral motion in two planes, rigid discs, bearings as linear springs and "
+        "dashpots (coefficients interpolated over speed where tabulated); foundation rigid unless a pedestal is given.",
+        f"Campbell data from {result.campbell.speed.size} speeds up to {s.sweep_max:g} rpm with a Ritz basis "
+        "(lowest modes plus static bearing shapes); the lowest tracked modes agree with the full model to about 1e-5.",
+        "1x criticals take their AF from the half-power points of the unbalance response at the probe that "
+        "responds most; other criticals take 1 / (2 zeta) from the modal damping.",
+        "Unbalance: "
+        + ", ".join(f"{u.amount * 1e6:.4g} g mm at station {u.station}" for u in s.unbalances(result.rotor))
+        + "; "
+        "predicted vibration is the orbit's major axis, peak-to-peak, at the probe stations.",
+        f"Required separation margin by {s.rule.name} ({s.rule.source}).",
+        "A negative log decrement of any tracked mode up to the maximum continuous speed fails the check.",
+    ]
+
+
+def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = None) -> Record:
+    """Build the record of a rotor study result."""
+    created = created or _dt.datetime.now(_dt.timezone.utc)
+    s = result.scenario
+    d_unit, d_factor = display_unit("displacement", s.units)
+    digits = 1 if s.units == "SI" else 2
+    data: dict[str, Any] = {
+        "format": "resonance-rotor-record/1",
+        "title": s.title,
+        "created_utc": created.replace(microsecond=0).isoformat(),
+        "software": _versions(),
+        "scenario_file": s.source,
+        "scenario": rotor_scenario_to_dict(s),
+        "assumptions": _assumptions(result),
+        "methods": [{"method": m, "reference": r} for m, r in ROTOR_METHODS],
+        "critical_speeds": [
+            {
+                "order": c.order,
+                "branch": c.branch + 1,
+                "speed_rpm": c.speed,
+                "frequency_hz": c.frequency,
+                "damping_ratio": c.damping_ratio,
+                "whirl": c.whirl,
+            }
+            for c in result.criticals
+        ],
+        "findings": result.findings.to_records(),
+        "stability": {"stable": result.stable, "unstable_points": [list(p) for p in result.unstable]},
+        "vibration": {
+            "peak_pk_pk_m": result.peak_vibration,
+            "at_speed_rpm": result.peak_vibration_speed,
+            "limit_pk_pk_m": result.vibration_limit,
+            "passed": result.vibration_passed,
+        },
+        "verdict": result.verdict,
+        "cautions": CAUTION,
+    }
+    lines = [
+        f"CALCULATION RECORD (ROTOR): {s.title}",
+        "=" * 78,
+        *([s.description] if s.description else []),
+        f"scenario file: {s.source}",
+        f"created: {data['created_utc']}",
+        "software: " + ", ".join(f"{k} {v}" for k, v in data["software"].items()),
+        "",
+        "INPUTS",
+        f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm; sweep to {s.sweep_max:g} rpm",
+        f"  shaft: {len(s.sections)} sections, {result.rotor.nodes - 1} elements, "
+        f"{result.rotor.node_z[-1]:.3f} m long; discs: "
+        + (", ".join(f"{d.label} {d.mass:g} kg at station {d.station}" for d in s.discs) or "none"),
+        "  bearings: "
+        + ", ".join(f"{b.label} at station {b.station}" + (" (speed table)" if b.speeds else "") for b in s.bearings),
+        f"  margin rule: {s.rule.name} ({s.rule.source})",
+        "",
+        "ASSUMPTIONS",
+        *(f"  - {a}" for a in data["assumptions"]),
+        "",
+        "METHODS AND REFERENCES",
+        *(f"  - {m['method']} [{m['reference']}]" for m in data["methods"]),
+        "",
+        "CRITICAL SPEEDS (forward whirl)",
+        *(
+            f"  {c.speed:.0f} rpm ({c.order:g}x, branch {c.branch + 1}): {c.frequency:.2f} Hz, damping ratio "
+            f"{c.damping_ratio:.4f}, log dec. {c.to_mode().log_decrement:.3f}"
+            for c in result.criticals
+        ),
+        *(["  none within the sweep"] if not result.criticals else []),
+        "",
+        "FINDINGS (worst first)",
+        result.findings.to_text(system=s.units) if len(result.findings) else "  no critical speed to check",
+        "",
+        "STABILITY",
+        f"  {'stable' if result.stable else 'UNSTABLE'}",
+        "",
+        "VIBRATION",
+        f"  {result.peak_vibration * d_factor:.{digits}f} {d_unit} pk-pk at {result.peak_vibration_speed:.0f} rpm; "
+        f"API limit {result.vibration_limit * d_factor:.{digits}f} {d_unit}",
+        "",
+        f"VERDICT: {result.verdict}",
+        "",
+        "CAUTION",
+        f"  {CAUTION}",
+    ]
+    return Record(data, "\n".join(lines))

@@ -1,0 +1,224 @@
+"""The rotor flow: scenario -> rotor -> Campbell data, criticals, unbalance response -> findings.
+
+The separation margins follow the API lateral approach: each 1x forward
+critical speed is located on the unbalance response (the peak at the probe
+that responds most), its amplification factor comes from the half-power
+method on that response, and the required margin from the rule; criticals of
+other orders (and 1x criticals whose peak the response sweep cannot resolve)
+take their AF from the modal damping, ``1 / (2 zeta)``. A mode with negative
+log decrement anywhere up to the maximum continuous speed fails the stability
+check, and the predicted shaft vibration at the probes over the operating
+speeds is compared with the API shaft vibration limit.
+
+References
+----------
+API Std 617, 8th ed., 2014, and API RP 684, 2nd ed., 2005 (from memory).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputValueError
+from ..excitations import Excitation
+from ..interference import FindingsTable, interference_check
+from ..limits import api_shaft_vibration_limit
+from ..margins import HalfPower, half_power_points
+from ..modes import Mode
+from ..units import UnitSystem, display_unit
+from .analysis import (
+    CampbellData,
+    CriticalSpeed,
+    CriticalSpeedMap,
+    UnbalanceResponse,
+    campbell,
+    critical_speed_map,
+    critical_speeds,
+    deflected_shape,
+    rotor_modes,
+    unbalance_response_rotor,
+)
+from .model import Rotor
+from .scenario import RotorScenario
+
+__all__ = ["RotorStudyResult", "run_rotor_study"]
+
+CAMPBELL_POINTS = 61
+RESPONSE_POINTS = 240
+
+
+@dataclass(frozen=True)
+class RotorStudyResult:
+    """Everything one run of a rotor scenario gives.
+
+    Attributes
+    ----------
+    scenario : RotorScenario
+    rotor : Rotor
+    campbell : CampbellData
+    criticals : tuple of CriticalSpeed
+        Forward criticals of every excitation order within the sweep.
+    response : UnbalanceResponse
+    half_power : tuple of (CriticalSpeed, HalfPower or None)
+        The 1x criticals with their response-peak analysis (None: not resolved).
+    modes : tuple of Mode
+        What the interference check saw.
+    findings : FindingsTable
+    unstable : tuple of (float, int)
+        (speed [rpm], branch) with negative log decrement up to the maximum speed.
+    peak_vibration, peak_vibration_speed : float
+        Largest major-axis shaft vibration [m pk-pk] at the probes over the operating speeds and where.
+    vibration_limit : float
+        API shaft vibration limit at the maximum continuous speed [m pk-pk].
+    speed_map : CriticalSpeedMap
+        Undamped critical speeds against isotropic support stiffness.
+    bearing_curves : tuple of (str, numpy.ndarray, numpy.ndarray, numpy.ndarray)
+        Each bearing's label, speeds [rpm] and kxx, kyy [N/m] over the sweep (to overlay on the map).
+    shapes_at_max : tuple of (numpy.ndarray, numpy.ndarray)
+        Deflected shape (node positions [m], relative semi-major axis) of each tracked mode at the
+        maximum continuous speed.
+    """
+
+    scenario: RotorScenario
+    rotor: Rotor
+    campbell: CampbellData
+    criticals: tuple[CriticalSpeed, ...]
+    response: UnbalanceResponse
+    half_power: tuple[tuple[CriticalSpeed, HalfPower | None], ...]
+    modes: tuple[Mode, ...]
+    findings: FindingsTable
+    unstable: tuple[tuple[float, int], ...]
+    peak_vibration: float
+    peak_vibration_speed: float
+    vibration_limit: float
+    speed_map: CriticalSpeedMap
+    bearing_curves: tuple[tuple[str, np.ndarray, np.ndarray, np.ndarray], ...]
+    shapes_at_max: tuple[tuple[np.ndarray, np.ndarray], ...]
+
+    @property
+    def stable(self) -> bool:
+        """True when no tracked mode has negative log decrement up to the maximum speed."""
+        return not self.unstable
+
+    @property
+    def vibration_passed(self) -> bool:
+        """True when the predicted shaft vibration is within the API limit."""
+        return self.peak_vibration <= self.vibration_limit
+
+    @property
+    def passed(self) -> bool:
+        """Margins, stability and vibration all pass."""
+        return self.findings.passed and self.stable and self.vibration_passed
+
+    @property
+    def verdict(self) -> str:
+        """``"PASS"`` or ``"FAIL"``."""
+        return "PASS" if self.passed else "FAIL"
+
+    def summary(self, system: UnitSystem = "SI") -> str:
+        """Four lines: verdict, margins, stability, vibration."""
+        unit, factor = display_unit("displacement", system)
+        digits = 1 if system == "SI" else 2
+        criticals = ", ".join(f"{c.speed:.0f} rpm ({c.order:g}x)" for c in self.criticals) or "none in the sweep"
+        stability = (
+            "stable: every tracked mode has positive log decrement up to the maximum speed"
+            if self.stable
+            else f"UNSTABLE: negative log decrement at {len(self.unstable)} sweep points, first at "
+            f"{self.unstable[0][0]:.0f} rpm (branch {self.unstable[0][1] + 1})"
+        )
+        return (
+            f"Verdict: {self.verdict}\n"
+            f"Forward critical speeds: {criticals}\n"
+            f"Margins: {self.findings.summary() if len(self.findings) else 'no critical speed to check'}\n"
+            f"Stability: {stability}\n"
+            f"Vibration: {self.peak_vibration * factor:.{digits}f} {unit} pk-pk at {self.peak_vibration_speed:.0f} rpm "
+            f"(API limit {self.vibration_limit * factor:.{digits}f} {unit}) -> "
+            f"{'within' if self.vibration_passed else 'ABOVE'} the limit"
+        )
+
+
+def _order_excitations(scenario: RotorScenario) -> list[Excitation]:
+    orders = [e for e in scenario.excitations if e.order is not None]
+    if not orders:
+        raise InputValueError("excitations: a rotor check needs at least one order of running speed (1x)")
+    return orders
+
+
+def run_rotor_study(
+    scenario: RotorScenario, stiffness_scale: float = 1.0, damping_scale: float = 1.0
+) -> RotorStudyResult:
+    """Run every rotor check of a scenario (optionally with scaled bearing stiffness and damping)."""
+    for name, value in (("stiffness_scale", stiffness_scale), ("damping_scale", damping_scale)):
+        if not (math.isfinite(value) and value > 0.0):
+            raise InputValueError(f"{name}: got {value!r}; expected a finite factor > 0")
+    rotor = scenario.build(stiffness_scale, damping_scale)
+    orders = _order_excitations(scenario)
+    data = campbell(rotor, np.linspace(0.0, scenario.sweep_max, CAMPBELL_POINTS), scenario.modes)
+    criticals = tuple(critical_speeds(rotor, data, [e.order for e in orders]))  # type: ignore[misc]
+    speeds = np.linspace(scenario.sweep_max / RESPONSE_POINTS, scenario.sweep_max, RESPONSE_POINTS)
+    response = unbalance_response_rotor(rotor, scenario.unbalances(rotor), speeds, scenario.probes)
+    amplitude = response.major_pk_pk
+    probe = int(np.argmax(amplitude.max(axis=0)))
+    tables = []
+    analysed = []
+    modes: list[Mode] = []
+    for excitation in orders:
+        found = []
+        for c in (c for c in criticals if c.order == excitation.order):
+            hp = None
+            if c.order == 1.0:
+                try:
+                    hp = half_power_points(speeds, amplitude[:, probe], near=c.speed)
+                except InputValueError:
+                    hp = None
+                if hp is not None and abs(hp.peak_frequency - c.speed) > 0.1 * c.speed:
+                    hp = None  # the nearest resolved peak belongs to another critical
+                analysed.append((c, hp))
+            mode = c.to_mode()
+            if hp is not None:
+                mode = Mode(
+                    mode.frequency,
+                    mode.damping_ratio,
+                    mode.label,
+                    "rotor",
+                    whirl=mode.whirl,
+                    amplification_factor_override=max(1.0, hp.amplification_factor),
+                )
+            found.append(mode)
+        modes += found
+        if found:
+            tables.append(interference_check(found, [excitation], scenario.speed, scenario.rule))
+    running = np.concatenate([np.flatnonzero((speeds >= a) & (speeds <= b)) for a, b in scenario.speed.intervals])
+    if running.size == 0:
+        running = np.array([int(np.argmin(np.abs(speeds - scenario.speed.speed_max)))])
+    worst = running[int(np.argmax(amplitude[running].max(axis=1)))]
+    up_to_max = [(s, b) for s, b in data.unstable() if s <= scenario.speed.speed_max]
+    curve_speeds = np.linspace(0.0, scenario.sweep_max, 25)
+    curves = []
+    for b in rotor.bearings:
+        table = np.array([b.coefficients(float(n))[0] for n in curve_speeds])
+        curves.append((b.label, curve_speeds, table[:, 0, 0], table[:, 1, 1]))
+    low = 0.1 * min(float(np.min(c[2:])) for c in curves)
+    high = 10.0 * max(float(np.max(c[2:])) for c in curves)
+    at_max = rotor_modes(rotor, scenario.speed.speed_max, scenario.modes)
+    speed_map = critical_speed_map(rotor, np.geomspace(max(low, 1e3), max(high, 1e4), 41), count=4)
+    return RotorStudyResult(
+        scenario,
+        rotor,
+        data,
+        criticals,
+        response,
+        tuple(analysed),
+        tuple(modes),
+        FindingsTable.combine(tables),
+        tuple(up_to_max),
+        float(amplitude[worst].max()),
+        float(speeds[worst]),
+        api_shaft_vibration_limit(scenario.speed.speed_max),
+        speed_map,
+        tuple(curves),
+        tuple(deflected_shape(rotor, at_max, i) for i in range(at_max.shapes.shape[1])),
+    )

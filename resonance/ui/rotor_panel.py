@@ -1,0 +1,139 @@
+"""The rotor panel: speed range, bearing stiffness and damping, live Campbell diagram and response."""
+
+from __future__ import annotations
+
+import html
+
+import ipywidgets as w
+
+from ..errors import InputValueError
+from ..rotor.scenario import RotorScenario
+from ..rotor.study import RotorStudyResult, run_rotor_study
+from ..speed_range import operating_range
+from ..units import UnitSystem
+from .panels import _speed_slider, _verdict_html, caution_banner
+from .plots import findings_table_html
+from .rotor_plots import (
+    campbell_figure,
+    mode_shape_figure,
+    rotor_response_figure,
+    speed_map_figure,
+    update_campbell_figure,
+    update_mode_shape_figure,
+    update_rotor_response_figure,
+    update_speed_map_figure,
+)
+
+__all__ = ["RotorPanel"]
+
+
+def _factor_slider(label: str) -> w.FloatLogSlider:
+    # Factors from x0.1 to x10 on a logarithmic scale.
+    return w.FloatLogSlider(
+        value=1.0,
+        base=10,
+        min=-1.0,
+        max=1.0,
+        step=0.01,
+        readout_format=".2f",
+        description=label,
+        continuous_update=False,
+        style={"description_width": "150px"},
+        layout=w.Layout(width="540px"),
+    )
+
+
+class RotorPanel:
+    """Live rotor critical-speed check of a rotor scenario.
+
+    Controls: the operating speed range, factors on every bearing's stiffness
+    and damping, and the unit system. Views: verdict, Campbell diagram,
+    unbalance response, findings, critical speed map, mode shapes.
+    """
+
+    def __init__(self, scenario: RotorScenario):
+        self.original = scenario
+        self.scenario = scenario
+        self.speed = _speed_slider(scenario)  # type: ignore[arg-type]
+        self.stiffness = _factor_slider("bearing stiffness x")
+        self.damping = _factor_slider("bearing damping x")
+        self.units = w.ToggleButtons(
+            options=["SI", "US"],
+            value=scenario.units,
+            description="units",
+            style={"description_width": "110px", "button_width": "60px"},
+        )
+        self.verdict = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+        self.result: RotorStudyResult = self.compute()
+        self.campbell_fig = campbell_figure(self.result, self.system, widget=True)
+        self.response_fig = rotor_response_figure(self.result, self.system, widget=True)
+        self.map_fig = speed_map_figure(self.result, self.system, widget=True)
+        self.shape_fig = mode_shape_figure(self.result, widget=True)
+        self._render_text()
+        for control in (self.speed, self.stiffness, self.damping, self.units):
+            control.observe(self._changed, names="value")
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
+                self.speed,
+                self.stiffness,
+                self.damping,
+                self.units,
+                self.verdict,
+                self.message,
+                self.campbell_fig,
+                self.response_fig,
+                self.findings_html,
+                self.map_fig,
+                self.shape_fig,
+            ]
+        )
+
+    @property
+    def system(self) -> UnitSystem:
+        """The unit system shown."""
+        return self.units.value  # type: ignore[no-any-return]
+
+    def edited_scenario(self) -> RotorScenario:
+        """The scenario with the panel's speed range and unit system."""
+        low, high = self.speed.value
+        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
+        sweep = max(self.original.sweep_max, 1.25 * float(high))
+        return self.original.replace(
+            speed=operating_range(float(low), float(high), bands), units=self.system, sweep_max=sweep
+        )
+
+    def compute(self) -> RotorStudyResult:
+        """Re-run the rotor study for the controls (no drawing)."""
+        self.scenario = self.edited_scenario()
+        return run_rotor_study(self.scenario, float(self.stiffness.value), float(self.damping.value))
+
+    def update(self) -> None:
+        """Recompute and refresh every view in place."""
+        self.result = self.compute()
+        update_campbell_figure(self.campbell_fig, self.result, self.system)
+        update_rotor_response_figure(self.response_fig, self.result, self.system)
+        update_speed_map_figure(self.map_fig, self.result, self.system)
+        update_mode_shape_figure(self.shape_fig, self.result)
+        self._render_text()
+
+    def _changed(self, _change: object) -> None:
+        try:
+            self.update()
+            self.message.value = ""
+        except InputValueError as error:
+            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return self.result.summary(self.system)
+
+    def _render_text(self) -> None:
+        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.findings_html.value = findings_table_html(self.result, self.system)  # type: ignore[arg-type]
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]

@@ -1,0 +1,147 @@
+"""The rotor flow: scenario file -> study -> findings, records, panel and check command.
+
+Expected values are recomputed here with the engine's published formulas, not
+copied from its output: separation margin (API RP 684, from memory), required
+margin from the AF (API Std 617 / API RP 684, from memory), AF by the
+half-power method on the unbalance response (API RP 684, from memory), the
+API shaft vibration limit (API Std 617, from memory). The demo rotor is an
+invented fan.
+"""
+
+import json
+
+import numpy as np
+import pytest
+import tomli_w
+import tomllib
+from numpy.testing import assert_allclose
+
+import resonance as R
+from resonance.cli import main
+from resonance.rotor import critical_speeds, load_rotor_scenario, parse_rotor_scenario, run_rotor_study
+from resonance.rotor.scenario import rotor_scenario_to_dict
+from resonance.scenario import ScenarioError
+from resonance.ui import RotorPanel
+
+
+@pytest.fixture
+def fan_path(pump_path):
+    return pump_path.parent / "fan_rotor.toml"
+
+
+@pytest.fixture
+def fan(fan_path):
+    return load_rotor_scenario(fan_path)
+
+
+def test_rotor_scenario_round_trip(fan):
+    assert parse_rotor_scenario(rotor_scenario_to_dict(fan), fan.source) == fan
+    assert fan.bearings[0].speeds == (0.0, 3600.0)
+    assert fan.unbalance[0].amount == pytest.approx(3e-3)
+
+
+def test_study_findings_follow_the_published_rules(fan):
+    result = run_rotor_study(fan)
+    again = critical_speeds(result.rotor, result.campbell, orders=(1.0,))
+    assert [c.speed for c in result.criticals] == [c.speed for c in again]
+    (finding,) = result.findings
+    critical = result.criticals[0]
+    assert_allclose(finding.margin, R.separation_margin(critical.speed, 900.0, 1800.0), rtol=1e-12)
+    probe = int(np.argmax(result.response.major_pk_pk.max(axis=0)))
+    af = R.amplification_factor(result.response.speed, result.response.major_pk_pk[:, probe], near=critical.speed)
+    assert_allclose(finding.mode.amplification_factor, af, rtol=1e-12)
+    assert_allclose(finding.required_margin, R.required_separation_margin(af, "above"), rtol=1e-12)
+    assert_allclose(result.vibration_limit, R.api_shaft_vibration_limit(1800.0), rtol=1e-15)
+    assert result.stable
+    assert result.verdict == "PASS"
+
+
+def test_cross_coupled_bearing_makes_the_rotor_unstable(fan_path):
+    # A large destabilizing cross-coupled stiffness (k_xy = -k_yx > c w) drives a forward mode's log
+    # decrement negative (Friswell et al. 2010, from memory; threshold derived in tests/test_rotor.py).
+    data = tomllib.loads(fan_path.read_text())
+    for bearing in data["rotor"]["bearings"]:
+        bearing["kxy"] = ["60 kN/mm", "60 kN/mm"]
+        bearing["kyx"] = ["-60 kN/mm", "-60 kN/mm"]
+        bearing["cxx"] = bearing["cyy"] = "20 kN*s/m"
+    result = run_rotor_study(parse_rotor_scenario(data, "unstable.toml"))
+    assert not result.stable
+    assert result.verdict == "FAIL"
+    assert "UNSTABLE" in result.summary()
+
+
+@pytest.mark.parametrize(
+    ("edit", "message"),
+    [
+        (lambda d: d["rotor"].pop("bearings"), r"fan\.toml: rotor\.bearings: missing"),
+        (
+            lambda d: d["rotor"]["bearings"][0].update(station=9),
+            r"fan\.toml: rotor: bearings\[0\] \(NDE bearing\): station 9 does not exist",
+        ),
+        (
+            lambda d: d["rotor"]["bearings"][0].update(speeds=["0 rpm", "2000 rpm"]),
+            r"rotor: NDE bearing: its coefficient table covers 0-2000 rpm",
+        ),
+        (lambda d: d["rotor"]["bearings"][0].pop("speeds"), r"rotor\.bearings\[0\]\.kxx: got a list; give `speeds`"),
+        (
+            lambda d: d["rotor"]["sections"][0].update(outer_diameter="12 kg"),
+            r"rotor\.sections\[0\]\.outer_diameter: got 12 kg, which is not a length",
+        ),
+        (
+            lambda d: d["rotor"]["sections"][0].update(inner_diameter="130 mm"),
+            r"rotor: sections\[0\]\.inner_diameter: got 0\.13 m, not less than",
+        ),
+        (
+            lambda d: d["rotor"]["unbalance"][0].update(balance_grade=2.5),
+            r"rotor\.unbalance\[0\]: give exactly one of amount or balance_grade",
+        ),
+        (
+            lambda d: d["rotor"].update(sweep_max="1000 rpm"),
+            r"rotor\.sweep_max: got 1000 rpm; expected above speed\.max",
+        ),
+        (lambda d: d["rotor"].update(probes=[7]), r"rotor: station: got 7; expected 0\.\.4"),
+    ],
+)
+def test_malformed_rotor_scenarios(fan_path, edit, message):
+    data = tomllib.loads(fan_path.read_text())
+    edit(data)
+    with pytest.raises(ScenarioError, match=message):
+        parse_rotor_scenario(data, "fan.toml")
+
+
+def test_rotor_panel_headless(fan):
+    panel = RotorPanel(fan)
+    assert "Verdict: PASS" in panel.verdict.value
+    branch0 = np.array(panel.campbell_fig.data[0].y)
+    panel.speed.value = (900, 2200)
+    critical = panel.result.criticals[0].speed
+    assert_allclose(panel.result.findings[0].margin, R.separation_margin(critical, 900.0, 2200.0), rtol=1e-12)
+    assert "Verdict: FAIL" in panel.verdict.value
+    panel.stiffness.value = 0.5
+    assert not np.allclose(np.array(panel.campbell_fig.data[0].y), branch0)
+    panel.units.value = "US"
+    assert "mil pk-pk" in panel.response_fig.layout.yaxis.title.text
+    assert "[cpm]" in panel.campbell_fig.layout.yaxis.title.text
+
+
+def test_check_command_runs_rotor_scenarios(tmp_path, fan_path, capsys):
+    html, js = tmp_path / "rotor.html", tmp_path / "rotor.json"
+    assert main(["check", str(fan_path), "--html", str(html), "--json", str(js)]) == 0
+    assert "CALCULATION RECORD (ROTOR)" in capsys.readouterr().out
+    record = json.loads(js.read_text())
+    assert record["verdict"] == "PASS"
+    assert record["critical_speeds"][0]["whirl"] == "forward"
+    page = html.read_text()
+    assert "Campbell diagram" in page
+    assert "<script src=" not in page
+    data = tomllib.loads(fan_path.read_text())
+    data["speed"]["max"] = "2200 rpm"
+    failing = tmp_path / "fast.toml"
+    failing.write_text(tomli_w.dumps(data))
+    assert main(["check", str(failing)]) == 1
+    data["rotor"]["sections"][0]["length"] = "-1 m"
+    broken = tmp_path / "broken.toml"
+    broken.write_text(tomli_w.dumps(data))
+    assert main(["check", str(broken), "--json", str(tmp_path / "b.json")]) == 2
+    assert "broken.toml: rotor.sections[0].length: got -1 m" in capsys.readouterr().err
+    assert not (tmp_path / "b.json").exists()
