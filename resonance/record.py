@@ -96,17 +96,36 @@ def _assumptions(result: StudyResult) -> list[str]:
     ]
 
 
-def _text(result: StudyResult, data: dict[str, Any]) -> str:
-    s = result.scenario
-    v_unit, v_factor = display_unit("velocity", s.units)
-    lines = [f"CALCULATION RECORD: {s.title}", "=" * 78]
-    if s.description:
-        lines.append(s.description)
-    lines += [
+def header_lines(heading: str, title: str, description: str, data: dict[str, Any]) -> list[str]:
+    """The opening lines of a text record: title, description, file, time stamp, software."""
+    return [
+        f"{heading}: {title}",
+        "=" * 78,
+        *([description] if description else []),
         f"scenario file: {data['scenario_file']}",
         f"created: {data['created_utc']}",
         "software: " + ", ".join(f"{k} {v}" for k, v in data["software"].items()),
         "",
+    ]
+
+
+def basis_lines(data: dict[str, Any]) -> list[str]:
+    """The assumptions and the methods with their references, as text lines."""
+    return [
+        "ASSUMPTIONS",
+        *(f"  - {a}" for a in data["assumptions"]),
+        "",
+        "METHODS AND REFERENCES",
+        *(f"  - {m['method']} [{m['reference']}]" for m in data["methods"]),
+        "",
+    ]
+
+
+def _text(result: StudyResult, data: dict[str, Any]) -> str:
+    s = result.scenario
+    v_unit, v_factor = display_unit("velocity", s.units)
+    lines = header_lines("CALCULATION RECORD", s.title, s.description, data)
+    lines += [
         "INPUTS",
         f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm"
         + (
@@ -122,12 +141,7 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
         ),
         f"  margin rule: {s.rule.name} ({s.rule.source})",
         "",
-        "ASSUMPTIONS",
-        *(f"  - {a}" for a in data["assumptions"]),
-        "",
-        "METHODS AND REFERENCES",
-        *(f"  - {m['method']} [{m['reference']}]" for m in data["methods"]),
-        "",
+        *basis_lines(data),
         "MODES",
         *(
             f"  {m['label']}: {m['frequency_hz']:.2f} Hz ({m['frequency_hz'] * 60:.0f} cpm), damping ratio "

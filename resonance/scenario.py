@@ -324,6 +324,15 @@ class _Reader:
         return value
 
 
+def _head(r: _Reader, data: Mapping[str, Any]) -> tuple[str, str, UnitSystem]:
+    head = r.table(data, "scenario", "scenario")
+    r.known(head, ("title", "description", "units"), "scenario")
+    units = r.text(head, "units", "scenario.units", "SI")
+    if units not in UNIT_SYSTEMS:
+        raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
+    return r.text(head, "title", "scenario.title"), r.text(head, "description", "scenario.description", ""), units  # type: ignore[return-value]
+
+
 def _speed(r: _Reader, speed: Mapping[str, Any]) -> OperatingRange:
     r.known(speed, ("min", "max", "skip_bands"), "speed")
     low = r.quantity(speed, "min", "speed.min", "speed", "positive")
@@ -489,11 +498,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     """
     r = _Reader(source)
     r.known(data, ("scenario", "speed", "excitations", "margin", "model", "response", "vibration", "whatif"), "")
-    head = r.table(data, "scenario", "scenario")
-    r.known(head, ("title", "description", "units"), "scenario")
-    units = r.text(head, "units", "scenario.units", "SI")
-    if units not in UNIT_SYSTEMS:
-        raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
+    title, description, units = _head(r, data)
 
     speed_range = _speed(r, r.table(data, "speed", "speed"))
     high = speed_range.speed_max
@@ -526,9 +531,9 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
         raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1 (0.3 is +/- 30 %)")
 
     return Scenario(
-        title=r.text(head, "title", "scenario.title"),
-        description=r.text(head, "description", "scenario.description", ""),
-        units=units,  # type: ignore[arg-type]
+        title=title,
+        description=description,
+        units=units,
         speed=speed_range,
         excitations=_excitations(r, r.array(data, "excitations", "excitations")),
         rule=_rule(r, r.table(data, "margin", "margin", required=False)),

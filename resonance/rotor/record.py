@@ -5,7 +5,7 @@ from __future__ import annotations
 import datetime as _dt
 from typing import Any
 
-from ..record import CAUTION, Record, _versions
+from ..record import CAUTION, Record, _versions, basis_lines, header_lines
 from ..units import display_unit
 from .scenario import rotor_scenario_to_dict
 from .study import RotorStudyResult
@@ -86,13 +86,7 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         "cautions": CAUTION,
     }
     lines = [
-        f"CALCULATION RECORD (ROTOR): {s.title}",
-        "=" * 78,
-        *([s.description] if s.description else []),
-        f"scenario file: {s.source}",
-        f"created: {data['created_utc']}",
-        "software: " + ", ".join(f"{k} {v}" for k, v in data["software"].items()),
-        "",
+        *header_lines("CALCULATION RECORD (ROTOR)", s.title, s.description, data),
         "INPUTS",
         f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm; sweep to {s.sweep_max:g} rpm",
         f"  shaft: {len(s.sections)} sections, {result.rotor.nodes - 1} elements, "
@@ -102,12 +96,7 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         + ", ".join(f"{b.label} at station {b.station}" + (" (speed table)" if b.speeds else "") for b in s.bearings),
         f"  margin rule: {s.rule.name} ({s.rule.source})",
         "",
-        "ASSUMPTIONS",
-        *(f"  - {a}" for a in data["assumptions"]),
-        "",
-        "METHODS AND REFERENCES",
-        *(f"  - {m['method']} [{m['reference']}]" for m in data["methods"]),
-        "",
+        *basis_lines(data),
         "CRITICAL SPEEDS (forward whirl)",
         *(
             f"  {c.speed:.0f} rpm ({c.order:g}x, branch {c.branch + 1}): {c.frequency:.2f} Hz, damping ratio "

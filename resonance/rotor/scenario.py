@@ -44,6 +44,7 @@ from ..margins import MarginRule
 from ..scenario import (
     _excitation_table,
     _excitations,
+    _head,
     _Reader,
     _rule,
     _rule_table,
@@ -52,7 +53,7 @@ from ..scenario import (
     read_scenario_file,
 )
 from ..speed_range import OperatingRange
-from ..units import UNIT_SYSTEMS, UnitSystem
+from ..units import UnitSystem
 from .analysis import Unbalance
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
 
@@ -198,11 +199,7 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     """
     r = _Reader(source)
     r.known(data, ("scenario", "speed", "excitations", "margin", "rotor"), "")
-    head = r.table(data, "scenario", "scenario")
-    r.known(head, ("title", "description", "units"), "scenario")
-    units = r.text(head, "units", "scenario.units", "SI")
-    if units not in UNIT_SYSTEMS:
-        raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
+    title, description, units = _head(r, data)
     speed = _speed(r, r.table(data, "speed", "speed"))
     rotor = r.table(data, "rotor", "rotor")
     r.known(rotor, ("sweep_max", "modes", "probes", "sections", "discs", "bearings", "unbalance"), "rotor")
@@ -265,9 +262,9 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     if not 1 <= modes <= 40:
         raise r.fail("rotor.modes", f"got {modes}; expected 1 to 40")
     scenario = RotorScenario(
-        r.text(head, "title", "scenario.title"),
-        r.text(head, "description", "scenario.description", ""),
-        units,  # type: ignore[arg-type]
+        title,
+        description,
+        units,
         speed,
         _excitations(r, r.array(data, "excitations", "excitations")),
         _rule(r, r.table(data, "margin", "margin", required=False)),

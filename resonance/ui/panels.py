@@ -86,7 +86,46 @@ def _af_text(zeta: float) -> str:
     return f"AF = 1/(2 zeta) = {af:.1f}; log dec. {float(log_decrement(zeta)[0]):.3f}"
 
 
-class DesignPanel:
+def _units_toggle(value: str, label_width: str) -> w.ToggleButtons:
+    return w.ToggleButtons(
+        options=["SI", "US"],
+        value=value,
+        description="units",
+        style={"description_width": label_width, "button_width": "60px"},
+    )
+
+
+class _Panel:
+    """What every panel shares: the widget it shows, the unit switch, live updates, error display."""
+
+    widget: w.VBox
+    units: w.ToggleButtons | None
+    message: w.HTML
+
+    @property
+    def system(self) -> UnitSystem:
+        """The unit system shown."""
+        return self.units.value if self.units is not None else "SI"  # type: ignore[no-any-return]
+
+    def update(self) -> None:
+        """Recompute and refresh the views (each panel defines it)."""
+        raise NotImplementedError
+
+    def _changed(self, _change: object) -> None:
+        try:
+            self.update()
+            self.message.value = ""
+        except InputValueError as error:
+            self._error(str(error))
+
+    def _error(self, text: str) -> None:
+        self.message.value = f"<span style='color:#d62828'>{html.escape(text)}</span>"
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
+
+
+class DesignPanel(_Panel):
     """Live check of one scenario: speed range, damping and units as controls.
 
     Parameters
@@ -115,12 +154,7 @@ class DesignPanel:
         self.speed = _speed_slider(scenario)
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML()
-        self.units = w.ToggleButtons(
-            options=["SI", "US"],
-            value=scenario.units,
-            description="units",
-            style={"description_width": "110px", "button_width": "60px"},
-        )
+        self.units = _units_toggle(scenario.units, "110px")
         self.point = w.Dropdown(
             options=list(scenario.model.labels),
             value=scenario.response.measure_at,
@@ -147,11 +181,6 @@ class DesignPanel:
         self.widget = w.VBox(self._children())
 
     # -- state ------------------------------------------------------------
-    @property
-    def system(self) -> UnitSystem:
-        """The unit system shown."""
-        return self.units.value  # type: ignore[no-any-return]
-
     def edited_scenario(self) -> Scenario:
         """The scenario with the controls' values applied."""
         low, high = self.speed.value
@@ -176,22 +205,15 @@ class DesignPanel:
             update_interference_figure(self.interference_fig, self.result, self.system)
         self._render_text()
 
-    def _changed(self, _change: object) -> None:
-        try:
-            self.update()
-            self.message.value = ""
-        except InputValueError as error:
-            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
-
     def save(self, path: str | os.PathLike[str]) -> Path | None:
         """Save the edited scenario; an existing file is never overwritten."""
         if not str(path).strip():
-            self.message.value = "<span style='color:#d62828'>save as: give a file name</span>"
+            self._error("save as: give a file name")
             return None
         try:
             target = save_scenario(self.scenario, path)
         except FileExistsError as error:
-            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+            self._error(str(error))
             return None
         self.message.value = f"saved {html.escape(str(target))}"
         return target
@@ -238,9 +260,6 @@ class DesignPanel:
         children.append(w.HBox([self.save_name, self.save_button]))
         return children
 
-    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
-
 
 def single_mode_panel(scenario: Scenario) -> DesignPanel:
     """A one-mode check: response and phase against speed, AF, margins, verdict."""
@@ -252,7 +271,7 @@ def multi_mode_panel(scenario: Scenario) -> DesignPanel:
     return DesignPanel(scenario, views=("response", "modes", "interference", "findings"))
 
 
-class WhatIfPanel:
+class WhatIfPanel(_Panel):
     """What-if study: scale support stiffness and mass, move the range, add a skip band.
 
     Also finds the smallest stiffness or mass change that makes every check
@@ -311,12 +330,7 @@ class WhatIfPanel:
             style=style,
             layout=wide,
         )
-        self.units = w.ToggleButtons(
-            options=["SI", "US"],
-            value=scenario.units,
-            description="units",
-            style={"description_width": "130px", "button_width": "60px"},
-        )
+        self.units = _units_toggle(scenario.units, "130px")
         self.find_stiffness = w.Button(description="Smallest stiffness fix")
         self.find_mass = w.Button(description="Smallest mass fix")
         self.values = w.HTML()
@@ -355,11 +369,6 @@ class WhatIfPanel:
             ]
         )
 
-    @property
-    def system(self) -> UnitSystem:
-        """The unit system shown."""
-        return self.units.value  # type: ignore[no-any-return]
-
     def edited_scenario(self) -> Scenario:
         """The scenario with the range, skip band, damping and tolerance of the controls."""
         low, high = self.speed.value
@@ -389,13 +398,6 @@ class WhatIfPanel:
         self.result, self.band = self.compute()
         update_interference_figure(self.figure, self.result, self.system, self.band)
         self._render_text()
-
-    def _changed(self, _change: object) -> None:
-        try:
-            self.update()
-            self.message.value = ""
-        except InputValueError as error:
-            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
 
     def solve(self, parameter: str) -> str:
         """Find the smallest fix of one parameter, show it and set its slider.
@@ -434,11 +436,8 @@ class WhatIfPanel:
         self.tolerance_text.value = _verdict_html(self.band.summary(), self.band.passed)
         self.findings_html.value = findings_table_html(self.result, self.system)
 
-    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
 
-
-class RecordPanel:
+class RecordPanel(_Panel):
     """Load a scenario file, run every check, show the record and export it.
 
     After loading, the speed range and damping can be changed for a
@@ -483,20 +482,15 @@ class RecordPanel:
             self.original = self.record = self.result = None
             self.controls.children = ()
             self.text.value = ""
-            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
+            self._error(str(error))
             return False
         self.original = scenario
         self.speed, self.damping = _speed_slider(scenario), _damping_slider(scenario)
-        self.units = w.ToggleButtons(
-            options=["SI", "US"],
-            value=scenario.units,
-            description="units",
-            style={"description_width": "110px", "button_width": "60px"},
-        )
+        self.units = _units_toggle(scenario.units, "110px")
         for control in (self.speed, self.damping, self.units):
-            control.observe(lambda _change: self.run(), names="value")
+            control.observe(self._changed, names="value")
         self.controls.children = (self.speed, self.damping, self.units)
-        self.run()
+        self.update()
         return True
 
     def edited_scenario(self) -> Scenario:
@@ -509,7 +503,7 @@ class RecordPanel:
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
         return edited.replace(model=model, units=self.units.value)
 
-    def run(self) -> None:
+    def update(self) -> None:
         """Run every check of the (edited) scenario and rebuild the record."""
         result = run_study(self.edited_scenario())
         self.result, self.record = result, build_record(result)
@@ -519,7 +513,7 @@ class RecordPanel:
     def export(self) -> tuple[Path, Path] | None:
         """Write the HTML and JSON records to the export folder."""
         if self.record is None or self.result is None:
-            self.message.value = "<span style='color:#d62828'>nothing to export: load a scenario first</span>"
+            self._error("nothing to export: load a scenario first")
             return None
         folder = Path(self.output_dir.value)
         folder.mkdir(parents=True, exist_ok=True)
@@ -528,6 +522,3 @@ class RecordPanel:
         json_path = write_json(self.record, folder / f"{stem}.json")
         self.message.value += f"<p>exported {html.escape(str(html_path))} and {html.escape(str(json_path))}</p>"
         return html_path, json_path
-
-    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]

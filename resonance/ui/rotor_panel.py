@@ -6,12 +6,10 @@ import html
 
 import ipywidgets as w
 
-from ..errors import InputValueError
 from ..rotor.scenario import RotorScenario
 from ..rotor.study import RotorStudyResult, run_rotor_study
 from ..speed_range import operating_range
-from ..units import UnitSystem
-from .panels import _speed_slider, _verdict_html, caution_banner
+from .panels import _Panel, _speed_slider, _units_toggle, _verdict_html, caution_banner
 from .plots import findings_table_html
 from .rotor_plots import (
     campbell_figure,
@@ -43,7 +41,7 @@ def _factor_slider(label: str) -> w.FloatLogSlider:
     )
 
 
-class RotorPanel:
+class RotorPanel(_Panel):
     """Live rotor critical-speed check of a rotor scenario.
 
     Controls: the operating speed range, factors on every bearing's stiffness
@@ -57,12 +55,7 @@ class RotorPanel:
         self.speed = _speed_slider(scenario)  # type: ignore[arg-type]
         self.stiffness = _factor_slider("bearing stiffness x")
         self.damping = _factor_slider("bearing damping x")
-        self.units = w.ToggleButtons(
-            options=["SI", "US"],
-            value=scenario.units,
-            description="units",
-            style={"description_width": "110px", "button_width": "60px"},
-        )
+        self.units = _units_toggle(scenario.units, "110px")
         self.verdict = w.HTML()
         self.message = w.HTML()
         self.findings_html = w.HTML()
@@ -92,11 +85,6 @@ class RotorPanel:
             ]
         )
 
-    @property
-    def system(self) -> UnitSystem:
-        """The unit system shown."""
-        return self.units.value  # type: ignore[no-any-return]
-
     def edited_scenario(self) -> RotorScenario:
         """The scenario with the panel's speed range and unit system."""
         low, high = self.speed.value
@@ -120,13 +108,6 @@ class RotorPanel:
         update_mode_shape_figure(self.shape_fig, self.result)
         self._render_text()
 
-    def _changed(self, _change: object) -> None:
-        try:
-            self.update()
-            self.message.value = ""
-        except InputValueError as error:
-            self.message.value = f"<span style='color:#d62828'>{html.escape(str(error))}</span>"
-
     def summary(self) -> str:
         """What the panel says, as plain text."""
         return self.result.summary(self.system)
@@ -134,6 +115,3 @@ class RotorPanel:
     def _render_text(self) -> None:
         self.verdict.value = _verdict_html(self.summary(), self.result.passed)
         self.findings_html.value = findings_table_html(self.result, self.system)  # type: ignore[arg-type]
-
-    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]

@@ -6,7 +6,6 @@ that fills them from a :class:`~resonance.rotor.study.RotorStudyResult`.
 
 from __future__ import annotations
 
-import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
