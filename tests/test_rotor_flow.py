@@ -145,3 +145,19 @@ def test_check_command_runs_rotor_scenarios(tmp_path, fan_path, capsys):
     assert main(["check", str(broken), "--json", str(tmp_path / "b.json")]) == 2
     assert "broken.toml: rotor.sections[0].length: got -1 m" in capsys.readouterr().err
     assert not (tmp_path / "b.json").exists()
+
+
+def test_mode_shapes_at_a_chosen_speed(fan):
+    # The first bending mode of a between-bearings rotor bows between the bearings: the impeller station
+    # moves more than the bearing stations (common practice; the shape comes from the engine's modes).
+    panel = RotorPanel(fan)
+    panel.shape_speed.value = 1200
+    assert panel.result.shape_speed == 1200.0
+    assert "1200 rpm" in panel.shape_fig.layout.title.text
+    z, shape = panel.result.shapes_at_max[0]
+    rotor = panel.result.rotor
+    impeller = rotor.station_nodes[2]
+    bearings = [rotor.station_nodes[b.station] for b in rotor.bearings]
+    assert shape.max() == 1.0
+    assert shape[impeller] > max(shape[b] for b in bearings)
+    assert_allclose(np.array(panel.shape_fig.data[0].x), z)

@@ -78,8 +78,9 @@ class RotorStudyResult:
     bearing_curves : tuple of (str, numpy.ndarray, numpy.ndarray, numpy.ndarray)
         Each bearing's label, speeds [rpm] and kxx, kyy [N/m] over the sweep (to overlay on the map).
     shapes_at_max : tuple of (numpy.ndarray, numpy.ndarray)
-        Deflected shape (node positions [m], relative semi-major axis) of each tracked mode at the
-        maximum continuous speed.
+        Deflected shape (node positions [m], relative semi-major axis) of each mode at ``shape_speed``.
+    shape_speed : float
+        The speed of the mode shapes [rpm] (the maximum continuous speed unless chosen).
     """
 
     scenario: RotorScenario
@@ -97,6 +98,7 @@ class RotorStudyResult:
     speed_map: CriticalSpeedMap
     bearing_curves: tuple[tuple[str, np.ndarray, np.ndarray, np.ndarray], ...]
     shapes_at_max: tuple[tuple[np.ndarray, np.ndarray], ...]
+    shape_speed: float
 
     @property
     def stable(self) -> bool:
@@ -148,9 +150,12 @@ def _order_excitations(scenario: RotorScenario) -> list[Excitation]:
 
 
 def run_rotor_study(
-    scenario: RotorScenario, stiffness_scale: float = 1.0, damping_scale: float = 1.0
+    scenario: RotorScenario, stiffness_scale: float = 1.0, damping_scale: float = 1.0, shape_speed: float | None = None
 ) -> RotorStudyResult:
-    """Run every rotor check of a scenario (optionally with scaled bearing stiffness and damping)."""
+    """Run every rotor check of a scenario (optionally with scaled bearing stiffness and damping).
+
+    ``shape_speed`` [rpm] is where the mode shapes are taken (the maximum continuous speed if omitted).
+    """
     for name, value in (("stiffness_scale", stiffness_scale), ("damping_scale", damping_scale)):
         if not (math.isfinite(value) and value > 0.0):
             raise InputValueError(f"{name}: got {value!r}; expected a finite factor > 0")
@@ -203,7 +208,8 @@ def run_rotor_study(
         curves.append((b.label, curve_speeds, table[:, 0, 0], table[:, 1, 1]))
     low = 0.1 * min(float(np.min(c[2:])) for c in curves)
     high = 10.0 * max(float(np.max(c[2:])) for c in curves)
-    at_max = rotor_modes(rotor, scenario.speed.speed_max, scenario.modes)
+    shape_speed = scenario.speed.speed_max if shape_speed is None else shape_speed
+    at_max = rotor_modes(rotor, shape_speed, scenario.modes)
     speed_map = critical_speed_map(rotor, np.geomspace(max(low, 1e3), max(high, 1e4), 41), count=4)
     return RotorStudyResult(
         scenario,
@@ -221,4 +227,5 @@ def run_rotor_study(
         speed_map,
         tuple(curves),
         tuple(deflected_shape(rotor, at_max, i) for i in range(at_max.shapes.shape[1])),
+        float(shape_speed),
     )

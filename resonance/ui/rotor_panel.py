@@ -55,6 +55,16 @@ class RotorPanel(_Panel):
         self.speed = _speed_slider(scenario)  # type: ignore[arg-type]
         self.stiffness = _factor_slider("bearing stiffness x")
         self.damping = _factor_slider("bearing damping x")
+        self.shape_speed = w.IntSlider(
+            value=round(scenario.speed.speed_max),
+            min=0,
+            max=round(scenario.sweep_max),
+            step=10,
+            description="mode shapes at [rpm]",
+            continuous_update=False,
+            style={"description_width": "150px"},
+            layout=w.Layout(width="540px"),
+        )
         self.units = _units_toggle(scenario.units, "110px")
         self.verdict = w.HTML()
         self.message = w.HTML()
@@ -65,7 +75,7 @@ class RotorPanel(_Panel):
         self.map_fig = speed_map_figure(self.result, self.system, widget=True)
         self.shape_fig = mode_shape_figure(self.result, widget=True)
         self._render_text()
-        for control in (self.speed, self.stiffness, self.damping, self.units):
+        for control in (self.speed, self.stiffness, self.damping, self.shape_speed, self.units):
             control.observe(self._changed, names="value")
         self.widget = w.VBox(
             [
@@ -81,6 +91,7 @@ class RotorPanel(_Panel):
                 self.response_fig,
                 self.findings_html,
                 self.map_fig,
+                self.shape_speed,
                 self.shape_fig,
             ]
         )
@@ -97,7 +108,9 @@ class RotorPanel(_Panel):
     def compute(self) -> RotorStudyResult:
         """Re-run the rotor study for the controls (no drawing)."""
         self.scenario = self.edited_scenario()
-        return run_rotor_study(self.scenario, float(self.stiffness.value), float(self.damping.value))
+        return run_rotor_study(
+            self.scenario, float(self.stiffness.value), float(self.damping.value), float(self.shape_speed.value)
+        )
 
     def update(self) -> None:
         """Recompute and refresh every view in place."""

@@ -183,12 +183,10 @@ def update_speed_map_figure(fig: go.Figure, result: RotorStudyResult, system: Un
 
 
 def mode_shape_figure(result: RotorStudyResult, widget: bool = False) -> go.Figure:
-    """Deflected shapes (orbit semi-major axis along the shaft) of the tracked modes at the maximum speed."""
+    """Deflected shapes (orbit semi-major axis along the shaft) of the lowest modes at the chosen speed."""
     fig = go.Figure()
-    for b, whirl in enumerate(result.campbell.whirl[:6]):
-        fig.add_trace(
-            go.Scatter(name=f"branch {b + 1} ({whirl[0].upper()}W)", mode="lines+markers", marker={"size": 3})
-        )
+    for b in range(min(6, len(result.shapes_at_max))):
+        fig.add_trace(go.Scatter(name=f"mode {b + 1}", mode="lines+markers", marker={"size": 3}))
     fig.update_layout(
         height=360,
         margin={"l": 70, "r": 20, "t": 40, "b": 50},
@@ -223,4 +221,4 @@ def update_mode_shape_figure(fig: go.Figure, result: RotorStudyResult) -> None:
             }
             for z in bearing_z
         ]
-        fig.layout.title.text = f"Mode shapes at {result.scenario.speed.speed_max:.0f} rpm (bearings dotted)"
+        fig.layout.title.text = f"Mode shapes at {result.shape_speed:.0f} rpm (bearings dotted)"
