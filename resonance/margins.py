@@ -308,12 +308,11 @@ def separation_margin(critical_speed: object, speed_min: object, speed_max: obje
 
 
 def _check_af(amplification_factor: float) -> float:
-    af = (
-        as_si(amplification_factor, "amplification_factor", "ratio")
-        if not (isinstance(amplification_factor, float) and math.isinf(amplification_factor))
-        else math.inf
-    )
-    if math.isnan(af) or af < 1.0:
+    # inf is allowed (an undamped mode); as_si refuses non-finite values, so it is taken first.
+    if isinstance(amplification_factor, (int, float)) and amplification_factor == math.inf:
+        return math.inf
+    af = as_si(amplification_factor, "amplification_factor", "ratio")
+    if af < 1.0:
         raise InputValueError(f"amplification_factor: got {af:g}; expected a value >= 1 (inf allowed)")
     return af
 
