@@ -97,26 +97,45 @@ def _vertex(x: np.ndarray, y: np.ndarray) -> tuple[float, float] | None:
     return float(x0), float(c - b * b / (4.0 * a))
 
 
-def _crossing(x: np.ndarray, y: np.ndarray, level: float, k: int, i: int) -> float:
-    """Where ``y`` crosses ``level`` between samples ``k`` and ``k + 1``.
+def _crossing(
+    x: np.ndarray, y: np.ndarray, level: float, inner: tuple[float, float], outer: tuple[float, float], start: int
+) -> float:
+    """Where the curve crosses ``level`` between an inner point (nearer the peak) and an outer sample.
 
-    Uses the parabola through three neighbouring samples on the same flank as
-    the crossing (the peak sample ``i`` may be one of them); falls back to
-    linear interpolation when the flank has only two samples or the parabola
-    does not cross inside the bracket.
+    The parabola through samples ``start .. start + 2`` is used when it crosses inside the bracket
+    (for brackets next to the peak that is the peak's own parabola, so the crossing and the peak stay
+    consistent on a coarse sweep); otherwise linear interpolation between the two points.
     """
-    lo, hi = x[k], x[k + 1]
-    start = min(k - 1, i - 2) if k < i else max(k, i)
-    start = max(start, 0) if k < i else min(start, x.size - 3)
-    on_flank = start + 2 <= i if k < i else start >= i
-    if on_flank and 0 <= start <= x.size - 3:
+    lo, hi = sorted((inner[0], outer[0]))
+    if 0 <= start <= x.size - 3:
         window = slice(start, start + 3)
         a, b, c = np.polyfit(x[window], y[window], 2)
         roots = np.roots([a, b, c - level])
         inside = [r.real for r in roots if abs(r.imag) <= 1e-9 * abs(r) and lo <= r.real <= hi]
         if len(inside) == 1:
             return float(inside[0])
-    return float(lo + (level - y[k]) * (hi - lo) / (y[k + 1] - y[k]))
+    (xa, ya), (xb, yb) = inner, outer
+    return float(xa + (level - ya) * (xb - xa) / (yb - ya))
+
+
+def _flank_crossing(x: np.ndarray, y: np.ndarray, level: float, i: int, x0: float, y0: float, step: int) -> float:
+    """The half-power crossing on one flank (``step`` -1: below the peak, +1: above)."""
+    inner = (x0, y0)
+    j = i if (x[i] - x0) * step > 0 else i + step  # the first sample beyond the vertex on this flank
+    while 0 <= j < x.size:
+        if y[j] >= level:
+            # Next to the peak: the peak's own parabola; further out: three samples centred on j.
+            start = i - 1 if abs(j - i) <= 1 else min(max(j - 1, 0), x.size - 3)
+            return _crossing(x, y, level, inner, (x[j], y[j]), start)
+        inner = (x[j], y[j])
+        j += step
+    side = "below the first" if step < 0 else "above the last"
+    edge = "lower" if step < 0 else "higher"
+    end = 0 if step < 0 else x.size - 1
+    raise InputValueError(
+        f"amplitude: the {'lower' if step < 0 else 'upper'} half-power point lies {side} point "
+        f"({math.sqrt(x[end]):g}); extend the sweep to {edge} frequencies"
+    )
 
 
 def half_power_points(frequency: object, amplitude: object, near: object | None = None) -> HalfPower:
@@ -186,25 +205,8 @@ def half_power_points(frequency: object, amplitude: object, near: object | None 
     vertex = _vertex(x[i - 1 : i + 2], y[i - 1 : i + 2])
     x0, y0 = vertex if vertex is not None else (x[i], y[i])
     level = 2.0 * y0
-    # Left: first sample below the half-power amplitude walking down from the peak.
-    left = i
-    while left > 0 and y[left] < level:
-        left -= 1
-    right = i
-    while right < f.size - 1 and y[right] < level:
-        right += 1
-    if y[left] < level:
-        raise InputValueError(
-            f"amplitude: the lower half-power point lies below the first point "
-            f"({f[0]:g}); extend the sweep to lower frequencies"
-        )
-    if y[right] < level:
-        raise InputValueError(
-            f"amplitude: the upper half-power point lies above the last point "
-            f"({f[-1]:g}); extend the sweep to higher frequencies"
-        )
-    x1 = _crossing(x, y, level, left, i)
-    x2 = _crossing(x, y, level, right - 1, i)
+    x1 = _flank_crossing(x, y, level, i, x0, y0, -1)
+    x2 = _flank_crossing(x, y, level, i, x0, y0, +1)
     return HalfPower(math.sqrt(x0), 1.0 / math.sqrt(y0), math.sqrt(x1), math.sqrt(x2))
 
 

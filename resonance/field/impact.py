@@ -1,0 +1,301 @@
+"""Impact (bump) tests: H1 frequency response and coherence, and modal identification.
+
+* :func:`impact_frf`: split a record into hits by a force trigger, apply a
+  force window (the pulse kept, the rest zeroed) and an exponential window
+  (both channels, so the FRF is that of the system with added damping
+  ``1 / tau``, removed again by the identification), and average
+  ``H1 = S_fx / S_ff`` with coherence ``|S_fx|^2 / (S_ff S_xx)``.
+* :func:`peak_pick`: natural frequency and damping by the half-power method.
+* :func:`circle_fit`: Kennedy-Pancu circle fit of the mobility near a peak.
+* :func:`rfp_fit`: rational-fraction polynomial fit in a band, and
+  :func:`stability_diagram` over model orders.
+
+References
+----------
+.. [1] J. S. Bendat and A. G. Piersol, *Random Data*, 4th ed., Wiley, 2010, sec. 9.1 (H1, coherence).
+.. [2] D. J. Ewins, *Modal Testing*, 2nd ed., 2000, sec. 3.6 (impact windows), 4.3 (peak picking),
+   4.4 (circle fit; from memory).
+.. [3] M. H. Richardson and D. L. Formenti, "Parameter estimation from frequency response
+   measurements using rational fraction polynomials", Proc. 1st IMAC, 1982.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputValueError
+from ..margins import half_power_points
+from .readers import ImpactRecord
+
+__all__ = ["Frf", "impact_frf", "h1_estimate", "peak_pick", "circle_fit", "rfp_fit", "stability_diagram", "Pole"]
+
+
+@dataclass(frozen=True)
+class Frf:
+    """An estimated frequency response: ``h`` [response unit / N] and ``coherence`` at ``frequency`` [Hz].
+
+    ``quantity`` says what the response is (displacement, velocity or acceleration);
+    ``exponential_tau`` is the exponential window's time constant [s] (inf: none).
+    """
+
+    frequency: np.ndarray
+    h: np.ndarray
+    coherence: np.ndarray
+    averages: int
+    quantity: str
+    exponential_tau: float
+
+    def receptance(self) -> np.ndarray:
+        """The FRF as displacement per force [m/N] (divided by (i w)^k)."""
+        k = {"displacement": 0, "velocity": 1, "acceleration": 2}[self.quantity]
+        w = 2.0 * math.pi * self.frequency
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return np.where(w > 0, self.h / (1j * w) ** k, 0.0)
+
+    def mobility(self) -> np.ndarray:
+        """The FRF as velocity per force [m/(N s)]."""
+        return 1j * 2.0 * math.pi * self.frequency * self.receptance()
+
+
+def h1_estimate(
+    force: np.ndarray, response: np.ndarray, sample_rate: float
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Average H1 and coherence over records (rows) of force and response.
+
+    Parameters
+    ----------
+    force, response : numpy.ndarray
+        Shape (records, samples), already windowed.
+    sample_rate : float
+        [Hz].
+
+    Returns
+    -------
+    frequency, h1, coherence : numpy.ndarray
+    """
+    f = np.fft.rfft(force, axis=1)
+    x = np.fft.rfft(response, axis=1)
+    s_ff = np.mean(np.abs(f) ** 2, axis=0)
+    s_xx = np.mean(np.abs(x) ** 2, axis=0)
+    s_fx = np.mean(np.conj(f) * x, axis=0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        h1 = s_fx / s_ff
+        coherence = np.abs(s_fx) ** 2 / (s_ff * s_xx)
+    return np.fft.rfftfreq(force.shape[1], 1.0 / sample_rate), h1, np.nan_to_num(coherence)
+
+
+def impact_frf(
+    record: ImpactRecord,
+    channel: str,
+    record_length: float,
+    trigger: float = 0.2,
+    pretrigger: float = 0.005,
+    force_window: float | None = None,
+    exponential_tau: float | None = None,
+) -> Frf:
+    """H1 FRF of one response channel from a series of hammer hits.
+
+    Parameters
+    ----------
+    record : ImpactRecord
+        Force and responses of the hits.
+    channel : str
+        Response channel name.
+    record_length : float
+        Length of each hit's record [s].
+    trigger : float
+        Force level that starts a hit, as a fraction of the largest force.
+    pretrigger : float
+        Time kept before the trigger [s].
+    force_window : float, optional
+        Length kept of the force signal after the record start [s]; by default
+        twice the pulse (from the trigger until the force falls below 5 % of its peak).
+    exponential_tau : float, optional
+        Time constant of the exponential window [s]; by default a quarter of the record.
+
+    Raises
+    ------
+    InputValueError
+        No hit found, a hit too close to the end, or a bad channel.
+    """
+    if channel not in record.responses:
+        raise InputValueError(f"channel: got {channel!r}; expected one of {sorted(record.responses)}")
+    fs = record.sample_rate
+    n = round(record_length * fs)
+    pre = round(pretrigger * fs)
+    force = record.force
+    level = trigger * float(np.max(np.abs(force)))
+    if level <= 0:
+        raise InputValueError(f"{record.source}: the force channel is zero; no hit to analyse")
+    above = np.flatnonzero(np.abs(force) >= level)
+    starts = [int(above[0])]
+    for i in above[1:]:
+        if i >= starts[-1] + n:
+            starts.append(int(i))
+    starts = [s - pre for s in starts if s - pre >= 0 and s - pre + n <= force.size]
+    if not starts:
+        raise InputValueError(f"{record.source}: no complete hit of {record_length:g} s found; shorten record_length")
+    tau = exponential_tau if exponential_tau is not None else record_length / 4.0
+    t = np.arange(n) / fs
+    exponential = np.exp(-t / tau)
+    forces, responses = [], []
+    for s in starts:
+        f = force[s : s + n].copy()
+        if force_window is None:
+            peak = int(np.argmax(np.abs(f)))
+            below = np.flatnonzero(np.abs(f[peak:]) < 0.05 * abs(f[peak]))
+            end = min(n, peak + 2 * (int(below[0]) if below.size else n))
+        else:
+            end = min(n, round(force_window * fs))
+        f[end:] = 0.0
+        forces.append(f * exponential)
+        responses.append(record.responses[channel][s : s + n] * exponential)
+    frequency, h, coherence = h1_estimate(np.array(forces), np.array(responses), fs)
+    return Frf(frequency, h, coherence, len(starts), record.quantity, tau)
+
+
+@dataclass(frozen=True)
+class Pole:
+    """An identified mode: natural frequency [Hz] and damping ratio [-] (window damping removed)."""
+
+    frequency: float
+    damping_ratio: float
+
+
+def _window_correction(frf: Frf, frequency: float, zeta: float) -> float:
+    # An exponential window exp(-t / tau) adds sigma = 1 / tau to every pole's decay rate.
+    if not math.isfinite(frf.exponential_tau):
+        return zeta
+    return zeta - 1.0 / (frf.exponential_tau * 2.0 * math.pi * frequency)
+
+
+def _band_mask(frf: Frf, band: tuple[float, float]) -> np.ndarray:
+    low, high = band
+    mask = (frf.frequency >= low) & (frf.frequency <= high)
+    if not low < high or mask.sum() < 5:
+        raise InputValueError(
+            f"band: got {band!r} with {int(mask.sum())} frequencies; expected low < high and at least 5"
+        )
+    return mask
+
+
+def peak_pick(frf: Frf, band: tuple[float, float]) -> Pole:
+    """Natural frequency and damping of the peak in a band by the half-power method on |receptance|."""
+    mask = _band_mask(frf, band)
+    hp = half_power_points(frf.frequency[mask], np.abs(frf.receptance()[mask]))
+    return Pole(hp.peak_frequency, _window_correction(frf, hp.peak_frequency, hp.damping_ratio))
+
+
+def circle_fit(frf: Frf, band: tuple[float, float]) -> Pole:
+    """Kennedy-Pancu circle fit of the mobility in a band around one mode.
+
+    The mobility of a viscously damped mode traces a circle in the Nyquist
+    plane; the natural frequency is where the angle along the circle changes
+    fastest with frequency, and the damping follows from the angles of the
+    points either side: ``zeta = (w_a^2 - w_b^2) / (2 w_n (w_a tan(t_a / 2) + w_b tan(t_b / 2)))``.
+
+    References
+    ----------
+    Ewins, *Modal Testing*, 2nd ed., 2000, sec. 4.4 (from memory).
+    """
+    mask = _band_mask(frf, band)
+    w = 2.0 * math.pi * frf.frequency[mask]
+    y = frf.mobility()[mask]
+    # Algebraic (Kasa) circle fit: x^2 + y^2 + D x + E y + F = 0.
+    a = np.column_stack([y.real, y.imag, np.ones(y.size)])
+    b = -(y.real**2 + y.imag**2)
+    (d, e, _f0), *_ = np.linalg.lstsq(a, b, rcond=None)
+    centre = complex(-d / 2.0, -e / 2.0)
+    angle = np.unwrap(np.angle(y - centre))
+    # Sweep rate of the angle against w^2; the natural frequency is its maximum (interpolated).
+    w2 = w**2
+    rate = np.abs(np.gradient(angle, w2))
+    k = int(np.argmax(rate[1:-1])) + 1
+    x0, x1, x2 = w2[k - 1 : k + 2]
+    r0, r1, r2 = rate[k - 1 : k + 2]
+    denominator = r0 - 2 * r1 + r2
+    shift = 0.5 * (r0 - r2) / denominator if denominator != 0 else 0.0
+    wn2 = x1 + shift * (x2 - x0) / 2.0
+    wn = math.sqrt(wn2)
+    theta_n = float(np.interp(wn2, w2, angle))
+    estimates = []
+    for i in range(y.size):
+        for j in range(y.size):
+            if w[i] > wn > w[j]:
+                ta, tb = abs(angle[i] - theta_n), abs(theta_n - angle[j])
+                if 0.2 < ta < 2.5 and 0.2 < tb < 2.5:
+                    estimates.append(
+                        (w[i] ** 2 - w[j] ** 2) / (2.0 * wn * (w[i] * math.tan(ta / 2) + w[j] * math.tan(tb / 2)))
+                    )
+    if not estimates:
+        raise InputValueError(f"band: {band!r} does not hold points on both sides of the peak; widen it")
+    zeta = float(np.median(estimates))
+    fn = wn / (2.0 * math.pi)
+    return Pole(fn, _window_correction(frf, fn, zeta))
+
+
+def rfp_fit(frf: Frf, band: tuple[float, float], modes: int) -> list[Pole]:
+    """Rational-fraction polynomial fit of the receptance in a band.
+
+    ``H(s) = N(s) / D(s)`` with ``D`` of degree ``2 modes`` (monic) and ``N`` of degree ``2 modes + 1``
+    (two extra terms absorb the modes outside the band), fitted by linear least squares in
+    normalized frequency; the poles are the roots of ``D``.
+
+    References
+    ----------
+    Richardson & Formenti, Proc. 1st IMAC, 1982 (ordinary polynomials here, normalized band).
+    """
+    if modes < 1:
+        raise InputValueError(f"modes: got {modes!r}; expected at least 1")
+    mask = _band_mask(frf, band)
+    w = 2.0 * math.pi * frf.frequency[mask]
+    h = frf.receptance()[mask]
+    scale = w.max()
+    s = 1j * w / scale
+    nd = 2 * modes
+    nn = nd + 1
+    # H D = N with D = s^nd + sum d_k s^k:  sum_k d_k s^k H - sum_k n_k s^k = -s^nd H
+    columns = [s**k * h for k in range(nd)] + [-(s**k) for k in range(nn + 1)]
+    a = np.column_stack(columns)
+    rhs = -(s**nd) * h
+    weight = 1.0 / np.maximum(np.abs(h), 1e-30)  # relative error weighting
+    aw = a * weight[:, None]
+    real = np.vstack([aw.real, aw.imag])
+    target = np.concatenate([(rhs * weight).real, (rhs * weight).imag])
+    coefficients, *_ = np.linalg.lstsq(real, target, rcond=None)
+    d = np.concatenate([coefficients[:nd], [1.0]])
+    roots = np.roots(d[::-1]) * scale
+    poles = []
+    for r in roots:
+        if r.imag > 0 and r.real < 0:
+            wn = abs(r)
+            fn = wn / (2.0 * math.pi)
+            poles.append(Pole(fn, _window_correction(frf, fn, -r.real / wn)))
+    return sorted(poles, key=lambda p: p.frequency)
+
+
+def stability_diagram(
+    frf: Frf, band: tuple[float, float], max_modes: int = 6, frequency_tol: float = 0.01, damping_tol: float = 0.05
+) -> tuple[list[list[Pole]], list[Pole]]:
+    """RFP poles for model orders 1..max_modes and the poles stable across consecutive orders.
+
+    A pole is stable when the next order has a pole within ``frequency_tol`` in frequency and
+    ``damping_tol`` (relative) in damping; the stable list holds the highest order's stable poles.
+    """
+    diagram = [rfp_fit(frf, band, m) for m in range(1, max_modes + 1)]
+    stable: list[Pole] = []
+    for lower, upper in itertools.pairwise(diagram):
+        stable = [
+            p
+            for p in upper
+            if any(
+                abs(p.frequency - q.frequency) <= frequency_tol * q.frequency
+                and abs(p.damping_ratio - q.damping_ratio) <= damping_tol * max(q.damping_ratio, 1e-6)
+                for q in lower
+            )
+        ]
+    return diagram, stable
