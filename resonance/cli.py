@@ -59,13 +59,20 @@ def _check(args: argparse.Namespace) -> int:
             return render_rotor_html(rotor_result, record)
 
     else:
-        result = run_study(parse_scenario(data, name))
-        record, passed = build_record(result), result.passed
+        scenario = parse_scenario(data, name)
+        result = run_study(scenario)
+        field = None
+        if scenario.field:  # measurements that verify the model
+            from .field.study import run_field_study
+
+            field = run_field_study(scenario, args.scenario.parent)
+        record = build_record(result, field=field)
+        passed = result.passed and (field is None or field.passed)
 
         def page() -> str:
             from .ui.report import render_html  # plotly is only needed for the HTML record
 
-            return render_html(result, record)
+            return render_html(result, record, field)
 
     outputs: list[tuple[str, Path, str]] = []
     if args.json is not None:

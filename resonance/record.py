@@ -17,11 +17,14 @@ import platform
 from dataclasses import dataclass
 from importlib import metadata
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .margins import ApiLateralRule
 from .scenario import scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
+
+if TYPE_CHECKING:
+    from .field.study import FieldStudyResult
 from .units import display_unit
 
 __all__ = ["CAUTION", "METHODS", "Record", "build_record", "write_json", "atomic_write"]
@@ -156,6 +159,11 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
         f"  peak 1x casing velocity {result.peak_velocity_rms * v_factor:.{3 if s.units == 'US' else 2}f} "
         f"{v_unit} RMS at {result.peak_velocity_speed:.0f} rpm: ISO zone {result.zone}",
         "",
+        *(
+            ["FIELD VERIFICATION", *(f"  {line}" for line in data["field"]["summary"].splitlines()), ""]
+            if "field" in data
+            else []
+        ),
         f"VERDICT: {data['verdict']}",
         "",
         "CAUTION",
@@ -164,13 +172,17 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
     return "\n".join(lines)
 
 
-def build_record(result: StudyResult, created: _dt.datetime | None = None) -> Record:
-    """Build the record of a study result.
+def build_record(
+    result: StudyResult, created: _dt.datetime | None = None, field: FieldStudyResult | None = None
+) -> Record:
+    """Build the record of a study result (and of its field verification, when given).
 
     Parameters
     ----------
     result : StudyResult
         The study to record.
+    field : FieldStudyResult, optional
+        Its field verification; the verdict then needs both to pass.
     created : datetime, optional
         Time stamp to write (now, UTC, if omitted).
     """
@@ -210,6 +222,30 @@ def build_record(result: StudyResult, created: _dt.datetime | None = None) -> Re
         "verdict": result.verdict,
         "cautions": CAUTION,
     }
+    if field is not None:
+        data["field"] = {
+            "coastdown_file": field.spec.coastdown.name,
+            "impact_file": None if field.spec.impact is None else field.spec.impact.name,
+            "resonances": [
+                {
+                    "speed_rpm": r.speed,
+                    "amplification_factor": r.amplification_factor,
+                    "phase_change_deg": r.phase_change,
+                    "confirmed": r.confirmed,
+                    "warnings": list(r.warnings),
+                }
+                for r in field.resonances
+            ],
+            "findings": field.findings.to_records() if field.findings else [],
+            "impact_modes": [
+                {"frequency_hz": p.frequency, "damping_ratio": p.damping_ratio} for p in field.impact_poles
+            ],
+            "tuned_factors": field.tuned.factors if field.tuned else {},
+            "tuned_findings": field.tuned_study.findings.to_records() if field.tuned_study else [],
+            "passed": field.passed,
+            "summary": field.summary(),
+        }
+        data["verdict"] = "PASS" if result.passed and field.passed else "FAIL"
     return Record(data, _text(result, data))
 
 

@@ -234,6 +234,7 @@ class Scenario:
     vibration: VibrationSpec
     whatif: WhatIfSpec
     source: str = "<scenario>"
+    field: Mapping[str, Any] | None = dataclasses.field(default=None, compare=False)
 
     def replace(self, **changes: Any) -> Scenario:
         """A copy with some fields changed (the original is untouched)."""
@@ -497,7 +498,10 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
         and the field.
     """
     r = _Reader(source)
-    r.known(data, ("scenario", "speed", "excitations", "margin", "model", "response", "vibration", "whatif"), "")
+    r.known(
+        data, ("scenario", "speed", "excitations", "margin", "model", "response", "vibration", "whatif", "field"), ""
+    )
+    field_table = r.table(data, "field", "field", required=False)
     title, description, units = _head(r, data)
 
     speed_range = _speed(r, r.table(data, "speed", "speed"))
@@ -542,6 +546,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
         vibration=VibrationSpec(group, support),
         whatif=WhatIfSpec(vary_springs, vary_masses, tolerance),
         source=source,
+        field=dict(field_table) if field_table else None,
     )
 
 
@@ -631,6 +636,7 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
             "vary_masses": list(scenario.whatif.vary_masses),
             "tolerance": scenario.whatif.tolerance,
         },
+        **({"field": dict(scenario.field)} if scenario.field else {}),
     }
 
 

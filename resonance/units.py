@@ -119,6 +119,7 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "density": ("kg/m**3", "kg/m**3", "lbm/in**3"),
     "pressure": ("Pa", "GPa", "psi"),
     "moment_stiffness": ("N*m/rad", "kN*m/rad", "lbf*in/rad"),
+    "time": ("s", "s", "s"),
 }
 
 

@@ -125,6 +125,7 @@ EXPECTED_TEXT = {
     "03_what_if.ipynb": "over the stiffness +/- 30 %",
     "04_calculation_record.ipynb": "VERDICT: FAIL",
     "05_rotor_critical_speeds.ipynb": "Forward critical speeds:",
+    "06_field_verification.ipynb": "Field verdict:",
 }
 
 

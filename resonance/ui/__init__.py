@@ -5,11 +5,13 @@ and the what-if results, and panels edit a scenario and re-run
 :func:`resonance.study.run_study`.
 """
 
+from .field_panel import FieldPanel
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, caution_banner, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
 
 __all__ = [
     "DesignPanel",
+    "FieldPanel",
     "RecordPanel",
     "RotorPanel",
     "WhatIfPanel",

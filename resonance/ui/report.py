@@ -9,9 +9,11 @@ import html
 import os
 from pathlib import Path
 
+from ..field.study import FieldStudyResult
 from ..record import CAUTION, Record, atomic_write
 from ..rotor.study import RotorStudyResult
 from ..study import StudyResult
+from .field_plots import bode_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 
@@ -56,17 +58,28 @@ def _page(
 """
 
 
-def render_html(result: StudyResult, record: Record) -> str:
-    """The HTML record of a support study as text (figures with plotly.js inline)."""
+def render_html(result: StudyResult, record: Record, field: FieldStudyResult | None = None) -> str:
+    """The HTML record of a support study as text (figures with plotly.js inline), with its field verification."""
     system = result.scenario.units
+    tables = [("Modes", modes_table_html(result, system))]
+    figures = [response_figure(result, system), interference_figure(result, system)]
+    summary = result.summary(system)
+    passed = result.passed
+    if field is not None:
+        summary += "\n\n" + field.summary()
+        passed = passed and field.passed
+        if field.findings is not None:
+            tables.append(
+                ("Field verification: measured modes against the rules", field.findings.to_html(system=system))
+            )
+        if field.tuned_study is not None:
+            tables.append(("Field verification: tuned model", field.tuned_study.findings.to_html(system=system)))
+        figures += [
+            bode_figure(field, result.scenario, field.spec.channel, system),
+            polar_figure(field, field.spec.channel, system),
+        ]
     return _page(
-        result.scenario.title,
-        result.passed,
-        result.summary(system),
-        result.findings.to_html(system=system),
-        [("Modes", modes_table_html(result, system))],
-        [response_figure(result, system), interference_figure(result, system)],
-        record,
+        result.scenario.title, passed, summary, result.findings.to_html(system=system), tables, figures, record
     )
 
 

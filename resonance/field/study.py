@@ -1,0 +1,225 @@
+"""The field-verification flow: a scenario's ``[field]`` table -> measured modes, findings, a tuned model.
+
+A support scenario may carry the measurements that verify it::
+
+    [field]
+    coastdown = "../data/coastdown_fan.csv"   # relative to the scenario file
+    channel = "housing-X"
+    band = ["800 rpm", "3000 rpm"]            # speeds searched and fitted (optional)
+    impact = "../data/impact_fan.csv"         # optional
+    impact_channel = "housing-X"
+    record_length = "1 s"
+    impact_band = ["10 Hz", "150 Hz"]
+    impact_modes = 2                          # rational-fraction model order (modes in the band)
+    tune = [{ spring = "floor", low = 0.25, high = 4.0 }]   # or { mass = "housing", ... }
+
+:func:`run_field_study` finds the resonances of the coast-down (confirmed by
+phase, half-power AF), fits them, checks them against the scenario's
+excitations and speed range by the scenario's rule, identifies the impact
+test's modes (rational-fraction fit), tunes the chosen springs and masses to
+the measured frequencies (impact modes if given, else the coast-down's) and
+re-runs the model checks with the tuned model.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from ..errors import InputValueError
+from ..interference import FindingsTable
+from ..scenario import Scenario, ScenarioError, _Reader
+from ..study import StudyResult, run_study
+from .coastdown import ModalFit, Resonance, find_resonances, fit_modes, measured_findings, measured_modes
+from .impact import Frf, Pole, impact_frf, rfp_fit
+from .readers import CoastDown, read_coastdown, read_impact
+from .tuning import TunedModel, TuningParameter, tune_scenario
+
+__all__ = ["FieldSpec", "FieldStudyResult", "field_spec", "run_field_study"]
+
+
+@dataclass(frozen=True)
+class FieldSpec:
+    """The validated ``[field]`` table (paths resolved against the scenario's folder)."""
+
+    coastdown: Path
+    channel: str
+    band: tuple[float, float] | None
+    impact: Path | None
+    impact_channel: str | None
+    record_length: float
+    impact_band: tuple[float, float]
+    impact_modes: int
+    tune: tuple[TuningParameter, ...]
+
+
+def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> FieldSpec:
+    """Validate a scenario's ``[field]`` table; errors name the file and field."""
+    if not scenario.field:
+        raise ScenarioError(f"{scenario.source}: field: missing; the scenario has no measurements to verify it")
+    r = _Reader(scenario.source)
+    data: Mapping[str, Any] = scenario.field
+    r.known(
+        data,
+        (
+            "coastdown",
+            "channel",
+            "band",
+            "impact",
+            "impact_channel",
+            "record_length",
+            "impact_band",
+            "impact_modes",
+            "tune",
+        ),
+        "field",
+    )
+    base = Path(base_dir)
+
+    def pair(key: str, kind: str, default: tuple[float, float] | None) -> tuple[float, float] | None:
+        if key not in data:
+            return default
+        raw = r.array(data, key, f"field.{key}")
+        if len(raw) != 2:
+            raise r.fail(f"field.{key}", f"got {raw!r}; expected [low, high]")
+        low, high = (r.value(v, f"field.{key}", kind, "positive") for v in raw)
+        if not low < high:
+            raise r.fail(f"field.{key}", f"got {raw!r}; expected low < high")
+        return low, high
+
+    tune = []
+    for i, item in enumerate(r.array(data, "tune", "field.tune", required=False)):
+        where = f"field.tune[{i}]"
+        if not isinstance(item, Mapping) or ("spring" in item) == ("mass" in item):
+            raise r.fail(where, "expected a table with exactly one of spring or mass")
+        r.known(item, ("spring", "mass", "low", "high"), where)
+        kind = "spring" if "spring" in item else "mass"
+        tune.append(
+            TuningParameter(
+                kind,  # type: ignore[arg-type]
+                r.text(item, kind, f"{where}.{kind}"),
+                r.value(item.get("low", 0.25), f"{where}.low", "ratio", "positive"),
+                r.value(item.get("high", 4.0), f"{where}.high", "ratio", "positive"),
+            )
+        )
+    impact = r.text(data, "impact", "field.impact", "") or None
+    modes = r.integer(data, "impact_modes", "field.impact_modes", 2)
+    if not 1 <= modes <= 10:
+        raise r.fail("field.impact_modes", f"got {modes}; expected 1 to 10")
+    return FieldSpec(
+        base / r.text(data, "coastdown", "field.coastdown"),
+        r.text(data, "channel", "field.channel"),
+        pair("band", "speed", None),
+        None if impact is None else base / impact,
+        r.text(data, "impact_channel", "field.impact_channel", "") or None,
+        r.value(data.get("record_length", 1.0), "field.record_length", "time", "positive"),
+        pair("impact_band", "frequency", (1.0, 500.0)),  # type: ignore[arg-type]
+        modes,
+        tuple(tune),
+    )
+
+
+@dataclass(frozen=True)
+class FieldStudyResult:
+    """What the measurements say, next to what the model said."""
+
+    spec: FieldSpec
+    coastdown: CoastDown
+    resonances: tuple[Resonance, ...]
+    fit: ModalFit | None
+    findings: FindingsTable | None
+    frf: Frf | None
+    impact_poles: tuple[Pole, ...]
+    tuned: TunedModel | None
+    tuned_study: StudyResult | None
+
+    @property
+    def passed(self) -> bool:
+        """Measured margins pass, and so does the tuned model when there is one."""
+        measured = self.findings is None or self.findings.passed
+        return measured and (self.tuned_study is None or self.tuned_study.passed)
+
+    def summary(self) -> str:
+        """A few lines: resonances, measured margins, impact modes, tuning."""
+        res = (
+            "; ".join(
+                f"{r.speed:.0f} rpm (AF {r.amplification_factor:.1f}, phase {r.phase_change:+.0f} deg"
+                + (")" if r.confirmed else ", not confirmed by phase)")
+                if r.amplification_factor is not None
+                else f"{r.speed:.0f} rpm (no AF)"
+                for r in self.resonances
+            )
+            or "none"
+        )
+        lines = [f"Field verdict: {'PASS' if self.passed else 'FAIL'}", f"Coast-down resonances: {res}"]
+        if self.fit is not None:
+            lines.append(
+                "Fitted: "
+                + "; ".join(
+                    f"{m.speed:.0f} +/- {60 * m.frequency_std:.1f} rpm, "
+                    f"zeta {m.damping_ratio:.4f} +/- {m.damping_ratio_std:.4f}"
+                    for m in self.fit.modes
+                )
+            )
+        lines.append(f"Measured margins: {self.findings.summary() if self.findings else 'no confirmed resonance'}")
+        if self.impact_poles:
+            lines.append(
+                "Impact test modes: "
+                + "; ".join(f"{p.frequency:.2f} Hz, zeta {p.damping_ratio:.4f}" for p in self.impact_poles)
+            )
+        if self.tuned is not None and self.tuned_study is not None:
+            lines.append(self.tuned.summary())
+            lines.append(f"Tuned model: {self.tuned_study.findings.summary()}")
+        return "\n".join(lines)
+
+
+def run_field_study(
+    scenario: Scenario,
+    base_dir: str | os.PathLike[str] = ".",
+    channel: str | None = None,
+    band: tuple[float, float] | None = None,
+) -> FieldStudyResult:
+    """Run the field verification of a scenario (see the module notes).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        With a ``[field]`` table.
+    base_dir : path-like
+        Folder the table's file names are relative to (the scenario file's folder).
+    channel, band : optional
+        Override the table's coast-down channel and fitting band [rpm].
+    """
+    spec = field_spec(scenario, base_dir)
+    data = read_coastdown(spec.coastdown)
+    channel = channel or spec.channel
+    band = band or spec.band
+    resonances = tuple(find_resonances(data, channel, band))
+    confirmed = [r for r in resonances if r.confirmed]
+    fit = None
+    if confirmed:
+        initial = [(r.speed, 0.5 / r.amplification_factor if r.amplification_factor else 0.05) for r in confirmed]
+        try:
+            fit = fit_modes(data, channel, initial, band)
+        except InputValueError:
+            fit = None
+    orders = [e for e in scenario.excitations if e.order is not None]
+    modes = measured_modes(resonances, fit)
+    findings = measured_findings(modes, orders, scenario.speed, scenario.rule) if modes and orders else None
+    frf: Frf | None = None
+    poles: tuple[Pole, ...] = ()
+    if spec.impact is not None:
+        record = read_impact(spec.impact)
+        impact_channel = spec.impact_channel or next(iter(record.responses))
+        frf = impact_frf(record, impact_channel, spec.record_length)
+        poles = tuple(rfp_fit(frf, spec.impact_band, spec.impact_modes))
+    tuned = tuned_study = None
+    if spec.tune:
+        measured = [p.frequency for p in poles] if poles else [m.frequency for m in modes]
+        if measured:
+            tuned = tune_scenario(scenario, measured, spec.tune)
+            tuned_study = run_study(tuned.scenario)
+    return FieldStudyResult(spec, data, resonances, fit, findings, frf, poles, tuned, tuned_study)

@@ -1,0 +1,101 @@
+"""The field-verification panel: measured coast-down, identified resonances, margins and the tuned model."""
+
+from __future__ import annotations
+
+import html
+import os
+from pathlib import Path
+
+import ipywidgets as w
+
+from ..field.study import FieldStudyResult, run_field_study
+from ..scenario import Scenario
+from ..speed_range import operating_range
+from .field_plots import bode_figure, polar_figure, update_bode_figure, update_polar_figure
+from .panels import _Panel, _speed_slider, _units_toggle, _verdict_html, caution_banner
+
+__all__ = ["FieldPanel"]
+
+
+class FieldPanel(_Panel):
+    """Field verification of a scenario with a ``[field]`` table.
+
+    Controls: the operating speed range, the coast-down channel, the fitting band and the units.
+    Views: verdict, Bode and polar plots with the fitted model, measured findings, tuned model.
+    """
+
+    def __init__(self, scenario: Scenario, base_dir: str | os.PathLike[str] = "."):
+        self.original = scenario
+        self.scenario = scenario
+        self.base_dir = Path(base_dir)
+        first = run_field_study(scenario, self.base_dir)
+        channels = sorted(first.coastdown.channels)
+        speeds = first.coastdown.speed
+        band = first.spec.band or (float(speeds[0]), float(speeds[-1]))
+        self.speed = _speed_slider(scenario)
+        self.channel = w.Dropdown(
+            options=channels, value=first.spec.channel, description="channel", style={"description_width": "110px"}
+        )
+        self.band = w.IntRangeSlider(
+            value=(int(band[0]), int(band[1])),
+            min=int(speeds[0]),
+            max=int(speeds[-1]),
+            step=10,
+            description="fit band [rpm]",
+            continuous_update=False,
+            style={"description_width": "110px"},
+            layout=w.Layout(width="520px"),
+        )
+        self.units = _units_toggle(scenario.units, "110px")
+        self.verdict = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+        self.tuned_html = w.HTML()
+        self.result: FieldStudyResult = first
+        self.bode = bode_figure(first, scenario, self.channel.value, self.system, widget=True)
+        self.polar = polar_figure(first, self.channel.value, self.system, widget=True)
+        self._render_text()
+        for control in (self.speed, self.channel, self.band, self.units):
+            control.observe(self._changed, names="value")
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                w.HTML(f"<h3>Field verification: {html.escape(scenario.title)}</h3>"),
+                self.speed,
+                self.channel,
+                self.band,
+                self.units,
+                self.verdict,
+                self.message,
+                self.bode,
+                self.polar,
+                w.HTML("<h4>Measured modes against the rules</h4>"),
+                self.findings_html,
+                w.HTML("<h4>Tuned model</h4>"),
+                self.tuned_html,
+            ]
+        )
+
+    def compute(self) -> FieldStudyResult:
+        """Re-run the field study for the controls (no drawing)."""
+        low, high = self.speed.value
+        self.scenario = self.original.with_speed(operating_range(float(low), float(high)))
+        band_low, band_high = self.band.value
+        return run_field_study(self.scenario, self.base_dir, self.channel.value, (float(band_low), float(band_high)))
+
+    def update(self) -> None:
+        """Recompute and refresh the views in place."""
+        self.result = self.compute()
+        update_bode_figure(self.bode, self.result, self.scenario, self.channel.value, self.system)
+        update_polar_figure(self.polar, self.result, self.channel.value, self.system)
+        self._render_text()
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return self.result.summary()
+
+    def _render_text(self) -> None:
+        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.findings_html.value = self.result.findings.to_html(system=self.system) if self.result.findings else ""
+        tuned = self.result.tuned_study
+        self.tuned_html.value = tuned.findings.to_html(system=self.system) if tuned is not None else "no tuning asked"
