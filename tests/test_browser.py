@@ -52,6 +52,7 @@ def _free_port() -> int:
 def _serve(notebook: str, root: Path) -> tuple[subprocess.Popen, str]:
     shutil.copy(NOTEBOOKS / notebook, root / notebook)
     shutil.copytree(NOTEBOOKS / "scenarios", root / "scenarios")
+    shutil.copytree(NOTEBOOKS / "data", root / "data")
     env = dict(os.environ)
     for name in ("JUPYTER_CONFIG_DIR", "JUPYTER_RUNTIME_DIR", "JUPYTER_DATA_DIR"):
         folder = root / f".{name.lower()}"

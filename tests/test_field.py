@@ -297,3 +297,18 @@ def test_tuning_errors(foundation):
         tune_scenario(foundation, [20.0], [TuningParameter("spring", "soil", 2.0, 3.0)])
     with pytest.raises(R.InputValueError, match=r"two frequencies pair with the same model mode"):
         tune_scenario(foundation, [19.0, 19.5], [TuningParameter("spring", "soil")])
+
+
+def test_mixed_units_are_declared_per_channel(tmp_path):
+    # Two channels, one in um and one in mil (1 mil = 25.4 um, NIST SP 811).
+    text = (
+        "# amplitude_unit = um\n# amplitude_unit.b = mil\n# amplitude_convention = peak\n"
+        "speed_rpm,a_amplitude,a_phase,b_amplitude,b_phase\n100,25.4,10,1,10\n200,50.8,20,2,20\n"
+    )
+    path = tmp_path / "mixed.csv"
+    path.write_text(text)
+    data = read_coastdown(path)
+    assert_allclose(data.amplitude("a"), data.amplitude("b"), rtol=1e-12)
+    path.write_text(text.replace("amplitude_unit.b", "amplitude_unit.c"))
+    with pytest.raises(DataFileError, match=r"amplitude_unit\.c: names no channel of the file"):
+        read_coastdown(path)

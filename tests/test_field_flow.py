@@ -99,3 +99,11 @@ def test_check_command_includes_the_field_verification(tmp_path, field_path, cap
     scenario.write_text(tomli_w.dumps(data))
     assert main(["check", str(scenario)]) == 2
     assert "missing.csv: cannot be read" in capsys.readouterr().err
+
+
+def test_field_panel_impact_view(field_scenario, field_path):
+    # The impact view shows H1 as receptance and marks the RFP modes at their frequencies.
+    panel = FieldPanel(field_scenario, field_path.parent)
+    marks = np.array(panel.impact.data[1].x)
+    assert_allclose(marks, [p.frequency for p in panel.result.impact_poles])
+    assert np.max(panel.impact.data[2].y) <= 1.0 + 1e-12

@@ -11,6 +11,8 @@ Both are plain delimited text (comma, semicolon or tab) with optional
     ...
 
 Channels are pairs ``<name>_amplitude`` / ``<name>_phase`` (phase in degrees).
+A file whose channels use different units says so per channel
+(``# amplitude_unit.<name> = mil``); units are never guessed.
 An impact file::
 
     # force_unit = N
@@ -241,6 +243,14 @@ def read_coastdown(
     phase = _option(meta, "phase_convention", phase_convention, "lag", ("lag", "lead"), name)
     speed_unit = meta.get("speed_unit", "rpm")
     factor = _unit_factor(unit, "displacement", "amplitude_unit", name)
+    # Channels recorded in other units say so: '# amplitude_unit.<channel> = mil'.
+    factors = dict.fromkeys(channels, factor)
+    for key, value in meta.items():
+        if key.startswith("amplitude_unit."):
+            named = next((b for b in channels if b.lower() == key.split(".", 1)[1]), None)
+            if named is None:
+                raise DataFileError(f"{name}: {key}: names no channel of the file; expected one of {sorted(channels)}")
+            factors[named] = _unit_factor(value, "displacement", key, name)
     speed_factor = _unit_factor(speed_unit, "speed", "speed_unit", name)
     table = _numbers(name, header, data)
     lines = np.array([number for number, _ in data])
@@ -266,7 +276,7 @@ def read_coastdown(
         amplitude = table[:, a]
         if np.any(amplitude < 0):
             raise DataFileError(f"{name}: column {header[a]!r}: expected amplitudes >= 0")
-        peak = convert_amplitude(amplitude * factor, convention, "peak")  # type: ignore[arg-type]
+        peak = convert_amplitude(amplitude * factors[base], convention, "peak")  # type: ignore[arg-type]
         angle = np.radians(table[:, p]) * (1.0 if phase == "lag" else -1.0)
         unwrapped = np.unwrap(angle)
         if np.any(np.abs(unwrapped - angle) > 1e-9):

@@ -11,7 +11,14 @@ import ipywidgets as w
 from ..field.study import FieldStudyResult, run_field_study
 from ..scenario import Scenario
 from ..speed_range import operating_range
-from .field_plots import bode_figure, polar_figure, update_bode_figure, update_polar_figure
+from .field_plots import (
+    bode_figure,
+    impact_figure,
+    polar_figure,
+    update_bode_figure,
+    update_impact_figure,
+    update_polar_figure,
+)
 from .panels import _Panel, _speed_slider, _units_toggle, _verdict_html, caution_banner
 
 __all__ = ["FieldPanel"]
@@ -54,6 +61,7 @@ class FieldPanel(_Panel):
         self.result: FieldStudyResult = first
         self.bode = bode_figure(first, scenario, self.channel.value, self.system, widget=True)
         self.polar = polar_figure(first, self.channel.value, self.system, widget=True)
+        self.impact = impact_figure(first, widget=True)
         self._render_text()
         for control in (self.speed, self.channel, self.band, self.units):
             control.observe(self._changed, names="value")
@@ -69,6 +77,7 @@ class FieldPanel(_Panel):
                 self.message,
                 self.bode,
                 self.polar,
+                self.impact,
                 w.HTML("<h4>Measured modes against the rules</h4>"),
                 self.findings_html,
                 w.HTML("<h4>Tuned model</h4>"),
@@ -88,6 +97,7 @@ class FieldPanel(_Panel):
         self.result = self.compute()
         update_bode_figure(self.bode, self.result, self.scenario, self.channel.value, self.system)
         update_polar_figure(self.polar, self.result, self.channel.value, self.system)
+        update_impact_figure(self.impact, self.result)
         self._render_text()
 
     def summary(self) -> str:

@@ -11,7 +11,14 @@ from ..scenario import Scenario
 from ..units import UnitSystem, display_unit
 from .plots import FAIL, OPERATING, PASS, _vertical_bands
 
-__all__ = ["bode_figure", "update_bode_figure", "polar_figure", "update_polar_figure"]
+__all__ = [
+    "bode_figure",
+    "update_bode_figure",
+    "polar_figure",
+    "update_polar_figure",
+    "impact_figure",
+    "update_impact_figure",
+]
 
 
 def _curves(
@@ -120,3 +127,48 @@ def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, 
         )
         fig.layout.xaxis.title.text = f"real [{unit}, 0-peak]"
         fig.layout.yaxis.title.text = f"imaginary [{unit}, 0-peak]"
+
+
+def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
+    """Impact test: |receptance| (H1) and coherence against frequency, the identified modes marked."""
+    fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.7, 0.3])
+    fig.add_trace(go.Scatter(name="|H1| (receptance)", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
+    fig.add_trace(
+        go.Scatter(name="identified modes", mode="markers", marker={"size": 11, "symbol": "x", "color": "#c2410c"}),
+        row=1,
+        col=1,
+    )
+    fig.add_trace(go.Scatter(name="coherence", mode="lines", line={"color": "#444444"}, showlegend=False), row=2, col=1)
+    fig.update_layout(
+        height=440,
+        margin={"l": 70, "r": 20, "t": 40, "b": 50},
+        template="plotly_white",
+        title_text="Impact test: H1 and coherence",
+        legend={"orientation": "h", "y": -0.2},
+    )
+    fig.update_yaxes(type="log", title_text="|H| [m/N]", row=1, col=1)
+    fig.update_yaxes(range=[0, 1.05], title_text="coherence", row=2, col=1)
+    fig.update_xaxes(title_text="frequency [Hz]", row=2, col=1)
+    update_impact_figure(fig, result)
+    return go.FigureWidget(fig) if widget else fig
+
+
+def update_impact_figure(fig: go.Figure, result: FieldStudyResult) -> None:
+    """Fill an :func:`impact_figure` in place (empty when the scenario has no impact test)."""
+    frf = result.frf
+    with fig.batch_update():
+        if frf is None:
+            for trace in fig.data:
+                trace.update(x=[], y=[])
+            return
+        low, high = result.spec.impact_band
+        band = (frf.frequency >= low) & (frf.frequency <= high)
+        h = np.abs(frf.receptance())
+        fig.data[0].update(x=frf.frequency[band], y=h[band])
+        fig.data[1].update(
+            x=[p.frequency for p in result.impact_poles],
+            y=[float(np.interp(p.frequency, frf.frequency, h)) for p in result.impact_poles],
+            text=[f"{p.frequency:.2f} Hz, zeta {p.damping_ratio:.4f}" for p in result.impact_poles],
+            hovertemplate="%{text}<extra></extra>",
+        )
+        fig.data[2].update(x=frf.frequency[band], y=frf.coherence[band])

@@ -13,7 +13,7 @@ from ..field.study import FieldStudyResult
 from ..record import CAUTION, Record, atomic_write
 from ..rotor.study import RotorStudyResult
 from ..study import StudyResult
-from .field_plots import bode_figure, polar_figure
+from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 
@@ -77,6 +77,7 @@ def render_html(result: StudyResult, record: Record, field: FieldStudyResult | N
         figures += [
             bode_figure(field, result.scenario, field.spec.channel, system),
             polar_figure(field, field.spec.channel, system),
+            impact_figure(field),
         ]
     return _page(
         result.scenario.title, passed, summary, result.findings.to_html(system=system), tables, figures, record
