@@ -34,7 +34,7 @@ from ..interference import FindingsTable
 from ..scenario import Scenario, ScenarioError, _Reader
 from ..study import StudyResult, run_study
 from .coastdown import ModalFit, Resonance, find_resonances, fit_modes, measured_findings, measured_modes
-from .impact import Frf, Pole, impact_frf, rfp_fit
+from .impact import Frf, Pole, impact_frf, rfp_fit, stability_diagram
 from .readers import CoastDown, read_coastdown, read_impact
 from .tuning import TunedModel, TuningParameter, tune_scenario
 
@@ -133,8 +133,17 @@ class FieldStudyResult:
     findings: FindingsTable | None
     frf: Frf | None
     impact_poles: tuple[Pole, ...]
+    stable_poles: tuple[Pole, ...]
     tuned: TunedModel | None
     tuned_study: StudyResult | None
+
+    @property
+    def consistent_poles(self) -> int:
+        """How many impact-test modes reappear (1 % in frequency) in the stability check across model orders."""
+        return sum(
+            any(abs(s.frequency - p.frequency) <= 0.01 * p.frequency for s in self.stable_poles)
+            for p in self.impact_poles
+        )
 
     @property
     def passed(self) -> bool:
@@ -169,6 +178,7 @@ class FieldStudyResult:
             lines.append(
                 "Impact test modes: "
                 + "; ".join(f"{p.frequency:.2f} Hz, zeta {p.damping_ratio:.4f}" for p in self.impact_poles)
+                + f" ({self.consistent_poles} of {len(self.impact_poles)} stable across model orders)"
             )
         if self.tuned is not None and self.tuned_study is not None:
             lines.append(self.tuned.summary())
@@ -211,15 +221,19 @@ def run_field_study(
     findings = measured_findings(modes, orders, scenario.speed, scenario.rule) if modes and orders else None
     frf: Frf | None = None
     poles: tuple[Pole, ...] = ()
+    stable: tuple[Pole, ...] = ()
     if spec.impact is not None:
         record = read_impact(spec.impact)
         impact_channel = spec.impact_channel or next(iter(record.responses))
         frf = impact_frf(record, impact_channel, spec.record_length)
         poles = tuple(rfp_fit(frf, spec.impact_band, spec.impact_modes))
+        # Consistency across model orders (a stability diagram up to two orders above the one used).
+        _, stable_list = stability_diagram(frf, spec.impact_band, spec.impact_modes + 2, damping_tol=0.2)
+        stable = tuple(stable_list)
     tuned = tuned_study = None
     if spec.tune:
         measured = [p.frequency for p in poles] if poles else [m.frequency for m in modes]
         if measured:
             tuned = tune_scenario(scenario, measured, spec.tune)
             tuned_study = run_study(tuned.scenario)
-    return FieldStudyResult(spec, data, resonances, fit, findings, frf, poles, tuned, tuned_study)
+    return FieldStudyResult(spec, data, resonances, fit, findings, frf, poles, stable, tuned, tuned_study)
