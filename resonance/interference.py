@@ -115,12 +115,15 @@ class FindingsTable:
 
     findings: tuple[Finding, ...]
 
+    def __post_init__(self) -> None:
+        # The table keeps its promise whoever builds it: failures first, largest shortfall first.
+        ordered = tuple(sorted(self.findings, key=lambda f: (f.passed, -f.shortfall)))
+        object.__setattr__(self, "findings", ordered)
+
     @classmethod
     def combine(cls, tables: Sequence[FindingsTable]) -> FindingsTable:
         """One table of the findings of several, worst first."""
-        findings = [f for table in tables for f in table]
-        findings.sort(key=lambda f: (f.passed, -f.shortfall))
-        return cls(tuple(findings))
+        return cls(tuple(f for table in tables for f in table))
 
     def __iter__(self) -> Iterator[Finding]:
         return iter(self.findings)
@@ -278,6 +281,4 @@ def interference_check(
             "(build one with resonance.operating_range)"
         )
     rule = rule if rule is not None else ApiLateralRule()
-    return FindingsTable.combine(
-        [FindingsTable(tuple(_finding(m, e, speed_range, rule) for m in modes for e in excitations))]
-    )
+    return FindingsTable(tuple(_finding(m, e, speed_range, rule) for m in modes for e in excitations))

@@ -484,3 +484,24 @@ def rule_by_name(name: str) -> MarginRule:
     raise InputValueError(
         f"rule: got {name!r}; expected 'api-lateral' or 'flat-P' with P a percentage (e.g. {', '.join(RULE_NAMES[1:])})"
     )
+
+
+def clear_band(coincidence_speed: float, rule: MarginRule, amplification_factor: float) -> tuple[float, float]:
+    """Speeds the operating range must keep clear of around a coincidence [rpm].
+
+    With the margins the rule requires below (``SM_b``) and above (``SM_a``) for
+    this AF, in percent, a range below the coincidence may not end above
+    ``N_c / (1 + SM_a / 100)`` and a range above it may not start below
+    ``N_c / (1 - SM_b / 100)``: the band between the two.
+
+    Examples
+    --------
+    >>> low, high = clear_band(2000.0, FlatRule(20.0), 10.0)
+    >>> round(low, 1), round(high, 1)
+    (1666.7, 2500.0)
+    """
+    af = max(amplification_factor, 1.0)
+    below, above = rule.required(af, "below"), rule.required(af, "above")
+    if not below < 100.0:
+        raise InputValueError(f"rule: requires {below:g} % below the range; expected less than 100 %")
+    return coincidence_speed / (1.0 + above / 100.0), coincidence_speed / (1.0 - below / 100.0)

@@ -15,13 +15,13 @@ from .errors import InputValueError
 from .frf import model_receptance
 from .interference import FindingsTable, interference_check
 from .limits import iso_velocity_zone, iso_velocity_zone_limits
-from .margins import HalfPower, MarginRule, half_power_points
+from .margins import HalfPower, half_power_points
 from .model import MatrixModel
 from .modes import Mode, ModeSet, modal_properties
 from .scenario import Scenario
 from .units import UnitSystem, display_unit
 
-__all__ = ["StudyResult", "run_study", "speed_axis", "study_modes", "clear_band", "ACCEPTABLE_ZONES"]
+__all__ = ["StudyResult", "run_study", "speed_axis", "study_modes", "ACCEPTABLE_ZONES"]
 
 # ISO zones A and B allow unrestricted long-term operation (ISO 10816-3 sec. 5.3.1, from memory).
 ACCEPTABLE_ZONES = ("A", "B")
@@ -131,24 +131,6 @@ def study_modes(modeset: ModeSet, labels: tuple[str, ...]) -> tuple[Mode, ...]:
             )
         )
     return tuple(out)
-
-
-def clear_band(coincidence_speed: float, required_below: float, required_above: float) -> tuple[float, float]:
-    """Speeds the operating range must keep clear of, around a coincidence [rpm].
-
-    The range may not end above ``N_c / (1 + SM_above)`` nor start below
-    ``N_c / (1 - SM_below)`` on the side it lies: with margins in percent, the
-    band is ``(N_c / (1 + SM_above / 100), N_c / (1 - SM_below / 100))``.
-    """
-    if not required_below < 100.0:
-        raise InputValueError(f"required_below: got {required_below:g} %; expected less than 100 %")
-    return coincidence_speed / (1.0 + required_above / 100.0), coincidence_speed / (1.0 - required_below / 100.0)
-
-
-def required_margins(rule: MarginRule, mode: Mode) -> tuple[float, float]:
-    """Required margin below and above the range for a mode [percent]."""
-    af = max(mode.amplification_factor, 1.0)
-    return rule.required(af, "below"), rule.required(af, "above")
 
 
 def run_study(

@@ -38,7 +38,7 @@ from typing import Literal
 
 import numpy as np
 
-from ..errors import InputTypeError, InputValueError
+from ..errors import InputValueError
 from ..harmonic import convert_amplitude
 from ..inputs import as_si
 from ..units import ureg
@@ -184,7 +184,7 @@ def _option(
 def _unit_factor(unit: str, kind: str, field: str, name: str) -> float:
     try:
         return as_si(ureg.Quantity(1.0, unit), field, kind)
-    except (InputTypeError, InputValueError, Exception) as error:
+    except Exception as error:
         raise DataFileError(f"{name}: {field}: got {unit!r}; expected a {kind} unit ({error})") from None
 
 

@@ -10,7 +10,6 @@ import ipywidgets as w
 
 from ..field.study import FieldStudyResult, run_field_study
 from ..scenario import Scenario
-from ..speed_range import operating_range
 from .field_plots import (
     bode_figure,
     impact_figure,
@@ -19,7 +18,7 @@ from .field_plots import (
     update_impact_figure,
     update_polar_figure,
 )
-from .panels import _Panel, _speed_slider, _units_toggle, _verdict_html, caution_banner
+from .panels import _Panel, _slider_range, _speed_slider, _units_toggle, _verdict_html, caution_banner
 
 __all__ = ["FieldPanel"]
 
@@ -87,8 +86,7 @@ class FieldPanel(_Panel):
 
     def compute(self) -> FieldStudyResult:
         """Re-run the field study for the controls (no drawing)."""
-        low, high = self.speed.value
-        self.scenario = self.original.with_speed(operating_range(float(low), float(high)))
+        self.scenario = self.original.with_speed(_slider_range(self.speed, self.original.speed))
         band_low, band_high = self.band.value
         return run_field_study(self.scenario, self.base_dir, self.channel.value, (float(band_low), float(band_high)))
 

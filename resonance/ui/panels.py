@@ -22,7 +22,7 @@ from ..damping import amplification_factor_from_damping_ratio, log_decrement
 from ..errors import InputValueError
 from ..record import CAUTION, Record, build_record, write_json
 from ..scenario import Scenario, load_scenario, save_scenario
-from ..speed_range import operating_range
+from ..speed_range import OperatingRange, operating_range
 from ..study import StudyResult, run_study
 from ..units import UnitSystem, display_unit
 from ..whatif import ToleranceResult, scaled_model, smallest_change, tolerance_check
@@ -65,6 +65,13 @@ def _speed_slider(scenario: Scenario) -> w.IntRangeSlider:
         layout=w.Layout(width="520px"),
         style={"description_width": "110px"},
     )
+
+
+def _slider_range(slider: w.IntRangeSlider, original: OperatingRange) -> OperatingRange:
+    """The range a speed slider shows, keeping the original skip bands that still lie inside it."""
+    low, high = slider.value
+    bands = tuple(b for b in original.skip_bands if low <= b[0] and b[1] <= high)
+    return operating_range(float(low), float(high), bands)
 
 
 def _damping_slider(scenario: Scenario) -> w.FloatSlider:
@@ -183,10 +190,7 @@ class DesignPanel(_Panel):
     # -- state ------------------------------------------------------------
     def edited_scenario(self) -> Scenario:
         """The scenario with the controls' values applied."""
-        low, high = self.speed.value
-        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
-        speed = operating_range(float(low), float(high), bands)
-        edited = self.original.with_speed(speed)
+        edited = self.original.with_speed(_slider_range(self.speed, self.original.speed))
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
         response = dataclasses.replace(edited.response, measure_at=self.point.value)
         return edited.replace(model=model, response=response, units=self.system)
@@ -497,9 +501,7 @@ class RecordPanel(_Panel):
         """The loaded scenario with the panel's speed range, damping and unit system."""
         if self.original is None or self.speed is None or self.damping is None or self.units is None:
             raise InputValueError("scenario: none loaded; load a scenario file first")
-        low, high = self.speed.value
-        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
-        edited = self.original.with_speed(operating_range(float(low), float(high), bands))
+        edited = self.original.with_speed(_slider_range(self.speed, self.original.speed))
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
         return edited.replace(model=model, units=self.units.value)
 

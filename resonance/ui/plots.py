@@ -16,7 +16,8 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from ..study import StudyResult, clear_band, required_margins
+from ..margins import clear_band
+from ..study import StudyResult
 from ..units import UnitSystem, display_unit
 from ..whatif import ToleranceResult
 
@@ -93,7 +94,7 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
     h_unit, h_factor = display_unit("receptance", system)
     pk_pk = 2.0 * result.displacement * d_factor
     clear = [
-        clear_band(f.coincidence_speed, *required_margins(result.scenario.rule, f.mode))
+        clear_band(f.coincidence_speed, result.scenario.rule, f.mode.amplification_factor)
         for f in result.findings
         if f.excitation.order == 1.0 and f.coincidence_speed is not None
     ]
@@ -164,7 +165,7 @@ def update_interference_figure(
         if finding.coincidence_speed is None:
             continue
         n_c, f_n = finding.coincidence_speed, finding.mode.frequency * f_factor
-        low, high = clear_band(n_c, *required_margins(result.scenario.rule, finding.mode))
+        low, high = clear_band(n_c, result.scenario.rule, finding.mode.amplification_factor)
         shapes.append(
             {
                 "type": "rect",

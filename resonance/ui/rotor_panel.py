@@ -8,8 +8,7 @@ import ipywidgets as w
 
 from ..rotor.scenario import RotorScenario
 from ..rotor.study import RotorStudyResult, run_rotor_study
-from ..speed_range import operating_range
-from .panels import _Panel, _speed_slider, _units_toggle, _verdict_html, caution_banner
+from .panels import _Panel, _slider_range, _speed_slider, _units_toggle, _verdict_html, caution_banner
 from .plots import findings_table_html
 from .rotor_plots import (
     campbell_figure,
@@ -98,12 +97,9 @@ class RotorPanel(_Panel):
 
     def edited_scenario(self) -> RotorScenario:
         """The scenario with the panel's speed range and unit system."""
-        low, high = self.speed.value
-        bands = tuple(b for b in self.original.speed.skip_bands if low <= b[0] and b[1] <= high)
-        sweep = max(self.original.sweep_max, 1.25 * float(high))
-        return self.original.replace(
-            speed=operating_range(float(low), float(high), bands), units=self.system, sweep_max=sweep
-        )
+        speed = _slider_range(self.speed, self.original.speed)
+        sweep = max(self.original.sweep_max, 1.25 * speed.speed_max)
+        return self.original.replace(speed=speed, units=self.system, sweep_max=sweep)
 
     def compute(self) -> RotorStudyResult:
         """Re-run the rotor study for the controls (no drawing)."""

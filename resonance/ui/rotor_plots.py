@@ -9,8 +9,8 @@ from __future__ import annotations
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
+from ..margins import clear_band
 from ..rotor.study import RotorStudyResult
-from ..study import clear_band, required_margins
 from ..units import UnitSystem, display_unit
 from .plots import CLEAR_BAND, FAIL, OPERATING, PASS, _vertical_bands
 
@@ -116,7 +116,7 @@ def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, syste
     response = result.response
     n = len(result.scenario.probes)
     clear = [
-        clear_band(f.coincidence_speed, *required_margins(result.scenario.rule, f.mode))
+        clear_band(f.coincidence_speed, result.scenario.rule, f.mode.amplification_factor)
         for f in result.findings
         if f.excitation.order == 1.0 and f.coincidence_speed is not None
     ]
