@@ -12,7 +12,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputValueError
+from .excitations import unbalance_force
 from .frf import model_receptance
+from .harmonic import convert_amplitude, velocity_amplitude
 from .interference import FindingsTable, interference_check
 from .limits import iso_velocity_zone, iso_velocity_zone_limits
 from .margins import HalfPower, half_power_points
@@ -161,16 +163,20 @@ def run_study(
     speed = speed if speed is not None else speed_axis(scenario, modes)
     j = model.dof(scenario.response.force_at)
     r = model.dof(scenario.response.measure_at)
-    h = model_receptance(model, speed / 60.0, j)[:, r]
-    omega = 2.0 * math.pi * speed / 60.0
-    displacement = np.abs(h) * scenario.response.unbalance * omega**2
-    phase = np.clip(np.arctan2(-h.imag, h.real), 0.0, math.pi) + 0.0
-    velocity_rms = omega * displacement / math.sqrt(2.0)
+
+    def response(speeds: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        # Receptance times the unbalance force U w^2 (in phase with the unbalance): the complex
+        # 0-peak displacement, and the receptance magnitude itself.
+        h = model_receptance(model, speeds / 60.0, j)[:, r]
+        return h * unbalance_force(scenario.response.unbalance, speeds), np.abs(h)
+
+    x, receptance = response(speed)
+    displacement = np.abs(x)
+    phase = np.clip(np.arctan2(-x.imag, x.real), 0.0, math.pi) + 0.0
+    velocity_rms = convert_amplitude(velocity_amplitude(displacement, speed / 60.0), "peak", "rms")
     # The largest velocity over the speeds of continuous operation, on a fine grid of its own.
     running = np.concatenate([np.linspace(a, b, 200) for a, b in scenario.speed.intervals])
-    w_run = 2.0 * math.pi * running / 60.0
-    h_run = model_receptance(model, running / 60.0, j)[:, r]
-    v_run = np.abs(h_run) * scenario.response.unbalance * w_run**3 / math.sqrt(2.0)
+    v_run = convert_amplitude(velocity_amplitude(np.abs(response(running)[0]), running / 60.0), "peak", "rms")
     k = int(np.argmax(v_run))
     zone = iso_velocity_zone(v_run[k], scenario.vibration.group, scenario.vibration.support)[0]  # type: ignore[arg-type]
     try:
@@ -186,7 +192,7 @@ def run_study(
         speed,
         displacement,
         phase,
-        np.abs(h),
+        receptance,
         velocity_rms,
         float(v_run[k]),
         float(running[k]),

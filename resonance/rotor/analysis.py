@@ -223,7 +223,7 @@ def _whirl_operator(rotor: Rotor) -> np.ndarray:
     h = np.zeros((rotor.size, rotor.size), dtype=complex)
     for node in range(n):
         i, j = rotor.dof(node, "x"), rotor.dof(node, "y")
-        h[i, j] = 0.5j * -1.0  # Im(conj(x) y) = (conj(x) y - x conj(y)) / (2 i)
+        h[i, j] = -0.5j  # Im(conj(x) y) = (conj(x) y - x conj(y)) / (2 i)
         h[j, i] = 0.5j
     return h
 

@@ -38,7 +38,7 @@ class FieldPanel(_Panel):
         channels = sorted(first.coastdown.channels)
         speeds = first.coastdown.speed
         band = first.spec.band or (float(speeds[0]), float(speeds[-1]))
-        self.speed = _speed_slider(scenario)
+        self.speed = _speed_slider(scenario.speed)
         self.channel = w.Dropdown(
             options=channels, value=first.spec.channel, description="channel", style={"description_width": "110px"}
         )

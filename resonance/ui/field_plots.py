@@ -86,7 +86,7 @@ def update_bode_figure(
             ],
             hovertemplate="%{text}<extra></extra>",
         )
-        fig.data[3].update(x=speed, y=np.degrees(np.unwrap(-np.angle(x))))
+        fig.data[3].update(x=speed, y=np.degrees(result.coastdown.phase_lag(channel)))
         fig.data[4].update(
             x=fine if fine is not None else [], y=np.degrees(np.unwrap(-np.angle(fitted))) if fitted is not None else []
         )

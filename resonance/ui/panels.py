@@ -52,8 +52,8 @@ def _verdict_html(text: str, passed: bool) -> str:
     return f"<div class='verdict' style='border-left:6px solid {colour};padding:6px 10px'>{lines}</div>"
 
 
-def _speed_slider(scenario: Scenario) -> w.IntRangeSlider:
-    low, high = scenario.speed.speed_min, scenario.speed.speed_max
+def _speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
+    low, high = speed.speed_min, speed.speed_max
     step = 10 if high < 6000 else 50
     return w.IntRangeSlider(
         value=(round(low), round(high)),
@@ -158,7 +158,7 @@ class DesignPanel(_Panel):
         self.original = scenario
         self.scenario = scenario
         self.views = views
-        self.speed = _speed_slider(scenario)
+        self.speed = _speed_slider(scenario.speed)
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML()
         self.units = _units_toggle(scenario.units, "110px")
@@ -305,7 +305,7 @@ class WhatIfPanel(_Panel):
         )
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML(_af_text(scenario.model.damping_ratio))
-        self.speed = _speed_slider(scenario)
+        self.speed = _speed_slider(scenario.speed)
         low, high = scenario.speed.speed_min, scenario.speed.speed_max
         band = (
             scenario.speed.skip_bands[0]
@@ -489,7 +489,7 @@ class RecordPanel(_Panel):
             self._error(str(error))
             return False
         self.original = scenario
-        self.speed, self.damping = _speed_slider(scenario), _damping_slider(scenario)
+        self.speed, self.damping = _speed_slider(scenario.speed), _damping_slider(scenario)
         self.units = _units_toggle(scenario.units, "110px")
         for control in (self.speed, self.damping, self.units):
             control.observe(self._changed, names="value")

@@ -51,7 +51,7 @@ class RotorPanel(_Panel):
     def __init__(self, scenario: RotorScenario):
         self.original = scenario
         self.scenario = scenario
-        self.speed = _speed_slider(scenario)  # type: ignore[arg-type]
+        self.speed = _speed_slider(scenario.speed)
         self.stiffness = _factor_slider("bearing stiffness x")
         self.damping = _factor_slider("bearing damping x")
         self.shape_speed = w.IntSlider(
