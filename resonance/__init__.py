@@ -13,6 +13,7 @@ standard, the manufacturer's data, field verification or review by a
 qualified engineer.
 """
 
+from ._version import __version__
 from .damping import (
     amplification_factor_from_damping_ratio,
     damping_ratio_from_amplification_factor,
@@ -27,8 +28,11 @@ from .excitations import (
     Excitation,
     api_design_unbalance,
     blade_pass,
+    drive_electrical,
+    electrical_order,
     fixed_frequency,
     gear_mesh,
+    line_frequency,
     permissible_unbalance,
     running_speed_order,
     twice_line_frequency,
@@ -37,7 +41,7 @@ from .excitations import (
 from .frf import accelerance, mobility, model_receptance, receptance
 from .harmonic import acceleration_amplitude, convert_amplitude, velocity_amplitude
 from .interference import Finding, FindingsTable, interference_check
-from .limits import api_shaft_vibration_limit, iso_velocity_zone, iso_velocity_zone_limits
+from .limits import api_shaft_vibration_limit, iso_velocity_zone, iso_velocity_zone_limits, support_class
 from .margins import (
     ApiLateralRule,
     FlatRule,
@@ -51,6 +55,7 @@ from .margins import (
 )
 from .model import GROUND, MatrixModel, Spring, chain_model, lumped_model, matrix_model
 from .modes import Mode, ModeSet, modal_properties, modes
+from .rules import RuleSet
 from .sdof import (
     SteadyState,
     base_excitation_response,
@@ -67,9 +72,8 @@ from .sdof import (
 from .speed_range import OperatingRange, operating_range
 from .units import Quantity, display_unit, ureg
 
-__version__ = "0.1.0"
-
 __all__ = [
+    "__version__",
     # units
     "ureg",
     "Quantity",
@@ -123,6 +127,9 @@ __all__ = [
     "gear_mesh",
     "fixed_frequency",
     "twice_line_frequency",
+    "line_frequency",
+    "drive_electrical",
+    "electrical_order",
     "permissible_unbalance",
     "api_design_unbalance",
     "unbalance_force",
@@ -138,6 +145,7 @@ __all__ = [
     "FlatRule",
     "TableRule",
     "rule_by_name",
+    "RuleSet",
     "Finding",
     "FindingsTable",
     "interference_check",
@@ -145,4 +153,5 @@ __all__ = [
     "iso_velocity_zone_limits",
     "iso_velocity_zone",
     "api_shaft_vibration_limit",
+    "support_class",
 ]

@@ -1,26 +1,32 @@
-"""The ``check`` command: run every check of a scenario file, headless.
+"""The ``check`` and ``compare`` commands.
 
 ``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` runs a
 support scenario, or a rotor scenario (one with a ``rotor`` table), prints the
 text record, writes the self-contained HTML record and the JSON of inputs and
-findings when asked, and exits 0 when every check passes, 1 when any fails,
-and 2 on bad input (with a message naming the file and the field). Records
-are built in full before anything is written, and written through a
-temporary file, so a failed run never leaves a partial record; the scenario
-file is only read.
+findings when asked, and exits 0 when every check passes (``PASS`` or ``PASS
+WITH EXEMPTION``), 1 when any fails, and 2 on bad input (with a message naming
+the file and the field, or the option). Output paths are checked before the
+study runs; records are built in full before anything is written, and written
+through a temporary file, so a failed run never leaves a partial record; the
+scenario and measurement files are only read.
+
+``python -m resonance compare OLD.json NEW.json`` lists the inputs and
+findings that changed between two JSON records and exits 0 when the verdict
+is the same, 1 when it changed, and 2 on bad input.
 """
 
 from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from collections.abc import Sequence
 from pathlib import Path
 
 from .errors import InputTypeError, InputValueError
 from .record import atomic_write, build_record
-from .scenario import parse_scenario, read_scenario_file
+from .scenario import parse_scenario, read_scenario_bytes
 from .study import run_study
 
 __all__ = ["main"]
@@ -35,22 +41,71 @@ def _parser() -> argparse.ArgumentParser:
     check.add_argument("scenario", type=Path, help="scenario file (TOML)")
     check.add_argument("--html", type=Path, help="write the self-contained HTML record here")
     check.add_argument("--json", type=Path, help="write the JSON record (inputs and findings) here")
+    compare = commands.add_parser("compare", help="compare two JSON records (inputs, findings, verdict)")
+    compare.add_argument("old", type=Path, help="the earlier JSON record")
+    compare.add_argument("new", type=Path, help="the later JSON record")
     return parser
 
 
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return a.resolve() == b.resolve() or (a.exists() and b.exists() and os.path.samefile(a, b))
+    except OSError:
+        return False
+
+
+def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> None:
+    """Refuse output paths that cannot be written or would touch an input, before any work.
+
+    Raises
+    ------
+    InputValueError
+        Naming the option (``--html``, ``--json``) and the reason.
+    """
+    given = {option: path for option, path in outputs.items() if path is not None}
+    seen: dict[Path, str] = {}
+    for option, path in given.items():
+        flag = f"--{option}"
+        if str(path) == "" or path.name in ("", ".", ".."):
+            raise InputValueError(f"{flag}: {str(path)!r} is not a file name")
+        for other, opt in seen.items():
+            if _same_file(path, other):
+                raise InputValueError(f"{flag}: {path} is also the path of {opt}; choose two different files")
+        seen[path] = flag
+        for source in inputs:
+            if _same_file(path, source):
+                raise InputValueError(f"{flag}: {path} is an input file ({source}); choose another file")
+        if path.is_dir():
+            raise InputValueError(f"{flag}: {path} is a folder; expected a file name")
+        parent = path.parent if str(path.parent) else Path(".")
+        if not parent.is_dir():
+            raise InputValueError(f"{flag}: the folder {parent} does not exist")
+        try:
+            limit = os.pathconf(parent, "PC_NAME_MAX")
+        except (OSError, ValueError, AttributeError):
+            limit = 255
+        # The temporary file adds a leading dot and ".partial" to the name.
+        if len(os.fsencode(path.name)) + len(".") + len(".partial") > limit:
+            raise InputValueError(f"{flag}: the file name is longer than this file system allows ({limit} bytes)")
+        if not os.access(parent, os.W_OK | os.X_OK):
+            raise InputValueError(f"{flag}: the folder {parent} is not writable")
+        if path.exists() and not os.access(path, os.W_OK):
+            raise InputValueError(f"{flag}: {path} exists and is read-only")
+
+
 def _check(args: argparse.Namespace) -> int:
-    for option in ("html", "json"):
-        target = getattr(args, option)
-        if target is not None and target.resolve() == args.scenario.resolve():
-            raise InputValueError(f"--{option}: {target} is the scenario file itself; choose another file")
-    data = read_scenario_file(args.scenario)
+    data, sha256 = read_scenario_bytes(args.scenario)
     name = args.scenario.name
+    inputs = [args.scenario]
+    outputs = {"html": args.html, "json": args.json}
     if "rotor" in data:  # a rotor scenario
         from .rotor.record import build_rotor_record
         from .rotor.scenario import parse_rotor_scenario
         from .rotor.study import run_rotor_study
 
-        rotor_result = run_rotor_study(parse_rotor_scenario(data, name))
+        rotor_scenario = parse_rotor_scenario(data, name).replace(sha256=sha256)
+        check_outputs(outputs, inputs)
+        rotor_result = run_rotor_study(rotor_scenario)
         record, passed = build_rotor_record(rotor_result), rotor_result.passed
 
         def page() -> str:
@@ -59,7 +114,13 @@ def _check(args: argparse.Namespace) -> int:
             return render_rotor_html(rotor_result, record)
 
     else:
-        scenario = parse_scenario(data, name)
+        scenario = parse_scenario(data, name).replace(sha256=sha256)
+        if scenario.field:
+            from .field.study import field_spec
+
+            spec = field_spec(scenario, args.scenario.parent)
+            inputs += [spec.coastdown, *([spec.impact] if spec.impact is not None else [])]
+        check_outputs(outputs, inputs)
         result = run_study(scenario)
         field = None
         if scenario.field:  # measurements that verify the model
@@ -74,27 +135,32 @@ def _check(args: argparse.Namespace) -> int:
 
             return render_html(result, record, field)
 
-    outputs: list[tuple[str, Path, str]] = []
+    texts: list[tuple[Path, str]] = []
     if args.json is not None:
-        outputs.append(("json", args.json, json.dumps(record.data, indent=2)))
+        texts.append((args.json, json.dumps(record.data, indent=2)))
     if args.html is not None:
-        outputs.append(("html", args.html, page()))
-    for option, path, _ in outputs:
-        if not path.parent.is_dir():
-            raise InputValueError(f"--{option}: the folder {path.parent} does not exist")
-    for _, path, text in outputs:
+        texts.append((args.html, page()))
+    for path, text in texts:
         atomic_write(path, text)
     print(record.text)
-    for _, path, _ in outputs:
+    for path, _ in texts:
         print(f"wrote {path}")
     return EXIT_PASS if passed else EXIT_FAIL
+
+
+def _compare(args: argparse.Namespace) -> int:
+    from .compare import compare_records, load_record
+
+    comparison = compare_records(load_record(args.old), load_record(args.new))
+    print(comparison.to_text())
+    return EXIT_FAIL if comparison.verdict_changed else EXIT_PASS
 
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point; returns the exit code."""
     args = _parser().parse_args(argv)
     try:
-        return _check(args)
+        return _compare(args) if args.command == "compare" else _check(args)
     except (InputValueError, InputTypeError) as error:
         print(f"error: {error}", file=sys.stderr)
         return EXIT_BAD_INPUT

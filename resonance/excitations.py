@@ -1,10 +1,14 @@
-"""Excitation sources: orders of running speed, fixed frequencies and unbalance.
+"""Excitation sources: orders of running speed, electrical sources, fixed frequencies and unbalance.
 
 An :class:`Excitation` is either an order of the running speed (1x unbalance,
 2x misalignment, blade or vane pass, gear mesh; frequency ``n N / 60`` Hz at
-``N`` rpm) or a fixed frequency independent of speed (twice line frequency in
-motors, a neighbouring machine). Unbalance amounts follow ISO 21940-11 balance
-grades and the API rotor standards' design unbalance.
+``N`` rpm) or a fixed frequency independent of speed (a neighbouring machine).
+Each has a kind, which decides the margin rule that applies to it
+(:mod:`resonance.rules`): ``"synchronous"`` (1x), ``"order"`` (any other order
+of running speed), ``"electrical"`` (the motor's electrical frequencies: fixed
+for a motor on the line, following the speed for a motor on a drive) and
+``"fixed"``. Unbalance amounts follow ISO 21940-11 balance grades and the API
+rotor standards' design unbalance.
 
 References
 ----------
@@ -13,6 +17,9 @@ References
    ISO 1940-1), sec. 6.
 .. [2] API Std 617, *Axial and Centrifugal Compressors and Expander-compressors*,
    8th ed., 2014, and API RP 684, 2nd ed., 2005 (design unbalance; from memory).
+.. [3] A. E. Fitzgerald, C. Kingsley and S. D. Umans, *Electric Machinery*,
+   6th ed., 2003, ch. 4 and 6 (synchronous speed ``n_s = 120 f / p``, slip
+   ``s = (n_s - n) / n_s``).
 """
 
 from __future__ import annotations
@@ -27,16 +34,24 @@ from .errors import InputValueError
 from .inputs import as_si, as_si_array
 
 __all__ = [
+    "EXCITATION_KINDS",
     "Excitation",
+    "ExcitationKind",
     "api_design_unbalance",
     "blade_pass",
+    "drive_electrical",
+    "electrical_order",
     "fixed_frequency",
     "gear_mesh",
+    "line_frequency",
     "permissible_unbalance",
     "running_speed_order",
     "twice_line_frequency",
     "unbalance_force",
 ]
+
+ExcitationKind = Literal["synchronous", "order", "electrical", "fixed"]
+EXCITATION_KINDS: tuple[ExcitationKind, ...] = ("synchronous", "order", "electrical", "fixed")
 
 
 @dataclass(frozen=True)
@@ -51,11 +66,17 @@ class Excitation:
         Multiple of the running speed [-], for speed-dependent sources.
     frequency : float or None
         Fixed frequency [Hz], for speed-independent sources.
+    kind : {"synchronous", "order", "electrical", "fixed"}, optional
+        What the source is; it selects the margin rule. If omitted: order 1
+        is ``"synchronous"``, any other order ``"order"``, a fixed frequency
+        ``"fixed"``. ``"electrical"`` must be given (see :func:`line_frequency`,
+        :func:`drive_electrical`).
     """
 
     label: str
     order: float | None = None
     frequency: float | None = None
+    kind: ExcitationKind | None = None  # type: ignore[assignment]
 
     def __post_init__(self) -> None:
         if (self.order is None) == (self.frequency is None):
@@ -64,11 +85,22 @@ class Excitation:
         if not (isinstance(value, (int, float)) and math.isfinite(value) and value > 0):
             what = "order" if self.order is not None else "frequency"
             raise InputValueError(f"excitation {self.label!r}: {what} {value!r}; expected a finite number > 0")
+        if self.kind is None:
+            implied = "fixed" if self.order is None else ("synchronous" if self.order == 1.0 else "order")
+            object.__setattr__(self, "kind", implied)
+        elif self.kind not in EXCITATION_KINDS:
+            raise InputValueError(f"excitation {self.label!r}: kind {self.kind!r}; expected one of {EXCITATION_KINDS}")
+        elif self.kind == "synchronous" and self.order != 1.0:
+            raise InputValueError(f"excitation {self.label!r}: kind 'synchronous' needs order 1; got {value!r}")
+        elif self.kind in ("order", "synchronous") and self.order is None:
+            raise InputValueError(f"excitation {self.label!r}: kind {self.kind!r} needs an order, not a frequency")
+        elif self.kind == "fixed" and self.order is not None:
+            raise InputValueError(f"excitation {self.label!r}: kind 'fixed' needs a frequency, not an order")
 
     @property
-    def kind(self) -> Literal["order", "fixed"]:
-        """``"order"`` for speed-dependent sources, ``"fixed"`` otherwise."""
-        return "order" if self.order is not None else "fixed"
+    def tracks_speed(self) -> bool:
+        """True for sources whose frequency follows the running speed."""
+        return self.order is not None
 
     def frequency_at(self, speed: object) -> np.ndarray:
         """Excitation frequency [Hz] at running speeds [rpm]."""
@@ -124,21 +156,115 @@ def fixed_frequency(frequency: object, label: str) -> Excitation:
     return Excitation(label, frequency=f)
 
 
-def twice_line_frequency(line_frequency: object = 50.0) -> Excitation:
-    """Twice line frequency, the electromagnetic excitation of AC motors.
+def line_frequency(supply_frequency: object = 50.0, multiple: float = 1.0) -> Excitation:
+    """An electrical excitation of a motor on the line: a multiple of the supply frequency, fixed.
 
     Parameters
     ----------
-    line_frequency : float or pint.Quantity
-        Supply frequency [Hz]; 50 or 60 in practice.
+    supply_frequency : float or pint.Quantity
+        Line frequency [Hz]; 50 or 60 in practice.
+    multiple : float
+        Multiple of the line frequency [-] (2: twice line frequency, the
+        electromagnetic pull of AC motors).
+
+    Returns
+    -------
+    Excitation
+        Kind ``"electrical"``, at the fixed frequency ``multiple x f_line``.
+
+    Examples
+    --------
+    >>> line_frequency(60.0, 2).frequency
+    120.0
+    >>> line_frequency(50.0, 2).label
+    'twice line frequency (100 Hz)'
+    """
+    f = as_si(supply_frequency, "supply_frequency", "frequency", "positive")
+    n = as_si(multiple, "multiple", "ratio", "positive")
+    words = {1.0: "line frequency", 2.0: "twice line frequency"}.get(n, f"{n:g} x line frequency")
+    return Excitation(f"{words} ({n * f:g} Hz)", frequency=n * f, kind="electrical")
+
+
+def twice_line_frequency(supply_frequency: object = 50.0) -> Excitation:
+    """Twice line frequency of a motor on the line (see :func:`line_frequency`).
 
     Examples
     --------
     >>> twice_line_frequency(60.0).frequency
     120.0
     """
-    f = as_si(line_frequency, "line_frequency", "frequency", "positive")
-    return Excitation(f"2x line ({2.0 * f:g} Hz)", frequency=2.0 * f)
+    return line_frequency(supply_frequency, 2.0)
+
+
+def electrical_order(poles: int, slip: object = 0.0, multiple: float = 1.0) -> float:
+    """The electrical frequency of a drive-fed motor as an order of its shaft speed [-].
+
+    Parameters
+    ----------
+    poles : int
+        Number of poles ``p`` (2, 4, 6...; even).
+    slip : float
+        Slip ``s = (n_s - n) / n_s`` [-] at the load considered, in [0, 1);
+        0 for a synchronous motor.
+    multiple : float
+        Multiple of the electrical frequency [-] (1: ``f_e``, 2: twice
+        electrical frequency, 6 and 12: six-pulse drive harmonics).
+
+    Returns
+    -------
+    float
+        ``multiple x p / (2 (1 - s))``: the frequency [Hz] is this order times
+        the shaft speed [rpm] / 60.
+
+    Notes
+    -----
+    The drive's output frequency is ``f_e = p n_s / 120`` with the
+    synchronous speed ``n_s = n / (1 - s)``, so
+    ``f_e = p n / (120 (1 - s))``: an order ``p / (2 (1 - s))`` of the shaft
+    speed. The slip is taken constant over the range (its value at the
+    load of interest); at light load it falls towards 0.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley and S. D. Umans, *Electric Machinery*, 6th
+    ed., 2003, ch. 6 (induction machines: synchronous speed and slip).
+
+    Examples
+    --------
+    >>> electrical_order(4)          # a 4-pole motor: f_e = 2 x shaft speed
+    2.0
+    >>> round(electrical_order(4, 0.013, 2) * 1480.0 / 60.0, 4)  # 2 f_e at 1480 rpm [Hz]
+    99.9662
+    """
+    if isinstance(poles, bool) or not isinstance(poles, (int, np.integer)) or poles < 2 or poles % 2:
+        raise InputValueError(f"poles: got {poles!r}; expected an even whole number >= 2")
+    s = as_si(slip, "slip", "ratio", "nonnegative")
+    if not s < 1.0:
+        raise InputValueError(f"slip: got {s:g}; expected a fraction in [0, 1) (1.3 % slip is 0.013)")
+    n = as_si(multiple, "multiple", "ratio", "positive")
+    return n * int(poles) / (2.0 * (1.0 - s))
+
+
+def drive_electrical(poles: int, slip: object = 0.0, multiple: float = 1.0, label: str | None = None) -> Excitation:
+    """An electrical excitation of a drive-fed motor, following the speed (see :func:`electrical_order`).
+
+    Returns
+    -------
+    Excitation
+        Kind ``"electrical"``, an order of the shaft speed.
+
+    Examples
+    --------
+    >>> e = drive_electrical(4, 0.0, 2)
+    >>> e.label, e.frequency_at(1500.0)
+    ('2 f_e (drive, 4 poles)', array([100.]))
+    """
+    order = electrical_order(poles, slip, multiple)
+    n = as_si(multiple, "multiple", "ratio", "positive")
+    s = as_si(slip, "slip", "ratio", "nonnegative")
+    name = "f_e" if n == 1.0 else f"{n:g} f_e"
+    detail = f"drive, {int(poles)} poles" + (f", slip {s:g}" if s else "")
+    return Excitation(label if label is not None else f"{name} ({detail})", order=order, kind="electrical")
 
 
 def permissible_unbalance(grade: object, rotor_mass: object, speed: object) -> float:

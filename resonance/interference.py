@@ -3,10 +3,12 @@
 For each mode and each excitation the check finds where they coincide (the
 running speed at which an order line meets the natural frequency, or the
 fixed excitation frequency), measures the separation margin from the speeds
-of continuous operation, asks the margin rule what it requires for the mode's
-amplification factor, and gives a verdict. The findings come back in a
-:class:`FindingsTable`, worst first, that renders the same way as text, JSON
-and HTML.
+of continuous operation, takes the margin rule that governs that pair of mode
+kind and excitation kind (:mod:`resonance.rules`), asks it what it requires
+for the mode's amplification factor, and gives a verdict: ``PASS``, ``FAIL``,
+or ``EXEMPT`` where the rule requires no margin at this AF (the API
+``AF < 2.5`` exemption). The findings come back in a :class:`FindingsTable`,
+worst first, that renders the same way as text, JSON and HTML.
 """
 
 from __future__ import annotations
@@ -16,15 +18,19 @@ import json
 import math
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
+from typing import Literal
 
-from .errors import InputValueError
+from .errors import InputTypeError, InputValueError
 from .excitations import Excitation
-from .margins import ApiLateralRule, Location, MarginRule, Side, range_margin
+from .margins import Location, MarginRule, Side, range_margin
 from .modes import Mode
+from .rules import RuleSet, as_rule_set, is_flat
 from .speed_range import OperatingRange
 from .units import UnitSystem, display_unit
 
-__all__ = ["Finding", "FindingsTable", "interference_check"]
+Verdict = Literal["PASS", "FAIL", "EXEMPT"]
+
+__all__ = ["Finding", "FindingsTable", "interference_check", "verdict_line", "verdict_of"]
 
 
 @dataclass(frozen=True)
@@ -48,9 +54,15 @@ class Finding:
     required_margin : float
         Margin the rule requires [percent].
     side : {"below", "above"}
-        The side whose requirement applies.
+        The side whose requirement applies (a flat rule is the same on both).
     rule, rule_source : str
-        The rule's name and the standard or practice it comes from.
+        The name of the rule actually applied to this pair and the standard or
+        practice it comes from.
+    scope : str
+        The pair in words (``"structural mode against 1x"``) and why the rule
+        was chosen for it.
+    margin_rule : MarginRule or None
+        The rule object itself (for the keep-clear bands of the plots).
     """
 
     mode: Mode
@@ -62,15 +74,32 @@ class Finding:
     side: Side
     rule: str
     rule_source: str
+    scope: str = ""
+    margin_rule: MarginRule | None = None
+
+    @property
+    def exempt(self) -> bool:
+        """True when the rule requires no margin at this mode's AF (the API ``AF < 2.5`` exemption)."""
+        return self.required_margin == 0.0
+
+    @property
+    def exemption(self) -> str | None:
+        """The exemption used, in words, or None."""
+        if not self.exempt:
+            return None
+        af = self.mode.amplification_factor
+        return f"{self.rule} requires no separation margin for AF {af:.2f} (below 2.5: critically damped)"
 
     @property
     def passed(self) -> bool:
-        """True when the margin meets the requirement (none required passes)."""
-        return self.required_margin == 0.0 or self.margin >= self.required_margin
+        """True when the margin meets the requirement (an exemption passes, but is reported)."""
+        return self.exempt or self.margin >= self.required_margin
 
     @property
-    def verdict(self) -> str:
-        """``"PASS"`` or ``"FAIL"``."""
+    def verdict(self) -> Verdict:
+        """``"PASS"``, ``"FAIL"`` or ``"EXEMPT"`` (no margin required by the rule's exemption)."""
+        if self.exempt:
+            return "EXEMPT"
         return "PASS" if self.passed else "FAIL"
 
     @property
@@ -87,7 +116,10 @@ class Finding:
             "natural_frequency_hz": self.mode.frequency,
             "damping_ratio": self.mode.damping_ratio,
             "amplification_factor": af if math.isfinite(af) else None,
+            "amplification_factor_source": self.mode.af_source,
+            "mode_kind": self.mode.kind,
             "excitation": self.excitation.label,
+            "excitation_kind": self.excitation.kind,
             "excitation_order": self.excitation.order,
             "excitation_frequency_hz": self.excitation.frequency,
             "coincidence_speed_rpm": self.coincidence_speed,
@@ -97,13 +129,26 @@ class Finding:
             "side": self.side,
             "rule": self.rule,
             "rule_source": self.rule_source,
+            "rule_scope": self.scope,
+            "exemption": self.exemption,
             "verdict": self.verdict,
         }
 
 
 def _columns(system: UnitSystem) -> tuple[str, ...]:
     unit = display_unit("frequency", system)[0]
-    return ("mode", f"f_n [{unit}]", "AF", "excitation", "coincidence [rpm]", "where", "SM [%]", "req. [%]", "verdict")
+    return (
+        "mode",
+        f"f_n [{unit}]",
+        "AF",
+        "excitation",
+        "coincidence [rpm]",
+        "where",
+        "SM [%]",
+        "req. [%]",
+        "rule",
+        "verdict",
+    )
 
 
 @dataclass(frozen=True)
@@ -116,9 +161,16 @@ class FindingsTable:
     findings: tuple[Finding, ...]
 
     def __post_init__(self) -> None:
-        # The table keeps its promise whoever builds it: failures first, largest shortfall first.
-        ordered = tuple(sorted(self.findings, key=lambda f: (f.passed, -f.shortfall)))
-        object.__setattr__(self, "findings", ordered)
+        # The table keeps its promise whoever builds it: failures first (largest shortfall first),
+        # then exemptions (inside the range first), then passes by smallest margin to spare.
+        def rank(f: Finding) -> tuple[int, float]:
+            if not f.passed:
+                return (0, -f.shortfall)
+            if f.exempt:
+                return (1 if f.location == "inside" else 2, f.margin)
+            return (3, -f.shortfall)
+
+        object.__setattr__(self, "findings", tuple(sorted(self.findings, key=rank)))
 
     @classmethod
     def combine(cls, tables: Sequence[FindingsTable]) -> FindingsTable:
@@ -144,6 +196,23 @@ class FindingsTable:
         """The failing findings, worst first."""
         return tuple(f for f in self.findings if not f.passed)
 
+    @property
+    def exemptions(self) -> tuple[Finding, ...]:
+        """The findings that pass by an exemption, those inside the operating range first."""
+        return tuple(f for f in self.findings if f.exempt)
+
+    @property
+    def exempt_inside(self) -> tuple[Finding, ...]:
+        """Exempt coincidences inside the operating range: never a plain PASS."""
+        return tuple(f for f in self.findings if f.exempt and f.location == "inside")
+
+    @property
+    def verdict(self) -> str:
+        """``"FAIL"``, ``"PASS WITH EXEMPTION"`` (an exempt coincidence inside the range) or ``"PASS"``."""
+        if not self.passed:
+            return "FAIL"
+        return "PASS WITH EXEMPTION" if self.exempt_inside else "PASS"
+
     def rows(self, precision: int = 1, system: UnitSystem = "SI") -> list[tuple[str, ...]]:
         """Rows of display strings, one per finding, in the column order of :meth:`to_text`.
 
@@ -164,6 +233,7 @@ class FindingsTable:
                     f.location,
                     f"{f.margin:.{precision}f}",
                     f"{f.required_margin:.{precision}f}",
+                    f.rule,
                     f.verdict,
                 )
             )
@@ -180,18 +250,41 @@ class FindingsTable:
         return "\n".join(lines)
 
     def summary(self) -> str:
-        """One line: how many checks, how many fail, the worst."""
+        """One line: how many checks, how many fail, the worst, and any exemption used."""
         failures = self.failures
         if not self.findings:
             return "no checks"
+        exempt = self.exemptions
+        note = ""
+        if exempt:
+            first = exempt[0]
+            where = "inside the operating range" if first.location == "inside" else f"{first.location} the range"
+            note = (
+                f"; {len(exempt)} by exemption, e.g. {first.mode.label} x {first.excitation.label} {where}: "
+                f"{first.exemption}"
+            )
         if not failures:
-            return f"PASS: all {len(self)} checks meet the required margin"
+            met = len(self) - len(exempt)
+            return f"{self.verdict}: {met} of {len(self)} checks meet the required margin{note}"
         worst = failures[0]
+        # Enough digits that a shortfall never reads "15.0 % < 15.0 %".
+        digits = next((d for d in (1, 2, 3) if round(worst.margin, d) < round(worst.required_margin, d)), 4)
         return (
             f"FAIL: {len(failures)} of {len(self)} checks short of the required margin; worst "
-            f"{worst.mode.label} x {worst.excitation.label}: SM {worst.margin:.1f} % < "
-            f"{worst.required_margin:.1f} % ({worst.rule})"
+            f"{worst.mode.label} x {worst.excitation.label}: SM {worst.margin:.{digits}f} % < "
+            f"{worst.required_margin:.{digits}f} % ({worst.rule}){note}"
         )
+
+    def rules_used(self) -> list[str]:
+        """Each rule applied, once, with the pairs it was applied to (for the record's methods)."""
+        out: dict[str, set[str]] = {}
+        for f in self.findings:
+            out.setdefault(f"{f.rule} ({f.rule_source})", set()).add(f.scope.split(":")[0])
+        return [f"{rule}: applied to {', '.join(sorted(scopes))}" for rule, scopes in out.items()]
+
+    def af_sources(self) -> list[str]:
+        """Where the AF of each mode checked came from, once per source (for the record's methods)."""
+        return sorted({f"{f.mode.af_source} ({f.mode.kind} modes)" for f in self.findings})
 
     def to_records(self) -> list[dict[str, object]]:
         """The findings as a list of plain dicts (see :meth:`Finding.as_record`)."""
@@ -214,9 +307,12 @@ class FindingsTable:
         )
 
 
-def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, rule: MarginRule) -> Finding:
+def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, rules: RuleSet) -> Finding:
     af = mode.amplification_factor
+    scoped = rules.rule_for(mode.kind, excitation.kind)  # type: ignore[arg-type]
+    rule = scoped.rule
     if excitation.order is not None:
+        # For an order n the speed margin equals the frequency margin of f_n from the band n N / 60 sweeps.
         speed = 60.0 * mode.frequency / excitation.order
         margin, location, side = range_margin(speed, speed_range)
         coincidence: float | None = speed
@@ -227,14 +323,27 @@ def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, ru
         location = "inside" if margin == 0.0 else side
         coincidence = None
     required = rule.required(max(af, 1.0), side)
-    return Finding(mode, excitation, coincidence, location, margin, required, side, rule.name, rule.source)
+    margin_words = "flat margin in frequency, both sides" if is_flat(rule) else f"margin from the AF ({mode.af_source})"
+    return Finding(
+        mode,
+        excitation,
+        coincidence,
+        location,
+        margin,
+        required,
+        side,
+        rule.name,
+        rule.source,
+        f"{scoped.scope}: {scoped.basis}; {margin_words}",
+        rule,
+    )
 
 
 def interference_check(
     modes: Sequence[Mode],
     excitations: Sequence[Excitation],
     speed_range: OperatingRange,
-    rule: MarginRule | None = None,
+    rules: RuleSet | MarginRule | None = None,
 ) -> FindingsTable:
     """Check every mode against every excitation across the operating range.
 
@@ -246,22 +355,37 @@ def interference_check(
         Orders of running speed and fixed-frequency sources.
     speed_range : OperatingRange
         Speeds of continuous operation (see :func:`resonance.operating_range`).
-    rule : MarginRule, optional
-        The required-margin rule; the API lateral rule if omitted.
+    rules : RuleSet or MarginRule, optional
+        Which rule governs which pair (see :class:`resonance.rules.RuleSet`).
+        A single flat rule applies to every pair; any other single rule (the
+        API lateral rule, a table) governs rotor lateral modes against 1x only.
+        Omitted: the API lateral rule there and no flat margin, so structural
+        modes or other excitations raise an error asking for one.
 
     Returns
     -------
     FindingsTable
         One finding per mode and excitation, worst first.
 
+    Raises
+    ------
+    InputValueError
+        No modes or excitations, or a pair that needs a flat margin when none
+        was given.
+    InputTypeError
+        A mode, excitation or speed range of the wrong type.
+
     Notes
     -----
     For an order ``n`` the coincidence speed is ``N_c = 60 f_n / n`` rpm and
     the margin is the separation margin of ``N_c`` from the allowed speeds,
     which equals the frequency separation of the mode from the band the order
-    sweeps. For a fixed source at ``f_e`` the margin is
-    ``100 |f_n - f_e| / f_e``. A mode with ``AF < 2.5`` under the API rule
-    needs no margin (critically damped) and passes.
+    sweeps, ``100 (f_lo - f_n) / f_lo`` below it and ``100 (f_n - f_hi) / f_hi``
+    above it. For a fixed source at ``f_e`` the margin is
+    ``100 |f_n - f_e| / f_e``. Under the API lateral rule (rotor lateral modes
+    against 1x only) a mode with ``AF < 2.5`` needs no margin: the finding is
+    ``EXEMPT``, and an exempt coincidence inside the range makes the table's
+    verdict ``PASS WITH EXEMPTION``.
 
     References
     ----------
@@ -274,11 +398,27 @@ def interference_check(
     for name, items, kind in (("modes", modes, Mode), ("excitations", excitations, Excitation)):
         for i, item in enumerate(items):
             if not isinstance(item, kind):
-                raise TypeError(f"{name}[{i}]: got {type(item).__name__}; expected {kind.__name__}")
+                raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected {kind.__name__}")
     if not isinstance(speed_range, OperatingRange):
-        raise TypeError(
+        raise InputTypeError(
             f"speed_range: got {type(speed_range).__name__}; expected an OperatingRange "
             "(build one with resonance.operating_range)"
         )
-    rule = rule if rule is not None else ApiLateralRule()
-    return FindingsTable(tuple(_finding(m, e, speed_range, rule) for m in modes for e in excitations))
+    rule_set = as_rule_set(rules)
+    return FindingsTable(tuple(_finding(m, e, speed_range, rule_set) for m in modes for e in excitations))
+
+
+def verdict_of(passed: bool, findings: FindingsTable) -> str:
+    """The verdict of a study: ``"FAIL"``, or the findings' verdict (``"PASS"`` or ``"PASS WITH EXEMPTION"``)."""
+    return findings.verdict if passed else "FAIL"
+
+
+def verdict_line(verdict: str, findings: FindingsTable) -> str:
+    """``Verdict: ...``, naming every exempt coincidence inside the operating range."""
+    exempt = findings.exempt_inside
+    if not exempt:
+        return f"Verdict: {verdict}"
+    names = "; ".join(
+        f"{f.mode.label} x {f.excitation.label} inside the operating range, exempt: {f.exemption}" for f in exempt
+    )
+    return f"Verdict: {verdict} ({names})"

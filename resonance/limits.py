@@ -23,10 +23,16 @@ from .inputs import as_si, as_si_array
 __all__ = [
     "MachineGroup",
     "SupportClass",
+    "RIGID_SUPPORT_RATIO",
     "api_shaft_vibration_limit",
     "iso_velocity_zone",
     "iso_velocity_zone_limits",
+    "support_class",
 ]
+
+#: A support is rigid when its lowest natural frequency is at least this multiple of the main
+#: excitation frequency (ISO 10816-3:2009 sec. 3.3, 25 % above; from memory).
+RIGID_SUPPORT_RATIO = 1.25
 
 MachineGroup = Literal[1, 2]
 SupportClass = Literal["rigid", "flexible"]
@@ -86,6 +92,38 @@ def iso_velocity_zone(velocity_rms: object, group: MachineGroup, support: Suppor
     v = as_si_array(velocity_rms, "velocity_rms", "velocity", "nonnegative")
     limits = np.asarray(iso_velocity_zone_limits(group, support))
     return ["ABCD"[int(i)] for i in np.searchsorted(limits, v, side="right")]
+
+
+def support_class(lowest_natural_frequency: object, running_speed: object) -> SupportClass:
+    """Support class for the ISO vibration zones, from the model's own lowest mode.
+
+    Parameters
+    ----------
+    lowest_natural_frequency : float or pint.Quantity
+        Lowest natural frequency of the machine on its support in the direction
+        considered [Hz] (> 0).
+    running_speed : float or pint.Quantity
+        The highest running speed of continuous operation [rpm] (> 0): the main
+        excitation is 1x, and over a speed range the support must stay rigid
+        up to its top.
+
+    Returns
+    -------
+    {"rigid", "flexible"}
+        ``"rigid"`` when ``f_1 >= 1.25 N / 60``, ``"flexible"`` otherwise.
+
+    References
+    ----------
+    ISO 10816-3:2009, sec. 3.3 (support flexibility; now ISO 20816-3; from memory).
+
+    Examples
+    --------
+    >>> support_class(39.7, 1800.0), support_class(19.0, 3000.0)
+    ('rigid', 'flexible')
+    """
+    f1 = as_si(lowest_natural_frequency, "lowest_natural_frequency", "frequency", "positive")
+    n = as_si(running_speed, "running_speed", "speed", "positive")
+    return "rigid" if f1 >= RIGID_SUPPORT_RATIO * n / 60.0 else "flexible"
 
 
 def api_shaft_vibration_limit(speed: object) -> float:

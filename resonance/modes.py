@@ -30,9 +30,11 @@ from .errors import InputValueError
 from .inputs import as_si
 from .model import MatrixModel, matrix_model
 
-__all__ = ["Mode", "ModeSet", "is_proportional", "modal_properties", "modes"]
+__all__ = ["MODE_KINDS", "Mode", "ModeKind", "ModeSet", "is_proportional", "modal_properties", "modes"]
 
 ModeSource = Literal["model", "rotor", "measured", "user"]
+ModeKind = Literal["rotor-lateral", "structural", "torsional"]
+MODE_KINDS: tuple[ModeKind, ...] = ("rotor-lateral", "structural", "torsional")
 
 
 @dataclass(frozen=True)
@@ -56,6 +58,16 @@ class Mode:
     amplification_factor_override : float or None
         An AF known directly (for example measured by the half-power method);
         otherwise AF is ``1 / (2 zeta)``.
+    kind : {"rotor-lateral", "structural", "torsional"}
+        What vibrates: a rotor's lateral (whirl) mode, a mode of the machine
+        on its support or of the structure (the default), or a torsional mode
+        of a drive train. It selects the margin rule (:mod:`resonance.rules`).
+        A measured mode keeps the kind of what was measured; ``source`` says
+        it was measured.
+    af_source : str
+        Where the AF comes from, in words (for example ``"half-power of the
+        computed unbalance response"``). Defaults to ``"1/(2 zeta) of the
+        model's damping"``, or ``"given"`` with an override.
     """
 
     frequency: float
@@ -65,6 +77,8 @@ class Mode:
     shape: np.ndarray | None = field(default=None, repr=False, compare=False)
     whirl: Literal["forward", "backward"] | None = None
     amplification_factor_override: float | None = None
+    kind: ModeKind = "structural"
+    af_source: str = ""
 
     def __post_init__(self) -> None:
         # Quantities (for example ureg("2400 cpm")) become floats in the package convention.
@@ -83,6 +97,11 @@ class Mode:
         af = self.amplification_factor_override
         if af is not None and not (af >= 1.0):
             raise InputValueError(f"{self.label}: amplification factor {af!r}; expected a value >= 1")
+        if self.kind not in MODE_KINDS:
+            raise InputValueError(f"{self.label}: kind {self.kind!r}; expected one of {MODE_KINDS}")
+        if not self.af_source:
+            default = "given" if af is not None else "1/(2 zeta) of the model's damping"
+            object.__setattr__(self, "af_source", default)
 
     @property
     def amplification_factor(self) -> float:

@@ -19,15 +19,28 @@ from importlib import metadata
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
-from .margins import ApiLateralRule
-from .scenario import scenario_to_dict
+from ._version import __version__
+from .interference import FindingsTable, verdict_line
+from .scenario import RecordSpec, scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
 
 if TYPE_CHECKING:
     from .field.study import FieldStudyResult
 from .units import display_unit
 
-__all__ = ["CAUTION", "METHODS", "Record", "build_record", "write_json", "atomic_write"]
+__all__ = [
+    "CAUTION",
+    "METHODS",
+    "Record",
+    "atomic_write",
+    "basis_lines",
+    "build_record",
+    "header_lines",
+    "methods_used",
+    "record_head",
+    "software_versions",
+    "write_json",
+]
 
 CAUTION = (
     "Operating near an unverified resonance can fail shafts, bearings, couplings, welds and anchors by "
@@ -53,11 +66,28 @@ METHODS: tuple[tuple[str, str], ...] = (
         "Modal damping matrix C = M Phi diag(2 zeta w) Phi^T M",
         "R. W. Clough and J. Penzien, Dynamics of Structures, 2nd ed., 1993, sec. 12-5",
     ),
-    ("Amplification factor by the half-power method, AF = N_c / (N_2 - N_1)", "API RP 684, 2nd ed. (from memory)"),
     ("Separation margin from the operating speed range", "API RP 684, 2nd ed. (from memory)"),
     ("Residual unbalance U = G m / W", "ISO 21940-11:2016, eq. (2)"),
     ("Casing velocity zones A/B/C/D", "ISO 10816-3:2009 Table A.1 (now ISO 20816-3; from memory)"),
+    ("Support class from the lowest natural frequency", "ISO 10816-3:2009 sec. 3.3 (from memory)"),
 )
+
+_AF_REFERENCES = {
+    "half-power": "API RP 684, 2nd ed., half-power method AF = N_c / (N_2 - N_1) (from memory)",
+    "1/(2 zeta)": "S. S. Rao, Mechanical Vibrations, 6th ed., 2017, sec. 3.4 (Q = 1 / (2 zeta))",
+    "measured": "D. J. Ewins, Modal Testing, 2nd ed., 2000, ch. 4",
+}
+
+
+def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> list[dict[str, str]]:
+    """The methods of a record: the fixed ones, each margin rule as applied, each AF source as used."""
+    out = [{"method": m, "reference": r} for m, r in base]
+    for line in findings.rules_used():
+        out.append({"method": f"Required separation margin: {line}", "reference": line.split(" (", 1)[1].split(")")[0]})
+    for source in findings.af_sources():
+        reference = next((r for key, r in _AF_REFERENCES.items() if key in source), "as stated")
+        out.append({"method": f"Amplification factor: {source}", "reference": reference})
+    return out
 
 
 @dataclass(frozen=True)
@@ -68,9 +98,10 @@ class Record:
     text: str
 
 
-def _versions() -> dict[str, str]:
-    out = {"python": platform.python_version()}
-    for name in ("resonance", "numpy", "scipy", "pint", "plotly", "ipywidgets"):
+def software_versions() -> dict[str, str]:
+    """Versions of this package (from its one source) and of what it runs on."""
+    out = {"python": platform.python_version(), "resonance": __version__}
+    for name in ("numpy", "scipy", "pint", "plotly", "ipywidgets"):
         try:
             out[name] = metadata.version(name)
         except metadata.PackageNotFoundError:
@@ -80,32 +111,64 @@ def _versions() -> dict[str, str]:
 
 def _assumptions(result: StudyResult) -> list[str]:
     s = result.scenario
-    rule_note = (
-        "the API lateral rule: margin from the amplification factor, none needed for AF < 2.5"
-        if isinstance(s.rule, ApiLateralRule)
-        else f"{s.rule.name} ({s.rule.source})"
-    )
+    u_unit, u_factor = display_unit("unbalance", s.units)
+    motor = ""
+    if s.motor is not None:
+        motor = (
+            f"Motor on a drive ({s.motor.poles} poles, slip {s.motor.slip:g} taken constant): its electrical "
+            "frequencies follow the speed."
+            if s.motor.supply == "drive"
+            else f"Motor on the line at {s.motor.line_frequency:g} Hz: its electrical frequencies are fixed."
+        )
     return [
         "Linear model, small vibration, viscous damping; lumped masses with one translational degree of freedom each.",
-        f"Modal damping ratio {s.model.damping_ratio:g} on every mode, plus the discrete dashpots of the springs.",
+        f"Modal damping ratio {s.model.damping_ratio:g} on every mode (assumed), plus the discrete dashpots of the "
+        "springs; the AF of each structural mode is 1/(2 zeta) of that damping and is shown for information (the "
+        "flat rule does not use it).",
         "Support stiffness as given; it is the most uncertain input (see the what-if tolerance band).",
-        f"Unbalance {result.scenario.response.unbalance * 1e6:.4g} g mm at 1x ({s.response.basis}), "
+        f"Unbalance {s.response.unbalance * u_factor:.4g} {u_unit} at 1x ({s.response.basis}), "
         f"acting at '{s.response.force_at}'; response read at '{s.response.measure_at}'.",
         "Predicted vibration is the 1x unbalance response only (not a broadband overall value); "
         "velocity RMS = w X / sqrt(2).",
-        f"Required separation margin by {rule_note}.",
-        f"ISO 10816-3 group {s.vibration.group}, {s.vibration.support} support; zones "
-        f"{' and '.join(ACCEPTABLE_ZONES)} are taken as acceptable for long-term operation.",
+        *([motor] if motor else []),
+        f"Margin rules by scope: {s.rules.description}.",
+        f"ISO 10816-3 group {s.vibration.group}, {result.support_note(s.units)}. The zones judge broadband "
+        f"vibration measured on site: the predicted 1x value against them is an estimate, not a design margin; "
+        f"zones {' and '.join(ACCEPTABLE_ZONES)} are those for unrestricted long-term operation.",
     ]
 
 
+def record_head(
+    kind: str, title: str, source: str, sha256: str | None, revision: RecordSpec, created: _dt.datetime
+) -> dict[str, Any]:
+    """The opening fields of a record's data: format, title, time, software, scenario file and hash, revision."""
+    return {
+        "format": kind,
+        "title": title,
+        "created_utc": created.replace(microsecond=0).isoformat(),
+        "software": software_versions(),
+        "scenario_file": source,
+        "scenario_sha256": sha256,
+        "revision": {
+            "preparer": revision.preparer,
+            "checker": revision.checker,
+            "revision": revision.revision,
+            "date": revision.date,
+        },
+    }
+
+
 def header_lines(heading: str, title: str, description: str, data: dict[str, Any]) -> list[str]:
-    """The opening lines of a text record: title, description, file, time stamp, software."""
+    """The opening lines of a text record: title, description, file and hash, revision, time stamp, software."""
+    rev = data["revision"]
     return [
         f"{heading}: {title}",
         "=" * 78,
         *([description] if description else []),
         f"scenario file: {data['scenario_file']}",
+        f"scenario SHA-256: {data['scenario_sha256'] or 'none (scenario edited in memory, not read from a file)'}",
+        f"revision: {rev['revision'] or '-'}   date: {rev['date'] or '-'}   "
+        f"prepared by: {rev['preparer'] or '-'}   checked by: {rev['checker'] or '-'}",
         f"created: {data['created_utc']}",
         "software: " + ", ".join(f"{k} {v}" for k, v in data["software"].items()),
         "",
@@ -126,7 +189,10 @@ def basis_lines(data: dict[str, Any]) -> list[str]:
 
 def _text(result: StudyResult, data: dict[str, Any]) -> str:
     s = result.scenario
-    v_unit, v_factor = display_unit("velocity", s.units)
+    m_unit, m_factor = display_unit("mass", s.units)
+    k_unit, k_factor = display_unit("stiffness", s.units)
+    c_unit, c_factor = display_unit("damping", s.units)
+    f_unit, f_factor = display_unit("frequency", s.units)
     lines = header_lines("CALCULATION RECORD", s.title, s.description, data)
     lines += [
         "INPUTS",
@@ -134,37 +200,37 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
         + (
             f"; skip bands {', '.join(f'{a:g}-{b:g}' for a, b in s.speed.skip_bands)} rpm" if s.speed.skip_bands else ""
         ),
-        "  excitations: " + ", ".join(e.label for e in s.excitations),
-        "  masses: " + ", ".join(f"{m.name} {m.mass:g} kg" for m in s.model.masses),
+        "  excitations: " + ", ".join(f"{e.label} [{e.kind}]" for e in s.excitations),
+        "  masses: " + ", ".join(f"{m.name} {m.mass * m_factor:.5g} {m_unit}" for m in s.model.masses),
         "  springs: "
         + ", ".join(
-            f"{x.label} ({x.node_a}-{x.node_b}) {x.stiffness / 1e6:g} kN/mm"
-            + (f", {x.damping:g} N s/m" if x.damping else "")
+            f"{x.label} ({x.node_a}-{x.node_b}) {x.stiffness * k_factor:.5g} {k_unit}"
+            + (f", {x.damping * c_factor:.5g} {c_unit}" if x.damping else "")
             for x in s.model.springs
         ),
-        f"  margin rule: {s.rule.name} ({s.rule.source})",
+        f"  margin rules: {s.rules.description}",
         "",
         *basis_lines(data),
         "MODES",
         *(
-            f"  {m['label']}: {m['frequency_hz']:.2f} Hz ({m['frequency_hz'] * 60:.0f} cpm), damping ratio "
-            f"{m['damping_ratio']:.4f}, log dec. {m['log_decrement']:.3f}, AF {m['amplification_factor_text']}"
+            f"  {m['label']}: {m['frequency_hz'] * f_factor:.{2 if s.units == 'SI' else 0}f} {f_unit}, damping ratio "
+            f"{m['damping_ratio']:.4f}, log dec. {m['log_decrement']:.3f}, AF {m['amplification_factor_text']} "
+            f"({m['amplification_factor_source']})"
             for m in data["modes"]
         ),
         "",
         "FINDINGS (worst first)",
         result.findings.to_text(system=s.units),
         "",
-        "VIBRATION",
-        f"  peak 1x casing velocity {result.peak_velocity_rms * v_factor:.{3 if s.units == 'US' else 2}f} "
-        f"{v_unit} RMS at {result.peak_velocity_speed:.0f} rpm: ISO zone {result.zone}",
+        "VIBRATION (an estimate against a field acceptance criterion)",
+        f"  {result.vibration_line(s.units)}",
         "",
         *(
             ["FIELD VERIFICATION", *(f"  {line}" for line in data["field"]["summary"].splitlines()), ""]
             if "field" in data
             else []
         ),
-        f"VERDICT: {data['verdict']}",
+        "VERDICT:" + verdict_line(data["verdict"], result.findings).removeprefix("Verdict:"),
         "",
         "CAUTION",
         f"  {CAUTION}",
@@ -198,17 +264,16 @@ def build_record(
                 "log_decrement": m.log_decrement,
                 "amplification_factor": af if math.isfinite(af) else None,
                 "amplification_factor_text": "inf" if math.isinf(af) else f"{af:.1f}",
+                "amplification_factor_source": m.af_source,
+                "kind": m.kind,
             }
         )
+    s = result.scenario
     data: dict[str, Any] = {
-        "format": "resonance-record/1",
-        "title": result.scenario.title,
-        "created_utc": created.replace(microsecond=0).isoformat(),
-        "software": _versions(),
-        "scenario_file": result.scenario.source,
-        "scenario": scenario_to_dict(result.scenario),
+        **record_head("resonance-record/2", s.title, s.source, s.sha256, s.record, created),
+        "scenario": scenario_to_dict(s),
         "assumptions": _assumptions(result),
-        "methods": [{"method": m, "reference": r} for m, r in METHODS],
+        "methods": methods_used(METHODS, result.findings),
         "modes": modes,
         "findings": result.findings.to_records(),
         "vibration": {
@@ -216,8 +281,11 @@ def build_record(
             "at_speed_rpm": result.peak_velocity_speed,
             "zone": result.zone,
             "group": result.scenario.vibration.group,
-            "support": result.scenario.vibration.support,
+            "support_declared": result.scenario.vibration.support,
+            "support_computed": result.support_computed,
+            "support_used": result.support_used,
             "passed": result.vibration_passed,
+            "note": "predicted 1x against the zone boundaries: a field acceptance criterion, not a design margin",
         },
         "verdict": result.verdict,
         "cautions": CAUTION,
@@ -245,7 +313,8 @@ def build_record(
             "passed": field.passed,
             "summary": field.summary(),
         }
-        data["verdict"] = "PASS" if result.passed and field.passed else "FAIL"
+        if not field.passed:
+            data["verdict"] = "FAIL"
     return Record(data, _text(result, data))
 
 

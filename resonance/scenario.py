@@ -26,11 +26,23 @@ Example (see ``notebooks/scenarios/`` for complete files)::
     order = 1
 
     [[excitations]]
-    frequency = "100 Hz"
-    label = "2x line"
+    electrical = 2                  # twice the motor's electrical frequency (needs [motor])
+
+    [[excitations]]
+    frequency = "29.6 Hz"           # a fixed source
+    label = "cooling tower fan"
+
+    [motor]
+    supply = "drive"                # "drive": f_e follows the speed; "line": fixed at line_frequency
+    poles = 4
+    slip = 0.013                    # at the load of interest; 0 for a synchronous motor
+    # line_frequency = "50 Hz"      # for supply = "line"
 
     [margin]
-    rule = "api-lateral"            # or "flat-15", or a table (see below)
+    flat = 15                       # percent: structural modes, other orders, electrical and fixed sources
+    rule = "api-lateral"            # rotor lateral modes against 1x (the default); "flat-P" or a table
+    # torsional = 10                # percent, torsional modes (default 10, API 617 from memory)
+    # pairs = [{ mode = "structural", excitation = "fixed", rule = "flat-20" }]
 
     [model]
     damping_ratio = 0.04
@@ -50,11 +62,24 @@ Example (see ``notebooks/scenarios/`` for complete files)::
     [whatif]
     vary_springs = ["skid"]
     tolerance = 0.3
+
+    [record]                        # revision control of the calculation record (all optional)
+    preparer = "A. Engineer"
+    checker = "B. Reviewer"
+    revision = "B"
+    date = "2026-12-03"
+
+Margin rules are applied only where the trade applies them
+(:mod:`resonance.rules`): the rule named by ``margin.rule`` governs rotor
+lateral modes against 1x; ``margin.flat`` (a percentage, required whenever
+such a pair is checked) governs every structural mode and every other
+excitation. ``rule = "flat-P"`` without ``flat`` applies P % to every pair.
 """
 
 from __future__ import annotations
 
 import dataclasses
+import hashlib
 import os
 import sys
 from collections.abc import Mapping, Sequence
@@ -67,10 +92,18 @@ import tomli_w
 
 from .damping import modal_damping
 from .errors import InputTypeError, InputValueError
-from .excitations import Excitation, permissible_unbalance
+from .excitations import (
+    EXCITATION_KINDS,
+    Excitation,
+    drive_electrical,
+    line_frequency,
+    permissible_unbalance,
+)
 from .inputs import as_si
 from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from .model import GROUND, MatrixModel, Spring, lumped_model, matrix_model
+from .modes import MODE_KINDS
+from .rules import TORSIONAL_RULE, RuleSet, is_flat
 from .speed_range import OperatingRange, operating_range
 from .units import UNIT_SYSTEMS, UnitSystem, ureg
 
@@ -87,10 +120,13 @@ __all__ = [
     "ResponseSpec",
     "VibrationSpec",
     "WhatIfSpec",
+    "MotorSpec",
+    "RecordSpec",
     "Scenario",
     "parse_scenario",
     "load_scenario",
     "read_scenario_file",
+    "read_scenario_bytes",
     "scenario_to_dict",
     "save_scenario",
 ]
@@ -220,25 +256,74 @@ class WhatIfSpec:
 
 
 @dataclass(frozen=True)
+class MotorSpec:
+    """The driving motor, for its electrical excitations.
+
+    Attributes
+    ----------
+    supply : {"drive", "line"}
+        On a variable-speed drive (electrical frequency follows the speed) or
+        on the line (fixed at ``line_frequency``).
+    poles : int or None
+        Number of poles (drive supply).
+    slip : float
+        Slip at the load of interest [-] (drive supply; 0 for a synchronous motor).
+    line_frequency : float or None
+        Supply frequency [Hz] (line supply).
+    """
+
+    supply: str
+    poles: int | None
+    slip: float
+    line_frequency: float | None
+
+    def excitation(self, multiple: float, label: str | None = None) -> Excitation:
+        """The electrical excitation at ``multiple`` x the electrical frequency."""
+        if self.supply == "drive":
+            assert self.poles is not None  # validated with the supply
+            return drive_electrical(self.poles, self.slip, multiple, label)
+        assert self.line_frequency is not None
+        e = line_frequency(self.line_frequency, multiple)
+        return e if label is None else dataclasses.replace(e, label=label)
+
+
+@dataclass(frozen=True)
+class RecordSpec:
+    """Revision control of the record: who prepared and checked it, which revision, when (text as given)."""
+
+    preparer: str = ""
+    checker: str = ""
+    revision: str = ""
+    date: str = ""
+
+
+@dataclass(frozen=True)
 class Scenario:
-    """A validated scenario (see the module notes for the file format)."""
+    """A validated scenario (see the module notes for the file format).
+
+    ``sha256`` is the SHA-256 of the scenario file's bytes when it was loaded
+    from a file (None for a scenario built or edited in memory).
+    """
 
     title: str
     description: str
     units: UnitSystem
     speed: OperatingRange
     excitations: tuple[Excitation, ...]
-    rule: MarginRule
+    rules: RuleSet
     model: ModelSpec
     response: ResponseSpec
     vibration: VibrationSpec
     whatif: WhatIfSpec
     source: str = "<scenario>"
     field: Mapping[str, Any] | None = dataclasses.field(default=None, compare=False)
+    motor: MotorSpec | None = None
+    record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
+    sha256: str | None = dataclasses.field(default=None, compare=False)
 
     def replace(self, **changes: Any) -> Scenario:
-        """A copy with some fields changed (the original is untouched)."""
-        return dataclasses.replace(self, **changes)
+        """A copy with some fields changed (the original is untouched; the copy has no file hash)."""
+        return dataclasses.replace(self, **{"sha256": None, **changes})
 
     def with_speed(self, speed: OperatingRange) -> Scenario:
         """A copy with another speed range; a grade-based unbalance follows the new maximum speed."""
@@ -359,35 +444,123 @@ def _speed_table(speed: OperatingRange) -> dict[str, Any]:
     }
 
 
-def _excitation_table(e: Excitation) -> dict[str, Any]:
+def _excitation_table(e: Excitation, motor: MotorSpec | None = None) -> dict[str, Any]:
+    if e.kind == "electrical" and motor is not None:
+        base = motor.excitation(1.0)
+        multiple = (e.order / base.order) if e.order is not None else (e.frequency / base.frequency)  # type: ignore[operator]
+        if motor.excitation(multiple).label == e.label:
+            return {"electrical": multiple}
+        return {"electrical": multiple, "label": e.label}
     key = {"order": e.order} if e.order is not None else {"frequency": f"{e.frequency!r} Hz"}
     return {**key, "label": e.label}
 
 
-def _excitations(r: _Reader, items: list[Any]) -> tuple[Excitation, ...]:
+def _motor(r: _Reader, data: Mapping[str, Any]) -> MotorSpec | None:
+    if not data:
+        return None
+    r.known(data, ("supply", "poles", "slip", "line_frequency"), "motor")
+    supply = r.text(data, "supply", "motor.supply")
+    if supply == "drive":
+        if "line_frequency" in data:
+            raise r.fail("motor.line_frequency", "a drive-fed motor's frequency follows the speed; remove it")
+        poles = r.integer(data, "poles", "motor.poles")
+        if poles < 2 or poles % 2:
+            raise r.fail("motor.poles", f"got {poles!r}; expected an even whole number >= 2")
+        if "slip" not in data:
+            raise r.fail("motor.slip", "missing; expected the slip at the load of interest (0 for a synchronous motor)")
+        slip = r.value(data["slip"], "motor.slip", "ratio", "nonnegative")
+        if not slip < 0.2:
+            raise r.fail("motor.slip", f"got {slip:g}; expected a fraction below 0.2 (1.3 % slip is 0.013)")
+        return MotorSpec("drive", poles, slip, None)
+    if supply == "line":
+        for key in ("poles", "slip"):
+            if key in data:
+                raise r.fail(f"motor.{key}", "not used for a motor on the line; remove it")
+        f = r.quantity(data, "line_frequency", "motor.line_frequency", "frequency", "positive")
+        return MotorSpec("line", None, 0.0, f)
+    raise r.fail("motor.supply", f"got {supply!r}; expected 'drive' or 'line'")
+
+
+def _excitations(r: _Reader, items: list[Any], motor: MotorSpec | None = None) -> tuple[Excitation, ...]:
     out = []
+    keys = ("order", "frequency", "electrical")
     for i, item in enumerate(items):
         field = f"excitations[{i}]"
         if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table with order or frequency")
-        r.known(item, ("order", "frequency", "label"), field)
-        if ("order" in item) == ("frequency" in item):
-            raise r.fail(field, "give exactly one of order (multiple of running speed) or frequency (fixed)")
+            raise r.fail(field, f"got {item!r}; expected a table with order, frequency or electrical")
+        r.known(item, (*keys, "label"), field)
+        if sum(k in item for k in keys) != 1:
+            raise r.fail(
+                field,
+                "give exactly one of order (multiple of running speed), frequency (fixed) or electrical "
+                "(multiple of the motor's electrical frequency)",
+            )
+        label = r.text(item, "label", f"{field}.label", "") or None
         if "order" in item:
             order = r.value(item["order"], f"{field}.order", "ratio", "positive")
-            label = r.text(item, "label", f"{field}.label", f"{order:g}x")
-            out.append(Excitation(label, order=order))
-        else:
+            out.append(Excitation(label or f"{order:g}x", order=order))
+        elif "frequency" in item:
             frequency = r.value(item["frequency"], f"{field}.frequency", "frequency", "positive")
-            label = r.text(item, "label", f"{field}.label", f"{frequency:g} Hz")
-            out.append(Excitation(label, frequency=frequency))
+            out.append(Excitation(label or f"{frequency:g} Hz", frequency=frequency))
+        else:
+            if motor is None:
+                raise r.fail(f"{field}.electrical", "needs a [motor] table (supply, poles and slip, or line_frequency)")
+            multiple = r.value(item["electrical"], f"{field}.electrical", "ratio", "positive")
+            out.append(motor.excitation(multiple, label))
     if not out:
         raise r.fail("excitations", "empty; expected at least one excitation")
+    labels = [e.label for e in out]
+    repeated = sorted({x for x in labels if labels.count(x) > 1})
+    if repeated:
+        raise r.fail("excitations", f"label {repeated[0]!r} is used twice; expected distinct labels")
     return tuple(out)
 
 
+def _percent(r: _Reader, raw: Any, field: str) -> float:
+    # A percentage is a plain number: "15 %" text would be read by pint as 0.15.
+    if isinstance(raw, bool) or not isinstance(raw, (int, float)):
+        raise r.fail(field, f"got {raw!r}; expected a plain number of percent (for 15 % write 15)")
+    if not (0.0 < float(raw) < 100.0):
+        raise r.fail(field, f"got {raw!r}; expected a percentage between 0 and 100")
+    return float(raw)
+
+
+def _rules(r: _Reader, data: Mapping[str, Any]) -> RuleSet:
+    r.known(data, ("rule", "table", "name", "source", "flat", "torsional", "pairs"), "margin")
+    lateral = _rule(r, data)
+    flat: FlatRule | None = None
+    if "flat" in data:
+        flat = FlatRule(_percent(r, data["flat"], "margin.flat"))
+    elif is_flat(lateral):
+        flat = lateral  # type: ignore[assignment]  # rule = "flat-P": P % for every pair
+    torsional = TORSIONAL_RULE
+    if "torsional" in data:
+        percent = _percent(r, data["torsional"], "margin.torsional")
+        torsional = FlatRule(percent, name=f"torsional {percent:g} %", source=f"given in {r.source}")
+    overrides = []
+    for i, item in enumerate(r.array(data, "pairs", "margin.pairs", required=False)):
+        field = f"margin.pairs[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with mode, excitation and rule")
+        r.known(item, ("mode", "excitation", "rule"), field)
+        mode = r.text(item, "mode", f"{field}.mode")
+        if mode not in MODE_KINDS:
+            raise r.fail(f"{field}.mode", f"got {mode!r}; expected one of {list(MODE_KINDS)}")
+        excitation = r.text(item, "excitation", f"{field}.excitation")
+        if excitation not in EXCITATION_KINDS:
+            raise r.fail(f"{field}.excitation", f"got {excitation!r}; expected one of {list(EXCITATION_KINDS)}")
+        try:
+            rule = rule_by_name(r.text(item, "rule", f"{field}.rule"))
+        except InputValueError as error:
+            raise r.fail(f"{field}.rule", str(error).removeprefix("rule: ")) from None
+        overrides.append((mode, excitation, rule))
+    try:
+        return RuleSet(lateral, flat, torsional, tuple(overrides))  # type: ignore[arg-type]
+    except InputValueError as error:
+        raise r.fail("margin.pairs", str(error).split(": ", 1)[1]) from None
+
+
 def _rule(r: _Reader, data: Mapping[str, Any]) -> MarginRule:
-    r.known(data, ("rule", "table", "name", "source"), "margin")
     if "table" in data:
         table = r.table(data, "table", "margin.table")
         r.known(table, ("amplification_factors", "below", "above"), "margin.table")
@@ -499,7 +672,21 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     """
     r = _Reader(source)
     r.known(
-        data, ("scenario", "speed", "excitations", "margin", "model", "response", "vibration", "whatif", "field"), ""
+        data,
+        (
+            "scenario",
+            "speed",
+            "excitations",
+            "motor",
+            "margin",
+            "model",
+            "response",
+            "vibration",
+            "whatif",
+            "field",
+            "record",
+        ),
+        "",
     )
     field_table = r.table(data, "field", "field", required=False)
     title, description, units = _head(r, data)
@@ -534,24 +721,59 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     if not tolerance < 1.0:
         raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1 (0.3 is +/- 30 %)")
 
+    motor = _motor(r, r.table(data, "motor", "motor", required=False))
+    rules = _rules(r, r.table(data, "margin", "margin", required=False))
+    if rules.flat is None:
+        raise r.fail(
+            "margin.flat",
+            "missing; the modes of a machine on its support are kept a flat margin from every excitation: give "
+            "the percentage (10 to 20 % is common practice, no single source), e.g. flat = 15",
+        )
     return Scenario(
         title=title,
         description=description,
         units=units,
         speed=speed_range,
-        excitations=_excitations(r, r.array(data, "excitations", "excitations")),
-        rule=_rule(r, r.table(data, "margin", "margin", required=False)),
+        excitations=_excitations(r, r.array(data, "excitations", "excitations"), motor),
+        rules=rules,
         model=model,
         response=response,
         vibration=VibrationSpec(group, support),
         whatif=WhatIfSpec(vary_springs, vary_masses, tolerance),
         source=source,
         field=dict(field_table) if field_table else None,
+        motor=motor,
+        record=record_spec(r, r.table(data, "record", "record", required=False)),
     )
+
+
+def record_spec(r: _Reader, data: Mapping[str, Any]) -> RecordSpec:
+    """The ``[record]`` table: preparer, checker, revision and date, as text."""
+    r.known(data, ("preparer", "checker", "revision", "date"), "record")
+    values = {}
+    for key in ("preparer", "checker", "revision", "date"):
+        raw = data.get(key, "")
+        if hasattr(raw, "isoformat"):  # a TOML date
+            raw = raw.isoformat()
+        if not isinstance(raw, str):
+            raise r.fail(f"record.{key}", f"got {raw!r}; expected text")
+        values[key] = raw
+    return RecordSpec(**values)
 
 
 def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
     """The tables of a scenario file (TOML), unvalidated. The file is only read.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing or is not valid TOML.
+    """
+    return read_scenario_bytes(path)[0]
+
+
+def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], str]:
+    """The tables of a scenario file and the SHA-256 of the very bytes they were read from.
 
     Raises
     ------
@@ -564,7 +786,7 @@ def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
     except OSError as error:
         raise ScenarioError(f"{name}: cannot be read ({error.strerror})") from None
     try:
-        return tomllib.loads(raw.decode("utf-8"))
+        return tomllib.loads(raw.decode("utf-8")), hashlib.sha256(raw).hexdigest()
     except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
         raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
 
@@ -572,12 +794,28 @@ def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
 def load_scenario(path: str | os.PathLike[str]) -> Scenario:
     """Read and validate a scenario file (TOML). The file is only read.
 
+    The scenario keeps the SHA-256 of the file's bytes for the record.
+
     Raises
     ------
     ScenarioError
         The file is missing, is not valid TOML, or has an invalid field.
     """
-    return parse_scenario(read_scenario_file(path), Path(os.fspath(path)).name)
+    data, sha256 = read_scenario_bytes(path)
+    return parse_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
+
+
+def _rules_table(rules: RuleSet) -> dict[str, Any]:
+    out = _rule_table(rules.lateral_1x)
+    if rules.flat is not None:
+        out["flat"] = rules.flat.percent
+    if rules.torsional != TORSIONAL_RULE:
+        out["torsional"] = rules.torsional.percent
+    if rules.overrides:
+        out["pairs"] = [
+            {"mode": m, "excitation": e, "rule": _rule_table(rule)["rule"]} for m, e, rule in rules.overrides
+        ]
+    return out
 
 
 def _rule_table(rule: MarginRule) -> dict[str, Any]:
@@ -614,8 +852,9 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
         "speed": _speed_table(scenario.speed),
-        "excitations": [_excitation_table(e) for e in scenario.excitations],
-        "margin": _rule_table(scenario.rule),
+        "excitations": [_excitation_table(e, scenario.motor) for e in scenario.excitations],
+        **({"motor": _motor_table(scenario.motor)} if scenario.motor else {}),
+        "margin": _rules_table(scenario.rules),
         "model": {
             "damping_ratio": m.damping_ratio,
             "masses": [{"name": x.name, "mass": f"{x.mass!r} kg"} for x in m.masses],
@@ -637,7 +876,14 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
             "tolerance": scenario.whatif.tolerance,
         },
         **({"field": dict(scenario.field)} if scenario.field else {}),
+        **({"record": dataclasses.asdict(scenario.record)} if scenario.record != RecordSpec() else {}),
     }
+
+
+def _motor_table(motor: MotorSpec) -> dict[str, Any]:
+    if motor.supply == "drive":
+        return {"supply": "drive", "poles": motor.poles, "slip": motor.slip}
+    return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz"}
 
 
 def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: bool = False) -> Path:

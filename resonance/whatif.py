@@ -65,7 +65,7 @@ def check_scaled(scenario: Scenario, stiffness_scale: float = 1.0, mass_scale: f
     """The margin checks of the scaled model (no forced response: fast)."""
     model = scaled_model(scenario, stiffness_scale, mass_scale)
     modes = study_modes(modal_properties(model), model.labels)
-    return interference_check(modes, scenario.excitations, scenario.speed, scenario.rule)
+    return interference_check(modes, scenario.excitations, scenario.speed, scenario.rules)
 
 
 @dataclass(frozen=True)
@@ -228,7 +228,7 @@ def tolerance_check(
         model = scaled_model(scenario, float(s), mass_scale)
         modes = study_modes(modal_properties(model), model.labels)
         frequencies.append([m.frequency for m in modes])
-        tables.append(interference_check(modes, scenario.excitations, scenario.speed, scenario.rule))
+        tables.append(interference_check(modes, scenario.excitations, scenario.speed, scenario.rules))
     f = np.asarray(frequencies)
     bands = tuple((float(lo), float(hi)) for lo, hi in zip(f.min(axis=0), f.max(axis=0), strict=True))
     return ToleranceResult(tol, scales, bands, tuple(tables))

@@ -102,7 +102,7 @@ def test_output_over_the_scenario_is_refused(tmp_path, foundation_path, capsys):
     path = tmp_path / "s.toml"
     path.write_bytes(foundation_path.read_bytes())
     assert main(["check", str(path), "--json", str(path)]) == 2
-    assert "is the scenario file itself" in capsys.readouterr().err
+    assert "is an input file" in capsys.readouterr().err
     assert path.read_bytes() == foundation_path.read_bytes()
 
 

@@ -170,11 +170,17 @@ def test_measured_findings_use_the_same_rules(tmp_path):
     data = read_coastdown(write_coastdown(tmp_path / "cd.csv", speed, x))
     resonances = find_resonances(data, "ch")
     modes = measured_modes(resonances, fit_modes(data, "ch", [(1700.0, 0.05)], band=(800.0, 3000.0)))
-    table = measured_findings(modes, [R.running_speed_order(1)], R.operating_range(900.0, 1500.0))
+    table = measured_findings(modes, [R.running_speed_order(1)], R.operating_range(900.0, 1500.0), R.FlatRule(15.0))
     (finding,) = table
     assert finding.mode.source == "measured"
+    assert finding.mode.kind == "structural"
+    assert finding.mode.af_source == "measured: half-power of the coast-down"
     assert_allclose(finding.margin, R.separation_margin(resonances[0].speed, 900.0, 1500.0), rtol=1e-12)
-    assert_allclose(finding.required_margin, R.required_separation_margin(resonances[0].amplification_factor, "above"))
+    assert finding.required_margin == 15.0  # a structural mode: the flat rule, whatever the AF
+    # Measured on a shaft, the same resonance is a rotor lateral mode and the API rule applies (from memory).
+    rotor = measured_modes(resonances, None, kind="rotor-lateral")
+    (shaft,) = measured_findings(rotor, [R.running_speed_order(1)], R.operating_range(900.0, 1500.0))
+    assert_allclose(shaft.required_margin, R.required_separation_margin(resonances[0].amplification_factor, "above"))
 
 
 def simulate_impact(fs=512.0, length=4.0, hits=4, noise=0.0, seed=3):

@@ -19,7 +19,7 @@ SPEEDS = R.operating_range(1800.0, 3600.0)
 def test_single_finding_below_range_passes():
     # 25 Hz mode: 1x coincidence 1500 rpm, SM = 100 (1800 - 1500) / 1800 = 16.7 %;
     # AF 10 requires 17 (1 - 1/8.5) = 15.0 % below (API 617/684, from memory) -> pass.
-    mode = R.Mode(25.0, 0.05, "support lateral")
+    mode = R.Mode(25.0, 0.05, "rotor 1st lateral", kind="rotor-lateral")
     table = R.interference_check([mode], [R.running_speed_order(1)], SPEEDS)
     (finding,) = table
     assert finding.coincidence_speed == 1500.0
@@ -31,8 +31,10 @@ def test_single_finding_below_range_passes():
 
 
 def test_inside_range_fails_and_is_worst_first():
-    modes = [R.Mode(25.0, 0.05, "mode A"), R.Mode(45.0, 0.02, "mode B")]
-    table = R.interference_check(modes, [R.running_speed_order(1), R.running_speed_order(2)], SPEEDS)
+    modes = [R.Mode(25.0, 0.05, "mode A", kind="rotor-lateral"), R.Mode(45.0, 0.02, "mode B", kind="rotor-lateral")]
+    table = R.interference_check(
+        modes, [R.running_speed_order(1), R.running_speed_order(2)], SPEEDS, R.RuleSet(flat=R.FlatRule(15.0))
+    )
     assert not table.passed
     worst = table[0]
     # Mode B at 45 Hz: 1x coincidence 2700 rpm, mid-range: margin -100 * 900 / 3600 = -25 %.
@@ -44,12 +46,20 @@ def test_inside_range_fails_and_is_worst_first():
     assert all(not f.passed for f in table[: len(failed)])
 
 
-def test_critically_damped_mode_needs_no_margin():
-    # AF < 2.5: "critically damped", no margin required (API RP 684, from memory).
-    table = R.interference_check([R.Mode(40.0, 0.3, "damped")], [R.running_speed_order(1)], SPEEDS)
+def test_critically_damped_mode_needs_no_margin_but_is_never_a_plain_pass():
+    # AF < 2.5: "critically damped", no margin required (API RP 684, from memory); inside the range the
+    # finding shows as exempt and the verdict names it.
+    table = R.interference_check([R.Mode(40.0, 0.3, "damped", kind="rotor-lateral")], [R.running_speed_order(1)], SPEEDS)
     assert table[0].location == "inside"
     assert table[0].required_margin == 0.0
+    assert table[0].verdict == "EXEMPT"
+    assert "requires no separation margin for AF 1.67" in table[0].exemption
     assert table.passed
+    assert table.verdict == "PASS WITH EXEMPTION"
+    assert table.summary().startswith("PASS WITH EXEMPTION: 0 of 1 checks meet the required margin; 1 by exemption")
+    record = table.to_records()[0]
+    assert record["verdict"] == "EXEMPT"
+    assert record["exemption"].startswith("API lateral requires no separation margin")
 
 
 def test_fixed_frequency_source_and_flat_rule():
@@ -80,7 +90,7 @@ def test_skip_band_changes_the_verdict():
 
 
 def test_renderings_agree():
-    modes = [R.Mode(25.0, 0.05, "mode A"), R.Mode(45.0, 0.02, "mode B")]
+    modes = [R.Mode(25.0, 0.05, "mode A", kind="rotor-lateral"), R.Mode(45.0, 0.02, "mode B", kind="rotor-lateral")]
     table = R.interference_check(modes, [R.running_speed_order(1)], SPEEDS)
     text = table.to_text()
     assert text.splitlines()[0].startswith("mode")
@@ -93,7 +103,9 @@ def test_renderings_agree():
 
 def test_undamped_mode_has_infinite_af_and_max_requirement():
     # zeta = 0 -> AF = inf -> caps of 16 % below / 26 % above (API 617/684, from memory).
-    table = R.interference_check([R.Mode(100.0, 0.0, "undamped")], [R.running_speed_order(1)], SPEEDS)
+    table = R.interference_check(
+        [R.Mode(100.0, 0.0, "undamped", kind="rotor-lateral")], [R.running_speed_order(1)], SPEEDS
+    )
     assert table[0].required_margin == 26.0
     assert table[0].as_record()["amplification_factor"] is None
 

@@ -25,9 +25,12 @@ def test_single_mode_speed_range_changes_verdict(pump):
     f_n = panel.result.modes[0].frequency
     zeta = panel.result.modes[0].damping_ratio
     two_x = next(f for f in panel.result.findings if f.excitation.label == "2x")
-    # The 2x coincidence 60 f_n / 2 lies below 1450 rpm: SM per API RP 684, required per API 617.
+    # The 2x coincidence 60 f_n / 2 lies below 1450 rpm: SM per API RP 684 (from memory); a structural mode
+    # against 2x takes the scenario's flat 15 % (common practice), whatever its damping (zeta is not used).
+    assert zeta > 0.0
     assert_allclose(two_x.margin, R.separation_margin(60 * f_n / 2, 1450, 1800), rtol=1e-12)
-    assert_allclose(two_x.required_margin, R.required_separation_margin(1 / (2 * zeta), "below"), rtol=1e-9)
+    assert two_x.required_margin == 15.0
+    assert two_x.rule == "flat 15 %"
     assert panel.result.verdict == "PASS"
     assert "Verdict: PASS" in panel.verdict.value
     # The operating band drawn in the response figure moved with the slider.
@@ -69,7 +72,7 @@ def test_multi_mode_point_and_interference_markers(foundation):
     markers = panel.interference_fig.data[-1]
     failing = [f for f in panel.result.findings if not f.passed and f.coincidence_speed is not None]
     assert list(markers.marker.color).count("#d62828") == len(failing) >= 1
-    assert "mode 1 (machine)" in panel.modes_html.value
+    assert "mode 1 (machine with baseplate and block)" in panel.modes_html.value
 
 
 def test_what_if_stiffness_and_solver(foundation):

@@ -21,7 +21,8 @@ def test_demo_scenarios_load(pump, foundation):
     assert pump.speed.speed_min == 900.0
     assert [e.label for e in pump.excitations] == ["1x", "2x", "vane pass (5x)"]
     assert foundation.model.labels == ("machine", "baseplate", "block")
-    assert foundation.rule.name == "flat 15 %"
+    assert foundation.rules.flat.name == "flat 15 %"
+    assert foundation.rules.lateral_1x.name == "API lateral"
     # One mass on one spring: fn = sqrt(k/m) / 2 pi (Rao eq. 2.14).
     f1 = run_study(pump).modes[0].frequency
     assert_allclose(f1, math.sqrt(115e6 / 1850.0) / (2 * math.pi), rtol=1e-9)

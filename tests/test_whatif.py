@@ -12,6 +12,7 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
+import resonance as R
 from resonance.errors import InputValueError
 from resonance.modes import modal_properties
 from resonance.whatif import check_scaled, scaled_model, smallest_change, tolerance_check
@@ -48,7 +49,7 @@ def test_smallest_change_is_an_edge(foundation, parameter):
 
 
 def test_no_change_needed_and_none_possible(foundation, pump):
-    fine = foundation.replace(rule=foundation.rule.__class__(5.0))
+    fine = foundation.replace(rules=R.RuleSet(flat=R.FlatRule(5.0)))
     assert smallest_change(fine, "stiffness").scale == 1.0
     # The single-mode pump: 1x and 2x bands over a 2:1 range leave no gap within x0.25..x4 (checked above
     # by the tolerance band failing everywhere); the answer says so instead of inventing a factor.

@@ -38,7 +38,8 @@ from ..errors import InputValueError
 from ..excitations import Excitation
 from ..interference import FindingsTable, interference_check
 from ..margins import HalfPower, MarginRule, half_power_points
-from ..modes import Mode
+from ..modes import Mode, ModeKind
+from ..rules import RuleSet
 from ..speed_range import OperatingRange
 from .readers import CoastDown
 
@@ -281,16 +282,35 @@ def fit_modes(
     )
 
 
-def measured_modes(resonances: Sequence[Resonance], fit: ModalFit | None = None) -> list[Mode]:
-    """Measured modes for the checks: each confirmed resonance, with its half-power AF (or the fit's)."""
+def measured_modes(
+    resonances: Sequence[Resonance], fit: ModalFit | None = None, kind: ModeKind = "structural"
+) -> list[Mode]:
+    """Measured modes for the checks: each confirmed resonance, with its half-power AF (or the fit's).
+
+    Parameters
+    ----------
+    resonances : sequence of Resonance
+        From :func:`find_resonances`; only confirmed ones become modes.
+    fit : ModalFit, optional
+        The modal fit, whose damping (and AF, where the half-power points were
+        not resolved) is used.
+    kind : {"structural", "rotor-lateral", "torsional"}
+        What was measured (a casing or support: structural; a shaft probe:
+        rotor lateral); it selects the margin rule.
+    """
     out = []
     for i, res in enumerate(r for r in resonances if r.confirmed):
         af = res.amplification_factor
+        source = "measured: half-power of the coast-down"
         zeta = 0.5 / af if af else 0.05
         if fit is not None and fit.modes:
             nearest = min(fit.modes, key=lambda m: abs(m.speed - res.speed))
             zeta = nearest.damping_ratio
-            af = af if af is not None else nearest.amplification_factor
+            if af is None:
+                af = nearest.amplification_factor
+                source = "measured: 1/(2 zeta) of the coast-down modal fit"
+        elif af is None:
+            source = "not resolved by the coast-down (no half-power points); 1/(2 zeta) of an assumed 0.05"
         out.append(
             Mode(
                 res.speed / 60.0,
@@ -298,6 +318,8 @@ def measured_modes(resonances: Sequence[Resonance], fit: ModalFit | None = None)
                 f"measured {i + 1} at {res.speed:.0f} rpm",
                 "measured",
                 amplification_factor_override=None if af is None else max(af, 1.0),
+                kind=kind,
+                af_source=source,
             )
         )
     return out
@@ -307,7 +329,7 @@ def measured_findings(
     modes: Sequence[Mode],
     excitations: Sequence[Excitation],
     speed_range: OperatingRange,
-    rule: MarginRule | None = None,
+    rules: RuleSet | MarginRule | None = None,
 ) -> FindingsTable:
-    """The interference check of measured modes (the same rules as the model checks)."""
-    return interference_check(list(modes), list(excitations), speed_range, rule)
+    """The interference check of measured modes (the same rules, in the same scopes, as the model checks)."""
+    return interference_check(list(modes), list(excitations), speed_range, rules)

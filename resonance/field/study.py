@@ -216,9 +216,8 @@ def run_field_study(
             fit = fit_modes(data, channel, initial, band)
         except InputValueError:
             fit = None
-    orders = [e for e in scenario.excitations if e.order is not None]
     modes = measured_modes(resonances, fit)
-    findings = measured_findings(modes, orders, scenario.speed, scenario.rule) if modes and orders else None
+    findings = measured_findings(modes, scenario.excitations, scenario.speed, scenario.rules) if modes else None
     frf: Frf | None = None
     poles: tuple[Pole, ...] = ()
     stable: tuple[Pole, ...] = ()

@@ -146,7 +146,16 @@ class RotorModes:
     def to_modes(self, prefix: str = "rotor mode") -> list[Mode]:
         """The modes as :class:`~resonance.modes.Mode` (source ``"rotor"``, with whirl)."""
         return [
-            Mode(float(f), float(z), f"{prefix} {i + 1} ({w[0].upper()}W)", "rotor", self.shapes[:, i], w)
+            Mode(
+                float(f),
+                float(z),
+                f"{prefix} {i + 1} ({w[0].upper()}W)",
+                "rotor",
+                self.shapes[:, i],
+                w,
+                kind="rotor-lateral",
+                af_source="1/(2 zeta) of the rotor model's damping",
+            )
             for i, (f, z, w) in enumerate(zip(self.frequency, self.damping_ratio, self.whirl, strict=True))
         ]
 
@@ -379,6 +388,8 @@ class CriticalSpeed:
             f"branch {self.branch + 1} ({self.whirl[0].upper()}W) at {self.speed:.0f} rpm",
             "rotor",
             whirl=self.whirl,
+            kind="rotor-lateral",
+            af_source="1/(2 zeta) of the rotor model's damping at the critical",
         )
 
 

@@ -5,7 +5,8 @@ from __future__ import annotations
 import datetime as _dt
 from typing import Any
 
-from ..record import CAUTION, Record, _versions, basis_lines, header_lines
+from ..interference import verdict_line
+from ..record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
 from ..units import display_unit
 from .scenario import rotor_scenario_to_dict
 from .study import RotorStudyResult
@@ -22,16 +23,14 @@ ROTOR_METHODS: tuple[tuple[str, str], ...] = (
         "M. I. Friswell et al., Dynamics of Rotating Machines, Cambridge, 2010, ch. 3-6",
     ),
     ("Undamped critical speed map (synchronous forward whirl)", "API RP 684, 2nd ed. (from memory)"),
-    (
-        "Unbalance response; AF by the half-power method on the response; separation margin and required margin",
-        "API Std 617 8th ed. / API RP 684 2nd ed. (from memory)",
-    ),
+    ("Unbalance response; separation margin from the operating speed range", "API RP 684 2nd ed. (from memory)"),
     ("Shaft vibration limit 25.4 sqrt(12000 / N) um pk-pk, not above 25.4 um", "API Std 617, 8th ed. (from memory)"),
 )
 
 
 def _assumptions(result: RotorStudyResult) -> list[str]:
     s = result.scenario
+    u_unit, u_factor = display_unit("unbalance", s.units)
     return [
         "Linear rotor-bearing model: lateral motion in two planes, rigid discs, bearings as linear springs and "
         "dashpots (coefficients interpolated over speed where tabulated); foundation rigid unless a pedestal is given.",
@@ -40,10 +39,10 @@ def _assumptions(result: RotorStudyResult) -> list[str]:
         "1x criticals take their AF from the half-power points of the unbalance response at the probe that "
         "responds most; other criticals take 1 / (2 zeta) from the modal damping.",
         "Unbalance: "
-        + ", ".join(f"{u.amount * 1e6:.4g} g mm at station {u.station}" for u in s.unbalances(result.rotor))
+        + ", ".join(f"{u.amount * u_factor:.4g} {u_unit} at station {u.station}" for u in s.unbalances(result.rotor))
         + "; "
         "predicted vibration is the orbit's major axis, peak-to-peak, at the probe stations.",
-        f"Required separation margin by {s.rule.name} ({s.rule.source}).",
+        f"Margin rules by scope: {s.rules.description}.",
         "A negative log decrement of any tracked mode up to the maximum continuous speed fails the check.",
     ]
 
@@ -53,16 +52,14 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
     created = created or _dt.datetime.now(_dt.timezone.utc)
     s = result.scenario
     d_unit, d_factor = display_unit("displacement", s.units)
+    l_unit, l_factor = display_unit("length", s.units)
+    m_unit, m_factor = display_unit("mass", s.units)
     digits = 1 if s.units == "SI" else 2
     data: dict[str, Any] = {
-        "format": "resonance-rotor-record/1",
-        "title": s.title,
-        "created_utc": created.replace(microsecond=0).isoformat(),
-        "software": _versions(),
-        "scenario_file": s.source,
+        **record_head("resonance-rotor-record/2", s.title, s.source, s.sha256, s.record, created),
         "scenario": rotor_scenario_to_dict(s),
         "assumptions": _assumptions(result),
-        "methods": [{"method": m, "reference": r} for m, r in ROTOR_METHODS],
+        "methods": methods_used(ROTOR_METHODS, result.findings),
         "critical_speeds": [
             {
                 "order": c.order,
@@ -90,11 +87,12 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         "INPUTS",
         f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm; sweep to {s.sweep_max:g} rpm",
         f"  shaft: {len(s.sections)} sections, {result.rotor.nodes - 1} elements, "
-        f"{result.rotor.node_z[-1]:.3f} m long; discs: "
-        + (", ".join(f"{d.label} {d.mass:g} kg at station {d.station}" for d in s.discs) or "none"),
+        f"{result.rotor.node_z[-1] * l_factor:.4g} {l_unit} long; discs: "
+        + (", ".join(f"{d.label} {d.mass * m_factor:.5g} {m_unit} at station {d.station}" for d in s.discs) or "none"),
         "  bearings: "
         + ", ".join(f"{b.label} at station {b.station}" + (" (speed table)" if b.speeds else "") for b in s.bearings),
-        f"  margin rule: {s.rule.name} ({s.rule.source})",
+        f"  excitations: {', '.join(f'{e.label} [{e.kind}]' for e in s.excitations)}",
+        f"  margin rules: {s.rules.description}",
         "",
         *basis_lines(data),
         "CRITICAL SPEEDS (forward whirl)",
@@ -115,7 +113,7 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         f"  {result.peak_vibration * d_factor:.{digits}f} {d_unit} pk-pk at {result.peak_vibration_speed:.0f} rpm; "
         f"API limit {result.vibration_limit * d_factor:.{digits}f} {d_unit}",
         "",
-        f"VERDICT: {result.verdict}",
+        "VERDICT:" + verdict_line(result.verdict, result.findings).removeprefix("Verdict:"),
         "",
         "CAUTION",
         f"  {CAUTION}",

@@ -40,17 +40,22 @@ import numpy as np
 
 from ..errors import InputValueError
 from ..excitations import Excitation, permissible_unbalance
-from ..margins import MarginRule
+from ..rules import RuleSet
 from ..scenario import (
+    MotorSpec,
+    RecordSpec,
     _excitation_table,
     _excitations,
     _head,
+    _motor,
+    _motor_table,
     _Reader,
-    _rule,
-    _rule_table,
+    _rules,
+    _rules_table,
     _speed,
     _speed_table,
-    read_scenario_file,
+    read_scenario_bytes,
+    record_spec,
 )
 from ..speed_range import OperatingRange
 from ..units import UnitSystem
@@ -81,7 +86,7 @@ class RotorScenario:
     units: UnitSystem
     speed: OperatingRange
     excitations: tuple[Excitation, ...]
-    rule: MarginRule
+    rules: RuleSet
     sections: tuple[ShaftSection, ...]
     discs: tuple[Disc, ...]
     bearings: tuple[Bearing, ...]
@@ -90,10 +95,13 @@ class RotorScenario:
     sweep_max: float
     modes: int
     source: str = "<rotor scenario>"
+    motor: MotorSpec | None = None
+    record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
+    sha256: str | None = dataclasses.field(default=None, compare=False)
 
     def replace(self, **changes: Any) -> RotorScenario:
-        """A copy with some fields changed."""
-        return dataclasses.replace(self, **changes)
+        """A copy with some fields changed (the copy has no file hash)."""
+        return dataclasses.replace(self, **{"sha256": None, **changes})
 
     def build(self, stiffness_scale: float = 1.0, damping_scale: float = 1.0) -> Rotor:
         """The assembled rotor, with every bearing's stiffness and damping scaled by the factors."""
@@ -198,9 +206,10 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         Any missing, unknown or invalid field; the message names ``source`` and the field.
     """
     r = _Reader(source)
-    r.known(data, ("scenario", "speed", "excitations", "margin", "rotor"), "")
+    r.known(data, ("scenario", "speed", "excitations", "motor", "margin", "rotor", "record"), "")
     title, description, units = _head(r, data)
     speed = _speed(r, r.table(data, "speed", "speed"))
+    motor = _motor(r, r.table(data, "motor", "motor", required=False))
     rotor = r.table(data, "rotor", "rotor")
     r.known(rotor, ("sweep_max", "modes", "probes", "sections", "discs", "bearings", "unbalance"), "rotor")
     sections = []
@@ -266,8 +275,8 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         description,
         units,
         speed,
-        _excitations(r, r.array(data, "excitations", "excitations")),
-        _rule(r, r.table(data, "margin", "margin", required=False)),
+        _excitations(r, r.array(data, "excitations", "excitations"), motor),
+        _rules(r, r.table(data, "margin", "margin", required=False)),
         tuple(sections),
         tuple(discs),
         tuple(bearings),
@@ -276,7 +285,16 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         sweep_max,
         modes,
         source,
+        motor,
+        record_spec(r, r.table(data, "record", "record", required=False)),
     )
+    others = [e.label for e in scenario.excitations if e.kind != "synchronous"]
+    if others and scenario.rules.flat is None:
+        raise r.fail(
+            "margin.flat",
+            f"missing; {others[0]!r} is not 1x, and rotor modes are kept a flat margin from every source other than "
+            "1x: give the percentage (10 to 20 % is common practice, no single source), e.g. flat = 15",
+        )
     try:
         built = scenario.build()
         for station in (*probes, *(u.station for u in unbalance)):
@@ -345,8 +363,10 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
         "speed": _speed_table(scenario.speed),
-        "excitations": [_excitation_table(e) for e in scenario.excitations],
-        "margin": _rule_table(scenario.rule),
+        "excitations": [_excitation_table(e, scenario.motor) for e in scenario.excitations],
+        **({"motor": _motor_table(scenario.motor)} if scenario.motor else {}),
+        "margin": _rules_table(scenario.rules),
+        **({"record": dataclasses.asdict(scenario.record)} if scenario.record != RecordSpec() else {}),
         "rotor": {
             "sweep_max": f"{scenario.sweep_max!r} rpm",
             "modes": scenario.modes,
@@ -379,4 +399,5 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
 
 def load_rotor_scenario(path: str | os.PathLike[str]) -> RotorScenario:
     """Read and validate a rotor scenario file (TOML). The file is only read."""
-    return parse_rotor_scenario(read_scenario_file(path), Path(os.fspath(path)).name)
+    data, sha256 = read_scenario_bytes(path)
+    return parse_rotor_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)

@@ -17,6 +17,7 @@ API Std 617, 8th ed., 2014, and API RP 684, 2nd ed., 2005 (from memory).
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 
@@ -24,7 +25,7 @@ import numpy as np
 
 from ..errors import InputValueError
 from ..excitations import Excitation
-from ..interference import FindingsTable, interference_check
+from ..interference import FindingsTable, interference_check, verdict_line, verdict_of
 from ..limits import api_shaft_vibration_limit
 from ..margins import HalfPower, half_power_points
 from ..modes import Mode
@@ -117,8 +118,8 @@ class RotorStudyResult:
 
     @property
     def verdict(self) -> str:
-        """``"PASS"`` or ``"FAIL"``."""
-        return "PASS" if self.passed else "FAIL"
+        """``"PASS"``, ``"PASS WITH EXEMPTION"`` or ``"FAIL"``."""
+        return verdict_of(self.passed, self.findings)
 
     def summary(self, system: UnitSystem = "SI") -> str:
         """Four lines: verdict, margins, stability, vibration."""
@@ -132,7 +133,7 @@ class RotorStudyResult:
             f"{self.unstable[0][0]:.0f} rpm (branch {self.unstable[0][1] + 1})"
         )
         return (
-            f"Verdict: {self.verdict}\n"
+            f"{verdict_line(self.verdict, self.findings)}\n"
             f"Forward critical speeds: {criticals}\n"
             f"Margins: {self.findings.summary() if len(self.findings) else 'no critical speed to check'}\n"
             f"Stability: {stability}\n"
@@ -143,10 +144,15 @@ class RotorStudyResult:
 
 
 def _order_excitations(scenario: RotorScenario) -> list[Excitation]:
-    orders = [e for e in scenario.excitations if e.order is not None]
-    if not orders:
-        raise InputValueError("excitations: a rotor check needs at least one order of running speed (1x)")
-    return orders
+    fixed = [e.label for e in scenario.excitations if e.order is None]
+    if fixed:
+        # Never drop a source silently: a fixed frequency against speed-dependent whirl branches is not
+        # a coincidence speed, and this flow does not check it.
+        raise InputValueError(
+            f"excitations: {fixed[0]!r} has a fixed frequency; the rotor flow checks sources that follow the "
+            "speed (orders, drive-fed electrical frequencies); check fixed sources in a support scenario"
+        )
+    return list(scenario.excitations)
 
 
 def run_rotor_study(
@@ -174,7 +180,7 @@ def run_rotor_study(
         found = []
         for c in (c for c in criticals if c.order == excitation.order):
             hp = None
-            if c.order == 1.0:
+            if excitation.kind == "synchronous":
                 try:
                     hp = half_power_points(speeds, amplitude[:, probe], near=c.speed)
                 except InputValueError:
@@ -184,18 +190,15 @@ def run_rotor_study(
                 analysed.append((c, hp))
             mode = c.to_mode()
             if hp is not None:
-                mode = Mode(
-                    mode.frequency,
-                    mode.damping_ratio,
-                    mode.label,
-                    "rotor",
-                    whirl=mode.whirl,
+                mode = dataclasses.replace(
+                    mode,
                     amplification_factor_override=max(1.0, hp.amplification_factor),
+                    af_source="half-power of the computed unbalance response",
                 )
             found.append(mode)
         modes += found
         if found:
-            tables.append(interference_check(found, [excitation], scenario.speed, scenario.rule))
+            tables.append(interference_check(found, [excitation], scenario.speed, scenario.rules))
     running = np.concatenate([np.flatnonzero((speeds >= a) & (speeds <= b)) for a, b in scenario.speed.intervals])
     if running.size == 0:
         running = np.array([int(np.argmin(np.abs(speeds - scenario.speed.speed_max)))])

@@ -94,9 +94,9 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
     h_unit, h_factor = display_unit("receptance", system)
     pk_pk = 2.0 * result.displacement * d_factor
     clear = [
-        clear_band(f.coincidence_speed, result.scenario.rule, f.mode.amplification_factor)
+        clear_band(f.coincidence_speed, f.margin_rule, f.mode.amplification_factor)
         for f in result.findings
-        if f.excitation.order == 1.0 and f.coincidence_speed is not None
+        if f.excitation.kind == "synchronous" and f.coincidence_speed is not None and f.margin_rule is not None
     ]
     shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2, 3))
     shapes += _vertical_bands(clear, CLEAR_BAND, (1, 2, 3))
@@ -165,7 +165,9 @@ def update_interference_figure(
         if finding.coincidence_speed is None:
             continue
         n_c, f_n = finding.coincidence_speed, finding.mode.frequency * f_factor
-        low, high = clear_band(n_c, result.scenario.rule, finding.mode.amplification_factor)
+        if finding.margin_rule is None:
+            continue
+        low, high = clear_band(n_c, finding.margin_rule, finding.mode.amplification_factor)
         shapes.append(
             {
                 "type": "rect",

@@ -25,6 +25,17 @@ table{border-collapse:collapse;font-size:90%;margin:8px 0}td,th{border:1px solid
 tr.fail td{background:#fde2e2}tr.pass td{background:#e6f4ea}.caution{background:#fff4e0;border-left:6px solid #e08a00;
 padding:8px 12px}.verdict{font-size:120%;font-weight:bold}
 pre{background:#f6f6f6;padding:8px;overflow-x:auto;font-size:85%}
+tr.exempt td{background:#fff4e0}table.revision td{min-width:9em}
+@media print{
+@page{size:A4;margin:15mm 12mm 18mm 12mm}
+body{max-width:none;margin:0;padding:0;font-size:10pt;color:#000}
+h1{font-size:15pt}h2{font-size:12pt;break-after:avoid;page-break-after:avoid}
+table,pre,.caution,.verdict,.js-plotly-plot,.plotly-graph-div{break-inside:avoid;page-break-inside:avoid}
+pre{white-space:pre-wrap;word-break:break-word;font-size:7.5pt;background:none;border:1px solid #999}
+table{font-size:8pt}
+tr.fail td,tr.pass td,tr.exempt td,.caution{-webkit-print-color-adjust:exact;print-color-adjust:exact}
+.plotly-graph-div{max-width:100%}.modebar-container{display:none}
+}
 """
 
 
@@ -33,15 +44,34 @@ def _page(
 ) -> str:
     """A self-contained page: caution, verdict, findings, tables, figures (plotly.js inline once), record."""
     plots = [fig.to_html(full_html=False, include_plotlyjs=(i == 0)) for i, fig in enumerate(figures)]
-    verdict_colour = "#2a9d4b" if passed else "#d62828"
     data = record.data
+    verdict = str(data["verdict"])
+    verdict_colour = "#d62828" if verdict == "FAIL" else ("#b36b00" if verdict != "PASS" else "#2a9d4b")
+    rev = data["revision"]
+    revision = (
+        '<table class="revision"><tr><th>revision</th><th>date</th><th>prepared by</th><th>checked by</th>'
+        "<th>scenario file</th><th>scenario SHA-256</th></tr><tr>"
+        + "".join(
+            f"<td>{html.escape(str(v or '-'))}</td>"
+            for v in (
+                rev["revision"],
+                rev["date"],
+                rev["preparer"],
+                rev["checker"],
+                data["scenario_file"],
+                data["scenario_sha256"] or "none (edited in memory)",
+            )
+        )
+        + "</tr></table>"
+    )
     extra = "".join(f"<h2>{html.escape(heading)}</h2>{body}" for heading, body in tables)
     return f"""<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>{html.escape(title)}</title>
 <style>{_STYLE}</style></head><body>
 <h1>{html.escape(title)}</h1>
+{revision}
 <p class="caution"><b>Caution.</b> {html.escape(CAUTION)}</p>
-<p class="verdict" style="color:{verdict_colour}">Verdict: {"PASS" if passed else "FAIL"}</p>
+<p class="verdict" style="color:{verdict_colour}">Verdict: {html.escape(verdict)}</p>
 <pre>{html.escape(summary)}</pre>
 <h2>Findings (worst first)</h2>{findings}
 {extra}

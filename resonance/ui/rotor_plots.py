@@ -116,9 +116,9 @@ def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, syste
     response = result.response
     n = len(result.scenario.probes)
     clear = [
-        clear_band(f.coincidence_speed, result.scenario.rule, f.mode.amplification_factor)
+        clear_band(f.coincidence_speed, f.margin_rule, f.mode.amplification_factor)
         for f in result.findings
-        if f.excitation.order == 1.0 and f.coincidence_speed is not None
+        if f.excitation.kind == "synchronous" and f.coincidence_speed is not None and f.margin_rule is not None
     ]
     with fig.batch_update():
         for j in range(n):

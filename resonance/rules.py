@@ -1,0 +1,190 @@
+"""Which margin rule applies to which pair of mode and excitation: every rule within its scope.
+
+A margin rule is written for a purpose, and the trade applies it only there:
+
+* the amplification-factor rule of API 617 / API RP 684 (with its exemption
+  for ``AF < 2.5``) governs the **lateral critical speeds of a rotor against
+  its running speed (1x)**;
+* supports, foundations and structures, every other order of running speed
+  (2x, blade or vane pass, gear mesh), the motor's electrical frequencies and
+  fixed-frequency sources are kept a **flat** margin away, the same on both
+  sides and taken in frequency (10 to 20 % is common practice, with no single
+  source: the scenario gives the value);
+* torsional natural frequencies are kept at least 10 % from every excitation
+  in the operating range (API Std 617 / API RP 684, from memory).
+
+A :class:`RuleSet` holds these choices, with per-pair overrides; a rule that
+depends on the amplification factor is refused for any pair outside its scope.
+
+References
+----------
+.. [1] API Std 617, *Axial and Centrifugal Compressors and Expander-compressors*,
+   8th ed., 2014, sec. 2.6 (lateral and torsional analyses; from memory).
+.. [2] API RP 684, *Rotordynamic Tutorial*, 2nd ed., 2005 (from memory).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from .errors import InputTypeError, InputValueError
+from .excitations import EXCITATION_KINDS, ExcitationKind
+from .margins import ApiLateralRule, FlatRule, MarginRule
+from .modes import MODE_KINDS, ModeKind
+
+__all__ = ["TORSIONAL_RULE", "RuleSet", "ScopedRule", "as_rule_set", "is_flat", "scope_words"]
+
+#: The torsional separation rule: 10 % from every excitation (API Std 617 / RP 684, from memory).
+TORSIONAL_RULE = FlatRule(10.0, name="torsional 10 %", source="API Std 617 8th ed. / API RP 684 2nd ed. (from memory)")
+
+_MODE_WORDS = {"rotor-lateral": "rotor lateral mode", "structural": "structural mode", "torsional": "torsional mode"}
+_EXCITATION_WORDS = {
+    "synchronous": "1x",
+    "order": "another order of running speed",
+    "electrical": "an electrical frequency",
+    "fixed": "a fixed-frequency source",
+}
+
+
+def is_flat(rule: MarginRule) -> bool:
+    """True for a rule that requires the same margin whatever the damping and side (a flat rule)."""
+    return isinstance(rule, FlatRule)
+
+
+def scope_words(mode_kind: ModeKind, excitation_kind: ExcitationKind) -> str:
+    """The pair in words, e.g. ``"structural mode against 1x"``.
+
+    Examples
+    --------
+    >>> scope_words("rotor-lateral", "synchronous")
+    'rotor lateral mode against 1x'
+    """
+    return f"{_MODE_WORDS[mode_kind]} against {_EXCITATION_WORDS[excitation_kind]}"
+
+
+@dataclass(frozen=True)
+class ScopedRule:
+    """The rule chosen for one pair, and why.
+
+    Attributes
+    ----------
+    rule : MarginRule
+        The rule applied.
+    scope : str
+        The pair it was chosen for, in words.
+    basis : str
+        Why this rule: the default for the pair, or the scenario's override.
+    """
+
+    rule: MarginRule
+    scope: str
+    basis: str
+
+
+@dataclass(frozen=True)
+class RuleSet:
+    """The margin rule for every pair of mode kind and excitation kind.
+
+    Attributes
+    ----------
+    lateral_1x : MarginRule
+        Rotor lateral modes against 1x: the API lateral rule unless chosen
+        otherwise (a flat rule or a table of required margin against AF).
+    flat : FlatRule or None
+        Every other pair of a rotor lateral or structural mode: structural
+        modes against every excitation, rotor modes against other orders,
+        electrical and fixed sources. None when the scenario gives none; a
+        check that needs it then fails naming the missing value.
+    torsional : FlatRule
+        Torsional modes against every excitation (10 %, API 617, from memory).
+    overrides : tuple of (mode kind, excitation kind, MarginRule)
+        Pairs with a rule of their own; rules that depend on the AF are
+        allowed only for rotor lateral modes against 1x.
+
+    Examples
+    --------
+    >>> rules = RuleSet(flat=FlatRule(15.0))
+    >>> rules.rule_for("structural", "synchronous").rule.name
+    'flat 15 %'
+    >>> rules.rule_for("rotor-lateral", "synchronous").rule.name
+    'API lateral'
+    """
+
+    lateral_1x: MarginRule = field(default_factory=ApiLateralRule)
+    flat: FlatRule | None = None
+    torsional: FlatRule = TORSIONAL_RULE
+    overrides: tuple[tuple[ModeKind, ExcitationKind, MarginRule], ...] = ()
+
+    def __post_init__(self) -> None:
+        if self.flat is not None and not is_flat(self.flat):
+            raise InputTypeError(f"flat: got {type(self.flat).__name__}; expected a FlatRule (a percentage)")
+        if not is_flat(self.torsional):
+            raise InputTypeError(f"torsional: got {type(self.torsional).__name__}; expected a FlatRule")
+        for i, (mode_kind, excitation_kind, rule) in enumerate(self.overrides):
+            if mode_kind not in MODE_KINDS:
+                raise InputValueError(f"overrides[{i}]: mode kind {mode_kind!r}; expected one of {MODE_KINDS}")
+            if excitation_kind not in EXCITATION_KINDS:
+                raise InputValueError(
+                    f"overrides[{i}]: excitation kind {excitation_kind!r}; expected one of {EXCITATION_KINDS}"
+                )
+            if not is_flat(rule) and (mode_kind, excitation_kind) != ("rotor-lateral", "synchronous"):
+                raise InputValueError(
+                    f"overrides[{i}]: {rule.name!r} depends on the amplification factor, which the trade applies "
+                    f"only to rotor lateral modes against 1x, not to a {scope_words(mode_kind, excitation_kind)}; "
+                    "expected a flat percentage"
+                )
+
+    def rule_for(self, mode_kind: ModeKind, excitation_kind: ExcitationKind) -> ScopedRule:
+        """The rule for one pair, with its scope and basis.
+
+        Raises
+        ------
+        InputValueError
+            The pair needs the flat margin and none was given.
+        """
+        scope = scope_words(mode_kind, excitation_kind)
+        for m, e, rule in self.overrides:
+            if (m, e) == (mode_kind, excitation_kind):
+                return ScopedRule(rule, scope, "override for this pair")
+        if mode_kind == "torsional":
+            return ScopedRule(self.torsional, scope, "torsional rule")
+        if (mode_kind, excitation_kind) == ("rotor-lateral", "synchronous"):
+            return ScopedRule(self.lateral_1x, scope, "rotor lateral rule at 1x")
+        if self.flat is None:
+            raise InputValueError(
+                f"flat: missing; a {scope} needs a flat separation margin in percent "
+                "(10 to 20 % is common practice, no single source): give margin.flat in the scenario"
+            )
+        return ScopedRule(self.flat, scope, "flat margin, in frequency, the same on both sides")
+
+    @property
+    def description(self) -> str:
+        """The rules in words, one clause per scope."""
+        parts = [f"rotor lateral modes against 1x: {self.lateral_1x.name} ({self.lateral_1x.source})"]
+        if self.flat is not None:
+            parts.append(
+                f"structural modes, other orders, electrical and fixed sources: {self.flat.name} "
+                f"({self.flat.source}), in frequency, both sides"
+            )
+        parts.append(f"torsional modes: {self.torsional.name} ({self.torsional.source})")
+        parts += [f"{scope_words(m, e)}: {r.name} ({r.source})" for m, e, r in self.overrides]
+        return "; ".join(parts)
+
+
+def as_rule_set(rules: RuleSet | MarginRule | None) -> RuleSet:
+    """A :class:`RuleSet` from what a caller gave.
+
+    None gives the defaults (API lateral at 1x for rotors, no flat margin); a
+    flat rule applies to every pair (rotor lateral at 1x included); any other
+    rule (the API lateral rule, a table against AF) governs rotor lateral
+    modes against 1x only.
+    """
+    if rules is None:
+        return RuleSet()
+    if isinstance(rules, RuleSet):
+        return rules
+    if not (hasattr(rules, "required") and hasattr(rules, "name") and hasattr(rules, "source")):
+        raise InputTypeError(f"rules: got {type(rules).__name__}; expected a RuleSet or a margin rule")
+    if isinstance(rules, FlatRule):
+        return RuleSet(lateral_1x=rules, flat=rules)
+    return RuleSet(lateral_1x=rules)
