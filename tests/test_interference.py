@@ -49,7 +49,9 @@ def test_inside_range_fails_and_is_worst_first():
 def test_critically_damped_mode_needs_no_margin_but_is_never_a_plain_pass():
     # AF < 2.5: "critically damped", no margin required (API RP 684, from memory); inside the range the
     # finding shows as exempt and the verdict names it.
-    table = R.interference_check([R.Mode(40.0, 0.3, "damped", kind="rotor-lateral")], [R.running_speed_order(1)], SPEEDS)
+    table = R.interference_check(
+        [R.Mode(40.0, 0.3, "damped", kind="rotor-lateral")], [R.running_speed_order(1)], SPEEDS
+    )
     assert table[0].location == "inside"
     assert table[0].required_margin == 0.0
     assert table[0].verdict == "EXEMPT"
