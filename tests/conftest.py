@@ -27,3 +27,10 @@ def pump(pump_path):
 @pytest.fixture
 def foundation(foundation_path):
     return load_scenario(foundation_path)
+
+
+@pytest.fixture
+def fan():
+    from resonance.rotor.scenario import load_rotor_scenario
+
+    return load_rotor_scenario(SCENARIOS / "fan_rotor.toml")
