@@ -15,7 +15,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -39,9 +39,8 @@ __all__ = [
 TWO_PI = 2.0 * math.pi
 
 
-@dataclass(frozen=True)
-class SteadyState:
-    """Steady-state harmonic response; unpacks as ``amplitude, phase_lag``.
+class SteadyState(NamedTuple):
+    """Steady-state harmonic response; a named tuple ``(amplitude, phase_lag)`` (unpacks, indexes, has a length).
 
     Attributes
     ----------
@@ -53,9 +52,6 @@ class SteadyState:
 
     amplitude: np.ndarray
     phase_lag: np.ndarray
-
-    def __iter__(self):
-        return iter((self.amplitude, self.phase_lag))
 
 
 def _mkc(mass: object, stiffness: object, damping: object) -> tuple[float, float, float]:

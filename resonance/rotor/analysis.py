@@ -38,7 +38,8 @@ import scipy.optimize
 
 from .._threads import blas_threads_for
 from ..damping import log_decrement
-from ..errors import InputValueError
+from ..errors import InputTypeError, InputValueError
+from ..inputs import as_si, as_si_array
 from ..modes import Mode
 from .model import Rotor
 
@@ -218,12 +219,23 @@ def rotor_modes(rotor: Rotor, speed: float, count: int = 8, reduced: bool = True
     -------
     RotorModes
     """
-    if not (math.isfinite(speed) and speed >= 0.0):
-        raise InputValueError(f"speed: got {speed!r} rpm; expected a finite value >= 0")
+    _check_rotor(rotor)
+    speed = as_si(speed, "speed", "speed", "nonnegative")
     with blas_threads_for(2 * rotor.size):
         basis = _ritz_basis(rotor, speed, count + 4) if reduced else None
         lam, shapes = _solve_modes(rotor, speed, count, basis)
     return _modes_from(rotor, speed, lam, shapes)
+
+
+def _check_rotor(rotor: object) -> None:
+    if not isinstance(rotor, Rotor):
+        raise InputTypeError(f"rotor: got {type(rotor).__name__}; expected a Rotor (build one with rotor_model)")
+
+
+def _count(value: object, name: str) -> int:
+    if isinstance(value, bool) or not isinstance(value, (int, np.integer)) or value < 1:
+        raise InputValueError(f"{name}: got {value!r}; expected a whole number >= 1")
+    return int(value)
 
 
 def _whirl_operator(rotor: Rotor) -> np.ndarray:
@@ -340,9 +352,11 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
     -------
     CampbellData
     """
-    grid = np.asarray(speeds, dtype=float)
-    if grid.ndim != 1 or grid.size < 2 or np.any(np.diff(grid) <= 0) or grid[0] < 0 or not np.all(np.isfinite(grid)):
+    _check_rotor(rotor)
+    grid = as_si_array(speeds, "speeds", "speed", "nonnegative")
+    if grid.ndim != 1 or grid.size < 2 or np.any(np.diff(grid) <= 0):
         raise InputValueError("speeds: expected at least 2 increasing, finite speeds >= 0 rpm")
+    count = _count(count, "count")
     extra = count + 4  # candidates at each speed, so a branch can be followed past a crossing
     freq = np.empty((grid.size, count))
     zeta = np.empty_like(freq)
@@ -470,9 +484,11 @@ def critical_speed_map(rotor: Rotor, stiffness: Sequence[float] | np.ndarray, co
     Friswell et al., *Dynamics of Rotating Machines*, 2010, sec. 3.6 and 6.2
     (synchronous whirl); API RP 684, 2nd ed., 2005 (critical speed map; from memory).
     """
-    values = np.asarray(stiffness, dtype=float)
-    if values.ndim != 1 or values.size == 0 or np.any(~np.isfinite(values)) or np.any(values <= 0):
-        raise InputValueError("stiffness: expected finite values > 0 N/m")
+    _check_rotor(rotor)
+    values = as_si_array(stiffness, "stiffness", "stiffness", "positive")
+    if values.ndim != 1 or values.size == 0:
+        raise InputValueError("stiffness: expected a list of finite values > 0 N/m")
+    count = _count(count, "count")
     n = rotor.nodes
     plane = list(range(2 * n)) + list(range(4 * n, rotor.size, 2))  # x plane of shaft and pedestals
     m = rotor.mass[np.ix_(plane, plane)]
@@ -505,11 +521,24 @@ def critical_speed_map(rotor: Rotor, stiffness: Sequence[float] | np.ndarray, co
 
 @dataclass(frozen=True)
 class Unbalance:
-    """An unbalance at a station: amount [kg m] and angular position [deg]."""
+    """An unbalance at a station: amount [kg m] and angular position [deg].
+
+    ``amount`` may be a quantity (``ureg("500 g*mm")``, ``ureg("0.7 oz*in")``); ``phase_deg`` a plain
+    number of degrees or an angle quantity.
+    """
 
     station: int
     amount: float
     phase_deg: float = 0.0
+
+    def __post_init__(self) -> None:
+        if isinstance(self.station, bool) or not isinstance(self.station, (int, np.integer)):
+            raise InputTypeError(f"station: got {self.station!r}; expected a whole number")
+        object.__setattr__(self, "amount", as_si(self.amount, "amount", "unbalance", "nonnegative"))
+        phase = self.phase_deg
+        if hasattr(phase, "magnitude"):
+            phase = float(as_si(phase, "phase_deg", "angle")) * 180.0 / math.pi
+        object.__setattr__(self, "phase_deg", as_si(phase, "phase_deg", "ratio"))
 
 
 @dataclass(frozen=True)
@@ -562,17 +591,18 @@ def unbalance_response_rotor(
     ----------
     Friswell et al., *Dynamics of Rotating Machines*, 2010, sec. 6.4.
     """
-    grid = np.asarray(speeds, dtype=float)
-    if grid.ndim != 1 or grid.size == 0 or np.any(grid < 0) or not np.all(np.isfinite(grid)):
-        raise InputValueError("speeds: expected finite speeds >= 0 rpm")
+    _check_rotor(rotor)
+    grid = as_si_array(speeds, "speeds", "speed", "nonnegative")
+    if grid.ndim != 1 or grid.size == 0:
+        raise InputValueError("speeds: expected a list of finite speeds >= 0 rpm")
     if not unbalances:
         raise InputValueError("unbalances: got none; expected at least one")
     probes = [(rotor.station_dof(s, "x"), rotor.station_dof(s, "y")) for s in stations]
     base = np.zeros(rotor.size, dtype=complex)
-    for u in unbalances:
+    for i, u in enumerate(unbalances):
+        if not isinstance(u, Unbalance):
+            raise InputTypeError(f"unbalances[{i}]: got {type(u).__name__}; expected an Unbalance")
         rotor.station_dof(u.station, "x")
-        if not (math.isfinite(u.amount) and u.amount >= 0):
-            raise InputValueError(f"unbalance at station {u.station}: amount {u.amount!r}; expected >= 0 kg m")
         a = math.radians(u.phase_deg)
         base[rotor.station_dof(u.station, "x")] += u.amount * np.exp(1j * a)
         base[rotor.station_dof(u.station, "y")] += -1j * u.amount * np.exp(1j * a)

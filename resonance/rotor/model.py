@@ -25,11 +25,17 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import InputValueError
-from ..inputs import as_si
+from ..errors import InputTypeError, InputValueError
+from ..inputs import as_si, as_si_array
 from .elements import beam_rotary_mass, beam_stiffness, beam_translational_mass, shear_coefficient
 
 __all__ = ["Material", "STEEL", "ShaftSection", "Disc", "Bearing", "Pedestal", "Rotor", "rotor_model"]
+
+
+def _convert(obj: object, name: str, kind: str, sign: str = "any", label: str = "") -> None:
+    """Convert a frozen dataclass field through the input layer, in place (errors name the field)."""
+    where = f"{label}: {name}" if label else name
+    object.__setattr__(obj, name, as_si(getattr(obj, name), where, kind, sign))  # type: ignore[arg-type]
 
 
 @dataclass(frozen=True)
@@ -40,6 +46,13 @@ class Material:
     youngs_modulus: float
     poisson_ratio: float
     name: str = "material"
+
+    def __post_init__(self) -> None:
+        _convert(self, "density", "density", "positive")
+        _convert(self, "youngs_modulus", "pressure", "positive")
+        _convert(self, "poisson_ratio", "ratio")
+        if not -1.0 < self.poisson_ratio < 0.5:
+            raise InputValueError(f"poisson_ratio: got {self.poisson_ratio:g}; expected a value in (-1, 0.5)")
 
     @property
     def shear_modulus(self) -> float:
@@ -61,6 +74,13 @@ class ShaftSection:
     material: Material = STEEL
     elements: int = 1
 
+    def __post_init__(self) -> None:
+        _convert(self, "length", "length", "positive")
+        _convert(self, "outer_diameter", "length", "positive")
+        _convert(self, "inner_diameter", "length", "nonnegative")
+        if not isinstance(self.material, Material):
+            raise InputTypeError(f"material: got {type(self.material).__name__}; expected a Material")
+
 
 @dataclass(frozen=True)
 class Disc:
@@ -72,6 +92,11 @@ class Disc:
     diametral_inertia: float
     label: str = "disc"
 
+    def __post_init__(self) -> None:
+        _convert(self, "mass", "mass", "positive")
+        _convert(self, "polar_inertia", "inertia", "nonnegative")
+        _convert(self, "diametral_inertia", "inertia", "nonnegative")
+
 
 @dataclass(frozen=True)
 class Pedestal:
@@ -82,6 +107,13 @@ class Pedestal:
     kyy: float
     cxx: float = 0.0
     cyy: float = 0.0
+
+    def __post_init__(self) -> None:
+        _convert(self, "mass", "mass", "positive")
+        for name in ("kxx", "kyy"):
+            _convert(self, name, "stiffness", "nonnegative")
+        for name in ("cxx", "cyy"):
+            _convert(self, name, "damping", "nonnegative")
 
 
 @dataclass(frozen=True)
@@ -107,6 +139,22 @@ class Bearing:
     pedestal: Pedestal | None = None
     label: str = "bearing"
     tilt_stiffness: float = 0.0
+
+    def __post_init__(self) -> None:
+        # Quantities (SI or US) become floats in the package convention here, so no later step strips a unit.
+        for name in ("kxx", "kyy", "kxy", "kyx", "cxx", "cyy", "cxy", "cyx"):
+            kind = "stiffness" if name[0] == "k" else "damping"
+            value = getattr(self, name)
+            if isinstance(value, (list, tuple, np.ndarray)) or (
+                hasattr(value, "magnitude") and np.ndim(value.magnitude) > 0
+            ):
+                object.__setattr__(self, name, tuple(as_si_array(value, f"{self.label}: {name}", kind).tolist()))
+            else:
+                _convert(self, name, kind, label=self.label)
+        if self.speeds is not None:
+            speeds = as_si_array(self.speeds, f"{self.label}: speeds", "speed", "nonnegative")
+            object.__setattr__(self, "speeds", tuple(speeds.tolist()))
+        _convert(self, "tilt_stiffness", "moment_stiffness", "nonnegative", label=self.label)
 
     def coefficients(self, speed: float) -> tuple[np.ndarray, np.ndarray]:
         """Stiffness and damping matrices ``[[xx, xy], [yx, yy]]`` at a speed [rpm]."""
