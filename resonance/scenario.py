@@ -99,13 +99,13 @@ from .excitations import (
     line_frequency,
     permissible_unbalance,
 )
-from .inputs import as_si
+from .inputs import as_si, parse_quantity
 from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from .model import GROUND, MatrixModel, Spring, lumped_model, matrix_model
 from .modes import MODE_KINDS
 from .rules import TORSIONAL_RULE, RuleSet, is_flat
 from .speed_range import OperatingRange, operating_range
-from .units import UNIT_SYSTEMS, UnitSystem, ureg
+from .units import UNIT_SYSTEMS, UnitSystem
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -379,12 +379,9 @@ class _Reader:
     def value(self, raw: Any, field: str, kind: str, sign: str = "any") -> float:
         if isinstance(raw, bool):
             raise self.fail(field, f"got {raw!r}; expected a number or a value with a unit")
-        if isinstance(raw, str):
-            try:
-                raw = ureg.Quantity(raw)
-            except Exception:
-                raise self.fail(field, f"got {raw!r}, which is not a number with a known unit") from None
         try:
+            if isinstance(raw, str):
+                raw = parse_quantity(raw, "value")  # exactly one number and a unit, or refused
             return as_si(raw, "value", kind, sign)  # type: ignore[arg-type]
         except (InputTypeError, InputValueError) as error:
             raise self.fail(field, str(error).removeprefix("value: ")) from None

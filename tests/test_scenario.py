@@ -68,7 +68,7 @@ def _broken(pump_path, edit):
     [
         (lambda d: d["speed"].pop("max"), r"pump\.toml: speed\.max: missing"),
         (lambda d: d["speed"].update(max="1800 kg"), r"speed\.max: got 1800 kg, which is not a speed"),
-        (lambda d: d["speed"].update(max="fast"), r"speed\.max: got 'fast', which is not a number with a known unit"),
+        (lambda d: d["speed"].update(max="fast"), r"speed\.max: got 'fast'; the number is missing"),
         (lambda d: d["speed"].update(min=2000), r"speed\.max: got 1800 rpm, below speed\.min = 2000 rpm"),
         (lambda d: d["speed"].update(mni=3), r"speed\.mni: unknown field"),
         (

@@ -38,9 +38,9 @@ from typing import Literal
 
 import numpy as np
 
-from ..errors import InputValueError
+from ..errors import InputTypeError, InputValueError
 from ..harmonic import convert_amplitude
-from ..inputs import as_si
+from ..inputs import NUMBER_TEXT, as_si, parse_unit
 from ..units import ureg
 
 __all__ = ["DataFileError", "CoastDown", "ImpactRecord", "read_coastdown", "read_impact"]
@@ -144,6 +144,8 @@ def _split(path: str | os.PathLike[str]) -> tuple[str, dict[str, str], list[str]
     rows = [
         (body_start + i, [cell.strip() for cell in row]) for i, row in enumerate(reader) if any(c.strip() for c in row)
     ]
+    if not rows:
+        raise DataFileError(f"{name}: line {body_start}: holds only separators; expected a header row and data")
     header = rows[0][1]
     data = rows[1:]
     if not data:
@@ -158,6 +160,9 @@ def _numbers(name: str, header: list[str], data: list[tuple[int, list[str]]]) ->
             raise DataFileError(f"{name}: line {number}: has {len(row)} columns; the header has {len(header)}")
         for j, cell in enumerate(row):
             try:
+                # Exactly one plain number: Python's float() would also take "1_000" and other spellings.
+                if not NUMBER_TEXT.fullmatch(cell) and cell.lower().lstrip("+-") not in ("inf", "nan", "infinity"):
+                    raise ValueError(cell)
                 value = float(cell)
             except ValueError:
                 raise DataFileError(
@@ -183,8 +188,8 @@ def _option(
 
 def _unit_factor(unit: str, kind: str, field: str, name: str) -> float:
     try:
-        return as_si(ureg.Quantity(1.0, unit), field, kind)
-    except Exception as error:
+        return as_si(ureg.Quantity(1.0, parse_unit(unit, field)), field, kind)
+    except (InputTypeError, InputValueError) as error:
         raise DataFileError(f"{name}: {field}: got {unit!r}; expected a {kind} unit ({error})") from None
 
 
@@ -312,12 +317,16 @@ def read_impact(
         raise DataFileError(f"{name}: response_unit: not given; declare it ('# response_unit = m/s**2') or pass it")
     f_unit = _option(meta, "force_unit", force_unit, "N", None, name)
     quantity: Literal["displacement", "velocity", "acceleration"] | None = None
+    try:
+        parsed = parse_unit(r_unit, "response_unit")
+    except InputValueError as error:
+        raise DataFileError(f"{name}: {error}") from None
     for kind in ("acceleration", "velocity", "displacement"):
         try:
-            r_factor = as_si(ureg.Quantity(1.0, r_unit), "response_unit", kind)
+            r_factor = as_si(ureg.Quantity(1.0, parsed), "response_unit", kind)
             quantity = kind  # type: ignore[assignment]
             break
-        except Exception:
+        except InputTypeError:
             continue
     if quantity is None:
         raise DataFileError(

@@ -24,10 +24,10 @@ re-runs the model checks with the tuned model.
 from __future__ import annotations
 
 import os
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, TypeVar
 
 from ..errors import InputValueError
 from ..interference import FindingsTable
@@ -35,10 +35,12 @@ from ..scenario import Scenario, ScenarioError, _Reader
 from ..study import StudyResult, run_study
 from .coastdown import ModalFit, Resonance, find_resonances, fit_modes, measured_findings, measured_modes
 from .impact import Frf, Pole, impact_frf, rfp_fit, stability_diagram
-from .readers import CoastDown, read_coastdown, read_impact
+from .readers import CoastDown, DataFileError, read_coastdown, read_impact
 from .tuning import TunedModel, TuningParameter, tune_scenario
 
 __all__ = ["FieldSpec", "FieldStudyResult", "field_spec", "run_field_study"]
+
+T = TypeVar("T")
 
 
 @dataclass(frozen=True)
@@ -91,29 +93,42 @@ def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> Fi
         return low, high
 
     tune = []
+    known = {"spring": [s.label for s in scenario.model.springs], "mass": list(scenario.model.labels)}
     for i, item in enumerate(r.array(data, "tune", "field.tune", required=False)):
         where = f"field.tune[{i}]"
         if not isinstance(item, Mapping) or ("spring" in item) == ("mass" in item):
             raise r.fail(where, "expected a table with exactly one of spring or mass")
         r.known(item, ("spring", "mass", "low", "high"), where)
         kind = "spring" if "spring" in item else "mass"
-        tune.append(
-            TuningParameter(
-                kind,  # type: ignore[arg-type]
-                r.text(item, kind, f"{where}.{kind}"),
-                r.value(item.get("low", 0.25), f"{where}.low", "ratio", "positive"),
-                r.value(item.get("high", 4.0), f"{where}.high", "ratio", "positive"),
-            )
-        )
-    impact = r.text(data, "impact", "field.impact", "") or None
+        target = r.text(item, kind, f"{where}.{kind}")
+        if target not in known[kind]:
+            raise r.fail(f"{where}.{kind}", f"got {target!r}, which is not in the model; expected one of {known[kind]}")
+        low = r.value(item.get("low", 0.25), f"{where}.low", "ratio", "positive")
+        high = r.value(item.get("high", 4.0), f"{where}.high", "ratio", "positive")
+        if not low < 1.0 < high:
+            raise r.fail(where, f"bounds ({low:g}, {high:g}); expected 0 < low < 1 < high")
+        tune.append(TuningParameter(kind, target, low, high))  # type: ignore[arg-type]
+
+    def path(key: str, required: bool) -> Path | None:
+        if key not in data and not required:
+            return None
+        text = r.text(data, key, f"field.{key}")
+        if not text.strip():
+            # An empty path would name the scenario's own folder.
+            raise r.fail(f"field.{key}", "is empty; expected the path of a measurement file")
+        return base / text
+
+    impact = path("impact", required=False)
     modes = r.integer(data, "impact_modes", "field.impact_modes", 2)
     if not 1 <= modes <= 10:
         raise r.fail("field.impact_modes", f"got {modes}; expected 1 to 10")
+    coastdown = path("coastdown", required=True)
+    assert coastdown is not None  # required
     return FieldSpec(
-        base / r.text(data, "coastdown", "field.coastdown"),
+        coastdown,
         r.text(data, "channel", "field.channel"),
         pair("band", "speed", None),
-        None if impact is None else base / impact,
+        impact,
         r.text(data, "impact_channel", "field.impact_channel", "") or None,
         r.value(data.get("record_length", 1.0), "field.record_length", "time", "positive"),
         pair("impact_band", "frequency", (1.0, 500.0)),  # type: ignore[arg-type]
@@ -204,10 +219,26 @@ def run_field_study(
         Override the table's coast-down channel and fitting band [rpm].
     """
     spec = field_spec(scenario, base_dir)
+    r = _Reader(scenario.source)
+
+    def named(call: Callable[[], T], fields: Mapping[str, str]) -> T:
+        # The analyses name their own parameters (band, channel...); the user wrote scenario fields.
+        try:
+            return call()
+        except DataFileError:
+            raise
+        except InputValueError as error:
+            text = str(error)
+            parameter = text.split(":", 1)[0]
+            field = fields.get(parameter, next(iter(fields.values())))
+            raise r.fail(field, text.split(": ", 1)[1] if parameter in fields else text) from None
+
     data = read_coastdown(spec.coastdown)
     channel = channel or spec.channel
     band = band or spec.band
-    resonances = tuple(find_resonances(data, channel, band))
+    if channel not in data.channels:
+        raise r.fail("field.channel", f"got {channel!r}; {spec.coastdown.name} has channels {sorted(data.channels)}")
+    resonances = tuple(named(lambda: find_resonances(data, channel, band), {"band": "field.band"}))
     confirmed = [r for r in resonances if r.confirmed]
     fit = None
     if confirmed:
@@ -224,15 +255,24 @@ def run_field_study(
     if spec.impact is not None:
         record = read_impact(spec.impact)
         impact_channel = spec.impact_channel or next(iter(record.responses))
-        frf = impact_frf(record, impact_channel, spec.record_length)
-        poles = tuple(rfp_fit(frf, spec.impact_band, spec.impact_modes))
+        if impact_channel not in record.responses:
+            raise r.fail(
+                "field.impact_channel",
+                f"got {impact_channel!r}; {spec.impact.name} has response channels {sorted(record.responses)}",
+            )
+        impact_fields = {"channel": "field.impact_channel", record.source: "field.record_length"}
+        frf = named(lambda: impact_frf(record, impact_channel, spec.record_length), impact_fields)
+        band_fields = {"band": "field.impact_band", "modes": "field.impact_modes"}
+        poles = tuple(named(lambda: rfp_fit(frf, spec.impact_band, spec.impact_modes), band_fields))
         # Consistency across model orders (a stability diagram up to two orders above the one used).
-        _, stable_list = stability_diagram(frf, spec.impact_band, spec.impact_modes + 2, damping_tol=0.2)
+        _, stable_list = named(
+            lambda: stability_diagram(frf, spec.impact_band, spec.impact_modes + 2, damping_tol=0.2), band_fields
+        )
         stable = tuple(stable_list)
     tuned = tuned_study = None
     if spec.tune:
         measured = [p.frequency for p in poles] if poles else [m.frequency for m in modes]
         if measured:
-            tuned = tune_scenario(scenario, measured, spec.tune)
+            tuned = named(lambda: tune_scenario(scenario, measured, spec.tune), {"parameters": "field.tune"})
             tuned_study = run_study(tuned.scenario)
     return FieldStudyResult(spec, data, resonances, fit, findings, frf, poles, stable, tuned, tuned_study)
