@@ -68,6 +68,14 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
         flag = f"--{option}"
         if str(path) == "" or path.name in ("", ".", ".."):
             raise InputValueError(f"{flag}: {str(path)!r} is not a file name")
+        parent = path.parent if str(path.parent) else Path(".")
+        try:
+            limit = os.pathconf(parent if parent.is_dir() else ".", "PC_NAME_MAX")
+        except (OSError, ValueError, AttributeError):
+            limit = 255
+        # The temporary file adds a leading dot and ".partial" to the name.
+        if len(os.fsencode(path.name)) + len(".") + len(".partial") > limit:
+            raise InputValueError(f"{flag}: the file name is longer than this file system allows ({limit} bytes)")
         for other, opt in seen.items():
             if _same_file(path, other):
                 raise InputValueError(f"{flag}: {path} is also the path of {opt}; choose two different files")
@@ -77,20 +85,20 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
                 raise InputValueError(f"{flag}: {path} is an input file ({source}); choose another file")
         if path.is_dir():
             raise InputValueError(f"{flag}: {path} is a folder; expected a file name")
-        parent = path.parent if str(path.parent) else Path(".")
         if not parent.is_dir():
             raise InputValueError(f"{flag}: the folder {parent} does not exist")
-        try:
-            limit = os.pathconf(parent, "PC_NAME_MAX")
-        except (OSError, ValueError, AttributeError):
-            limit = 255
-        # The temporary file adds a leading dot and ".partial" to the name.
-        if len(os.fsencode(path.name)) + len(".") + len(".partial") > limit:
-            raise InputValueError(f"{flag}: the file name is longer than this file system allows ({limit} bytes)")
-        if not os.access(parent, os.W_OK | os.X_OK):
-            raise InputValueError(f"{flag}: the folder {parent} is not writable")
         if path.exists() and not os.access(path, os.W_OK):
             raise InputValueError(f"{flag}: {path} exists and is read-only")
+        # Permission bits do not stop root, and a read-only mount shows none: try the temporary file itself.
+        probe = parent / f".{path.name}.partial"
+        try:
+            descriptor = os.open(probe, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o600)
+        except FileExistsError:
+            continue  # a stale temporary file of an interrupted run: the write replaces it
+        except OSError as error:
+            raise InputValueError(f"{flag}: cannot write in the folder {parent} ({error.strerror})") from None
+        os.close(descriptor)
+        os.unlink(probe)
 
 
 def _check(args: argparse.Namespace) -> int:

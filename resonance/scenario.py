@@ -113,6 +113,7 @@ else:  # pragma: no cover - Python 3.10
     import tomli as tomllib
 
 __all__ = [
+    "MAX_MASSES",
     "ScenarioError",
     "MassSpec",
     "SpringSpec",
@@ -130,6 +131,11 @@ __all__ = [
     "scenario_to_dict",
     "save_scenario",
 ]
+
+
+#: The largest lumped model a scenario may hold: the whole study of a 500-mass chain took 1.0 s on a 2-core
+#: machine; the panels and the what-if band run it many times.
+MAX_MASSES = 500
 
 
 class ScenarioError(InputValueError):
@@ -599,6 +605,12 @@ def _model(r: _Reader, data: Mapping[str, Any]) -> ModelSpec:
         masses.append(MassSpec(name, r.quantity(item, "mass", f"{field}.mass", "mass", "positive")))
     if not masses:
         raise r.fail("model.masses", "empty; expected at least one mass")
+    if len(masses) > MAX_MASSES:
+        raise r.fail(
+            "model.masses",
+            f"{len(masses)} masses; this tool solves lumped models of up to {MAX_MASSES} masses in a few seconds "
+            "(dense eigenproblems): reduce the model",
+        )
     names = [m.name for m in masses]
     springs = []
     for i, item in enumerate(r.array(data, "springs", "model.springs")):

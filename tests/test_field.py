@@ -86,7 +86,7 @@ HEAD = "# amplitude_unit = um\n# amplitude_convention = peak\nspeed_rpm,ch_ampli
     ("text", "message"),
     [
         ("", r"cd\.csv: has no header row and no data"),
-        ("# amplitude_unit = um\nspeed_rpm,ch_amplitude,ch_phase\n", r"has a header but no data rows"),
+        ("# amplitude_unit = um\nspeed_rpm,ch_amplitude,ch_phase\n", r"line 2: a header with no data rows after it"),
         (
             "# amplitude_unit = um\n# amplitude_convention = peak\nspeed_rpm,ch_amplitude\n100,1\n",
             r"channel 'ch': needs both",

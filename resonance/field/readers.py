@@ -149,7 +149,7 @@ def _split(path: str | os.PathLike[str]) -> tuple[str, dict[str, str], list[str]
     header = rows[0][1]
     data = rows[1:]
     if not data:
-        raise DataFileError(f"{name}: has a header but no data rows")
+        raise DataFileError(f"{name}: line {rows[0][0]}: a header with no data rows after it")
     return name, meta, header, data
 
 
