@@ -132,10 +132,9 @@ def rayleigh_damping(mass_matrix: object, stiffness_matrix: object, alpha: float
     """Rayleigh damping matrix ``C = alpha M + beta K`` [N s/m]."""
     m = as_matrix(mass_matrix, "mass_matrix", "mass")
     k = as_matrix(stiffness_matrix, "stiffness_matrix", "stiffness", m.shape[0])
-    for name, value in (("alpha", alpha), ("beta", beta)):
-        if not math.isfinite(value) or value < 0.0:
-            raise InputValueError(f"{name}: got {value!r}; expected a finite value >= 0")
-    return alpha * m + beta * k
+    a = as_si(alpha, "alpha", "ratio", "nonnegative")  # [1/s]
+    b = as_si(beta, "beta", "ratio", "nonnegative")  # [s]
+    return a * m + b * k
 
 
 def modal_damping(mass_matrix: object, stiffness_matrix: object, damping_ratios: object) -> np.ndarray:

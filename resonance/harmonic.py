@@ -62,7 +62,7 @@ def convert_amplitude(
         raise InputTypeError(
             "amplitude: got a pint quantity; pass its magnitude (the unit is unchanged by the conversion)"
         )
-    values = np.atleast_1d(np.asarray(amplitude, dtype=float))
+    values = as_si_array(amplitude, "amplitude", "ratio", "nonnegative")
     scale = _factor(to_convention, "to_convention") / _factor(from_convention, "from_convention")
     return values * scale
 

@@ -181,7 +181,7 @@ def half_power_points(frequency: object, amplitude: object, near: object | None 
     f = as_si_array(frequency, "frequency", "frequency", "nonnegative")
     if isinstance(amplitude, pint.Quantity):
         amplitude = amplitude.magnitude  # any unit: AF is a ratio
-    a = np.atleast_1d(np.asarray(amplitude, dtype=float))
+    a = np.atleast_1d(as_si_array(amplitude, "amplitude", "ratio"))
     if a.shape != f.shape:
         raise InputValueError(f"amplitude: got {a.size} values for {f.size} frequencies; expected one per frequency")
     if f.size < 3:
@@ -403,8 +403,7 @@ class FlatRule:
     source: str = "common practice, no single source"
 
     def __post_init__(self) -> None:
-        if not (math.isfinite(self.percent) and self.percent > 0.0):
-            raise InputValueError(f"percent: got {self.percent!r}; expected a finite value > 0")
+        object.__setattr__(self, "percent", as_si(self.percent, "percent", "ratio", "positive"))
         if not self.name:
             object.__setattr__(self, "name", f"flat {self.percent:g} %")
 

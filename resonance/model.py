@@ -18,8 +18,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .errors import InputValueError
-from .inputs import as_matrix, as_si
+from .errors import InputTypeError, InputValueError
+from .inputs import as_matrix, as_si, as_si_array
 
 __all__ = ["GROUND", "MatrixModel", "Spring", "chain_model", "lumped_model", "matrix_model"]
 
@@ -147,6 +147,14 @@ class Spring:
     stiffness: object
     damping: object = 0.0
 
+    def __post_init__(self) -> None:
+        # Quantities become floats in the package convention here; the names are the parameter's.
+        for name, kind in (("stiffness", "stiffness"), ("damping", "damping")):
+            object.__setattr__(self, name, as_si(getattr(self, name), name, kind, "nonnegative"))
+        for name in ("node_a", "node_b"):
+            if not isinstance(getattr(self, name), str):
+                raise InputTypeError(f"{name}: got {getattr(self, name)!r}; expected the name of a mass or 'ground'")
+
 
 def lumped_model(masses: Mapping[str, object], springs: Sequence[Spring]) -> MatrixModel:
     """Build a model from named lumped masses joined by springs and dashpots.
@@ -228,13 +236,15 @@ def chain_model(
     dampings : sequence of float or pint.Quantity, optional
         [N s/m], n values; undamped if omitted.
     """
-    n = len(masses)
-    if len(stiffnesses) != n or (dampings is not None and len(dampings) != n):
+    m = as_si_array(masses, "masses", "mass", "positive")
+    k = as_si_array(stiffnesses, "stiffnesses", "stiffness", "nonnegative")
+    c = as_si_array(dampings, "dampings", "damping", "nonnegative") if dampings is not None else np.zeros(k.size)
+    n = m.size
+    if k.size != n or c.size != n:
         raise InputValueError(
-            f"stiffnesses/dampings: got {len(stiffnesses)} and "
-            f"{'none' if dampings is None else len(dampings)} values; expected {n}, one per mass"
+            f"stiffnesses/dampings: got {k.size} and "
+            f"{'none' if dampings is None else c.size} values; expected {n}, one per mass"
         )
     names = [f"m{i}" for i in range(n)]
-    cs = dampings if dampings is not None else [0.0] * n
-    springs = [Spring(GROUND if i == 0 else names[i - 1], names[i], stiffnesses[i], cs[i]) for i in range(n)]
-    return lumped_model(dict(zip(names, masses, strict=True)), springs)
+    springs = [Spring(GROUND if i == 0 else names[i - 1], names[i], float(k[i]), float(c[i])) for i in range(n)]
+    return lumped_model(dict(zip(names, m.tolist(), strict=True)), springs)

@@ -221,6 +221,7 @@ def rotor_modes(rotor: Rotor, speed: float, count: int = 8, reduced: bool = True
     """
     _check_rotor(rotor)
     speed = as_si(speed, "speed", "speed", "nonnegative")
+    count = _count(count, "count")
     with blas_threads_for(2 * rotor.size):
         basis = _ritz_basis(rotor, speed, count + 4) if reduced else None
         lam, shapes = _solve_modes(rotor, speed, count, basis)
