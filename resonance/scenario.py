@@ -467,8 +467,8 @@ def _motor(r: _Reader, data: Mapping[str, Any]) -> MotorSpec | None:
         if "line_frequency" in data:
             raise r.fail("motor.line_frequency", "a drive-fed motor's frequency follows the speed; remove it")
         poles = r.integer(data, "poles", "motor.poles")
-        if poles < 2 or poles % 2:
-            raise r.fail("motor.poles", f"got {poles!r}; expected an even whole number >= 2")
+        if not 2 <= poles <= 96 or poles % 2:
+            raise r.fail("motor.poles", f"got {poles!r}; expected an even whole number from 2 to 96")
         if "slip" not in data:
             raise r.fail("motor.slip", "missing; expected the slip at the load of interest (0 for a synchronous motor)")
         slip = r.value(data["slip"], "motor.slip", "ratio", "nonnegative")
@@ -523,7 +523,7 @@ def _percent(r: _Reader, raw: Any, field: str) -> float:
     # A percentage is a plain number: "15 %" text would be read by pint as 0.15.
     if isinstance(raw, bool) or not isinstance(raw, (int, float)):
         raise r.fail(field, f"got {raw!r}; expected a plain number of percent (for 15 % write 15)")
-    if not (0.0 < float(raw) < 100.0):
+    if not 0 < raw < 100:  # compared as given: a huge integer must not overflow a float
         raise r.fail(field, f"got {raw!r}; expected a percentage between 0 and 100")
     return float(raw)
 

@@ -28,6 +28,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import InputValueError
+from ..inputs import as_si
 from ..margins import half_power_points
 from .readers import ImpactRecord
 
@@ -125,7 +126,12 @@ def impact_frf(
     if channel not in record.responses:
         raise InputValueError(f"channel: got {channel!r}; expected one of {sorted(record.responses)}")
     fs = record.sample_rate
+    record_length = as_si(record_length, "record_length", "time", "positive")
     n = round(record_length * fs)
+    if n < 16:
+        raise InputValueError(
+            f"record_length: got {record_length:g} s, {n} samples at {fs:g} Hz; expected at least 16 samples per hit"
+        )
     pre = round(pretrigger * fs)
     force = record.force
     level = trigger * float(np.max(np.abs(force)))

@@ -233,7 +233,14 @@ def run_field_study(
             field = fields.get(parameter, next(iter(fields.values())))
             raise r.fail(field, text.split(": ", 1)[1] if parameter in fields else text) from None
 
-    data = read_coastdown(spec.coastdown)
+    def read(reader: Callable[[Path], T], path: Path, field: str) -> T:
+        # The measurement file's own error (file, line, column) behind the scenario file and field that name it.
+        try:
+            return reader(path)
+        except DataFileError as error:
+            raise DataFileError(f"{scenario.source}: {field}: {error}") from None
+
+    data = read(read_coastdown, spec.coastdown, "field.coastdown")
     channel = channel or spec.channel
     band = band or spec.band
     if channel not in data.channels:
@@ -253,14 +260,18 @@ def run_field_study(
     poles: tuple[Pole, ...] = ()
     stable: tuple[Pole, ...] = ()
     if spec.impact is not None:
-        record = read_impact(spec.impact)
+        record = read(read_impact, spec.impact, "field.impact")
         impact_channel = spec.impact_channel or next(iter(record.responses))
         if impact_channel not in record.responses:
             raise r.fail(
                 "field.impact_channel",
                 f"got {impact_channel!r}; {spec.impact.name} has response channels {sorted(record.responses)}",
             )
-        impact_fields = {"channel": "field.impact_channel", record.source: "field.record_length"}
+        impact_fields = {
+            "channel": "field.impact_channel",
+            "record_length": "field.record_length",
+            record.source: "field.record_length",
+        }
         frf = named(lambda: impact_frf(record, impact_channel, spec.record_length), impact_fields)
         band_fields = {"band": "field.impact_band", "modes": "field.impact_modes"}
         poles = tuple(named(lambda: rfp_fit(frf, spec.impact_band, spec.impact_modes), band_fields))
