@@ -26,6 +26,10 @@ __all__ = ["GROUND", "MatrixModel", "Spring", "chain_model", "lumped_model", "ma
 GROUND = "ground"
 
 
+#: The largest matrix model accepted: dense eigen-solves grow with the cube of the size.
+MAX_DOF = 1000
+
+
 @dataclass(frozen=True)
 class MatrixModel:
     """Validated linear model ``M x'' + C x' + K x = f``.
@@ -109,6 +113,11 @@ def matrix_model(
     n = m.shape[0]
     if n == 0:
         raise InputValueError("mass_matrix: got an empty matrix; expected at least 1 x 1")
+    if n > MAX_DOF:
+        raise InputValueError(
+            f"mass_matrix: {n} degrees of freedom; this tool's dense solvers take up to {MAX_DOF} "
+            "(the modes of a 1000-degree-of-freedom model with general damping took 3 s on two cores): reduce the model"
+        )
     try:
         np.linalg.cholesky(m)
     except np.linalg.LinAlgError:

@@ -271,3 +271,14 @@ def test_valid_support_edges_run_to_a_full_record(pump, edit):
     assert record.data["verdict"] in ("PASS", "FAIL", "PASS WITH EXEMPTION")
     smallest_change(scenario, "stiffness")
     tolerance_check(scenario)
+
+
+def test_big_models_are_refused_up_front_with_the_limit():
+    from resonance.model import MAX_DOF
+    from resonance.rotor import Bearing, ShaftSection, rotor_model
+
+    with pytest.raises(R.InputValueError, match=r"mass_matrix: 1001 degrees of freedom; this tool's dense solvers"):
+        R.chain_model([1.0] * (MAX_DOF + 1), [1e3] * (MAX_DOF + 1))
+    # A typo asking for 1e12 elements is refused before any list is built.
+    with pytest.raises(R.InputValueError, match=r"sections: 1000000000000 shaft elements in all"):
+        rotor_model([ShaftSection(1.0, 0.1, elements=10**12)], [], [Bearing(0, 1e8, 1e8)])

@@ -32,6 +32,10 @@ from .elements import beam_rotary_mass, beam_stiffness, beam_translational_mass,
 __all__ = ["Material", "STEEL", "ShaftSection", "Disc", "Bearing", "Pedestal", "Rotor", "rotor_model"]
 
 
+#: The largest rotor accepted by :func:`rotor_model` (scenarios allow fewer: see ``rotor.scenario.MAX_ELEMENTS``).
+MAX_ROTOR_ELEMENTS = 200
+
+
 def _convert(obj: object, name: str, kind: str, sign: str = "any", label: str = "") -> None:
     """Convert a frozen dataclass field through the input layer, in place (errors name the field)."""
     where = f"{label}: {name}" if label else name
@@ -276,7 +280,8 @@ def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearing
     """
     if not sections:
         raise InputValueError("sections: got none; expected at least one shaft section")
-    lengths, nodes_per_station = [], [0]
+    lengths: list[float] = []
+    nodes_per_station = [0]
     for i, s in enumerate(sections):
         where = f"sections[{i}]"
         length = _positive(s.length, f"{where}.length", "length")
@@ -286,6 +291,11 @@ def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearing
             raise InputValueError(f"{where}.inner_diameter: got {di:g} m, not less than the outer diameter {do:g} m")
         if isinstance(s.elements, bool) or not isinstance(s.elements, int) or s.elements < 1:
             raise InputValueError(f"{where}.elements: got {s.elements!r}; expected a whole number >= 1")
+        if len(lengths) + s.elements > MAX_ROTOR_ELEMENTS:  # before the list is built: a typo may ask for 1e12
+            raise InputValueError(
+                f"sections: {sum(x.elements for x in sections)} shaft elements in all; this tool's rotor analyses "
+                f"take up to {MAX_ROTOR_ELEMENTS} (a whole study of 200 took 12 s on two cores): use fewer elements"
+            )
         lengths += [length / s.elements] * s.elements
         nodes_per_station.append(nodes_per_station[-1] + s.elements)
     n_nodes = len(lengths) + 1
