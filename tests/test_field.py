@@ -266,8 +266,11 @@ def test_demo_files_read(tmp_path):
     assert impact.quantity == "acceleration"
     assert_allclose(impact.sample_rate, 1024.0, rtol=1e-3)
     bad = tmp_path / "imp.csv"
-    bad.write_text("# response_unit = m/s**2\ntime_s,force,a\n0,1,2\n0.1,1,2\n0.3,1,2\n")
-    with pytest.raises(DataFileError, match=r"imp\.csv: column 'time_s': expected evenly spaced"):
+    # One dropped sample (0.3 s): the message names the line where the spacing breaks.
+    bad.write_text("# response_unit = m/s**2\ntime_s,force,a\n0,1,2\n0.1,1,2\n0.2,1,2\n0.4,1,2\n0.5,1,2\n")
+    with pytest.raises(
+        DataFileError, match=r"imp\.csv: line 6, column 'time_s': the time step breaks here \(0\.2 s -> 0\.4 s"
+    ):
         read_impact(bad)
 
 

@@ -50,16 +50,44 @@ class Frf:
     quantity: str
     exponential_tau: float
 
+    @property
+    def sigma(self) -> float:
+        """Decay rate the exponential window adds to every pole, ``1 / tau`` [1/s] (0 without a window)."""
+        return 1.0 / self.exponential_tau if math.isfinite(self.exponential_tau) else 0.0
+
+    @property
+    def s(self) -> np.ndarray:
+        """Where the estimate samples the system's transfer function: ``s = i w + 1 / tau`` [rad/s].
+
+        Both channels windowed by ``exp(-t / tau)`` turn the Fourier transforms into Laplace transforms
+        at ``i w + 1 / tau``, so H1 estimates the system's FRF there, not at ``i w``.
+        """
+        return 1j * 2.0 * math.pi * self.frequency + self.sigma
+
     def receptance(self) -> np.ndarray:
-        """The FRF as displacement per force [m/N] (divided by (i w)^k)."""
+        """The FRF as displacement per force [m/N]: ``h / s^k`` at ``s = i w + 1 / tau`` (k = 1, 2 for v, a).
+
+        Dividing by ``(i w)^k`` instead would distort the curve near low modes when a window is applied.
+        """
         k = {"displacement": 0, "velocity": 1, "acceleration": 2}[self.quantity]
-        w = 2.0 * math.pi * self.frequency
+        s = self.s
         with np.errstate(divide="ignore", invalid="ignore"):
-            return np.where(w > 0, self.h / (1j * w) ** k, 0.0)
+            return np.where(np.abs(s) > 0, self.h / s**k, 0.0)
 
     def mobility(self) -> np.ndarray:
-        """The FRF as velocity per force [m/(N s)]."""
-        return 1j * 2.0 * math.pi * self.frequency * self.receptance()
+        """The FRF as velocity per force [m/(N s)]: ``s`` times the receptance."""
+        return self.s * self.receptance()
+
+    def relative_std(self, floor: float = 1e-3) -> np.ndarray:
+        """Relative standard deviation of the estimate from its coherence (at least ``floor``).
+
+        ``std|H1| / |H1| = sqrt((1 - g^2) / (2 n_d g^2))`` with ``n_d`` averages (Bendat & Piersol, *Random
+        Data*, 4th ed., 2010, table 9.6); with one average the coherence says nothing and the floor is used.
+        """
+        g2 = np.clip(self.coherence, 1e-12, 1.0)
+        if self.averages < 2:
+            return np.full(g2.shape, floor)
+        return np.maximum(np.sqrt((1.0 - g2) / (2.0 * self.averages * g2)), floor)
 
 
 def h1_estimate(
@@ -172,11 +200,16 @@ class Pole:
     damping_ratio: float
 
 
-def _window_correction(frf: Frf, frequency: float, zeta: float) -> float:
-    # An exponential window exp(-t / tau) adds sigma = 1 / tau to every pole's decay rate.
-    if not math.isfinite(frf.exponential_tau):
-        return zeta
-    return zeta - 1.0 / (frf.exponential_tau * 2.0 * math.pi * frequency)
+def _unwindowed(frf: Frf, frequency: float, zeta: float) -> Pole:
+    """The system's pole from one identified on the windowed curve as a function of ``i w``.
+
+    A curve ``G(i w + sigma)`` read as a function of ``i w`` has the poles ``p - sigma``: the window's
+    decay is added to each pole exactly, ``p = p_measured + sigma`` (no small-damping approximation).
+    """
+    wn = 2.0 * math.pi * frequency
+    measured = complex(-zeta * wn, wn * math.sqrt(max(1.0 - zeta * zeta, 0.0)))
+    p = measured + frf.sigma
+    return Pole(abs(p) / (2.0 * math.pi), -p.real / abs(p))
 
 
 def _band_mask(frf: Frf, band: tuple[float, float]) -> np.ndarray:
@@ -193,7 +226,7 @@ def peak_pick(frf: Frf, band: tuple[float, float]) -> Pole:
     """Natural frequency and damping of the peak in a band by the half-power method on |receptance|."""
     mask = _band_mask(frf, band)
     hp = half_power_points(frf.frequency[mask], np.abs(frf.receptance()[mask]))
-    return Pole(hp.peak_frequency, _window_correction(frf, hp.peak_frequency, hp.damping_ratio))
+    return _unwindowed(frf, hp.peak_frequency, hp.damping_ratio)
 
 
 def circle_fit(frf: Frf, band: tuple[float, float]) -> Pole:
@@ -210,6 +243,7 @@ def circle_fit(frf: Frf, band: tuple[float, float]) -> Pole:
     """
     mask = _band_mask(frf, band)
     w = 2.0 * math.pi * frf.frequency[mask]
+    # The mobility as a function of i w (its circle and angles), with the window's decay put back at the end.
     y = frf.mobility()[mask]
     # Algebraic (Kasa) circle fit: x^2 + y^2 + D x + E y + F = 0.
     a = np.column_stack([y.real, y.imag, np.ones(y.size)])
@@ -240,47 +274,71 @@ def circle_fit(frf: Frf, band: tuple[float, float]) -> Pole:
     if not estimates:
         raise InputValueError(f"band: {band!r} does not hold points on both sides of the peak; widen it")
     zeta = float(np.median(estimates))
-    fn = wn / (2.0 * math.pi)
-    return Pole(fn, _window_correction(frf, fn, zeta))
+    return _unwindowed(frf, wn / (2.0 * math.pi), zeta)
 
 
-def rfp_fit(frf: Frf, band: tuple[float, float], modes: int) -> list[Pole]:
+def rfp_fit(frf: Frf, band: tuple[float, float], modes: int, iterations: int = 8) -> list[Pole]:
     """Rational-fraction polynomial fit of the receptance in a band.
 
-    ``H(s) = N(s) / D(s)`` with ``D`` of degree ``2 modes`` (monic) and ``N`` of degree ``2 modes + 1``
-    (two extra terms absorb the modes outside the band), fitted by linear least squares in
-    normalized frequency; the poles are the roots of ``D``.
+    ``H(s) = N(s) / D(s)`` with ``D`` monic of degree ``2 modes`` and ``N`` of degree ``2 modes`` (the
+    constant term of ``N / D`` at high frequency absorbs the modes above the band), fitted in the variable
+    the estimate samples, ``s = i w + 1 / tau``: the roots of ``D`` are then the system's own poles, and
+    the exponential window needs no correction.
+
+    The linear fit of ``H D - N`` is iterated on its own denominator (Sanathanan and Koerner): each pass
+    weights the equations by ``1 / (|D_prev(s)| std(H))``, so that it minimizes the output error
+    ``(H - N / D) / std(H)``, with ``std(H)`` from the coherence of the H1 estimate (Bendat and Piersol) and
+    at least 0.1 % of ``|H|``. Without this, a weight of ``1 / |H|`` lets noisy antiresonances and band
+    edges decide the fit.
+
+    Returns
+    -------
+    list of Pole
+        Underdamped poles in the band's neighbourhood, by frequency.
 
     References
     ----------
-    Richardson & Formenti, Proc. 1st IMAC, 1982 (ordinary polynomials here, normalized band).
+    M. H. Richardson and D. L. Formenti, Proc. 1st IMAC, 1982 (ordinary polynomials here, normalized
+    variable); C. K. Sanathanan and J. Koerner, "Transfer function synthesis as a ratio of two complex
+    polynomials", IEEE Trans. Automatic Control 8(1), 1963, pp. 56-58; J. S. Bendat and A. G. Piersol,
+    *Random Data*, 4th ed., 2010, sec. 9.2 (random error of H1).
     """
-    if modes < 1:
-        raise InputValueError(f"modes: got {modes!r}; expected at least 1")
+    if isinstance(modes, bool) or not isinstance(modes, (int, np.integer)) or modes < 1:
+        raise InputValueError(f"modes: got {modes!r}; expected a whole number >= 1")
     mask = _band_mask(frf, band)
-    w = 2.0 * math.pi * frf.frequency[mask]
+    s_points = frf.s[mask]
     h = frf.receptance()[mask]
-    scale = w.max()
-    s = 1j * w / scale
-    nd = 2 * modes
-    nn = nd + 1
-    # H D = N with D = s^nd + sum d_k s^k:  sum_k d_k s^k H - sum_k n_k s^k = -s^nd H
-    columns = [s**k * h for k in range(nd)] + [-(s**k) for k in range(nn + 1)]
-    a = np.column_stack(columns)
-    rhs = -(s**nd) * h
-    weight = 1.0 / np.maximum(np.abs(h), 1e-30)  # relative error weighting
-    aw = a * weight[:, None]
-    real = np.vstack([aw.real, aw.imag])
-    target = np.concatenate([(rhs * weight).real, (rhs * weight).imag])
-    coefficients, *_ = np.linalg.lstsq(real, target, rcond=None)
-    d = np.concatenate([coefficients[:nd], [1.0]])
-    roots = np.roots(d[::-1]) * scale
+    std = frf.relative_std()[mask] * np.abs(h)
+    scale = float(np.abs(s_points).max())
+    z = s_points / scale
+    nd = 2 * int(modes)
+    powers_d = np.column_stack([z**k for k in range(nd)])
+    powers_n = np.column_stack([z**k for k in range(nd + 1)])
+    a = np.hstack([powers_d * h[:, None], -powers_n])
+    rhs = -(z**nd) * h
+    denominator = np.ones(z.size, dtype=complex)
+    coefficients = np.zeros(a.shape[1])
+    for _ in range(iterations):
+        weight = 1.0 / np.maximum(np.abs(denominator) * std, 1e-300)
+        aw = a * weight[:, None]
+        real = np.vstack([aw.real, aw.imag])
+        norms = np.linalg.norm(real, axis=0)
+        norms[norms == 0.0] = 1.0
+        target = np.concatenate([(rhs * weight).real, (rhs * weight).imag])
+        solution, *_ = np.linalg.lstsq(real / norms, target, rcond=None)
+        solution = solution / norms
+        d = np.concatenate([solution[:nd], [1.0]])
+        new_denominator = np.polyval(d[::-1], z)
+        converged = np.allclose(solution, coefficients, rtol=1e-10, atol=0.0)
+        coefficients, denominator = solution, new_denominator
+        if converged:
+            break
+    roots = np.roots(np.concatenate([coefficients[:nd], [1.0]])[::-1]) * scale
     poles = []
     for r in roots:
         if r.imag > 0 and r.real < 0:
             wn = abs(r)
-            fn = wn / (2.0 * math.pi)
-            poles.append(Pole(fn, _window_correction(frf, fn, -r.real / wn)))
+            poles.append(Pole(wn / (2.0 * math.pi), -r.real / wn))
     return sorted(poles, key=lambda p: p.frequency)
 
 
