@@ -178,7 +178,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
         new_markdown_cell(
             "The measured resonance sits just under 15 % above the maximum speed, short of the flat 15 % the "
             "scenario requires for a support mode: the field check fails where the design model passed. The "
-            "tuned model (floor about 25 % softer than designed) puts it a tenth of a percent on the passing "
+            "tuned model (floor 25 % softer than designed) puts it a few tenths of a percent on the passing "
             "side: a margin that thin on an uncertain floor is no margin; stiffen the floor or lower the "
             "maximum speed, and re-measure. The same verification runs headless: "
             "`python -m resonance check scenarios/fan_on_pedestal.toml`."
