@@ -92,10 +92,16 @@ def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> 
 
 @dataclass(frozen=True)
 class Record:
-    """A calculation record: JSON-ready ``data`` and the readable ``text``."""
+    """A calculation record: JSON-ready ``data`` and the readable ``text`` (which ends with the caution)."""
 
     data: dict[str, Any]
     text: str
+
+    @property
+    def body(self) -> str:
+        """The text without its closing caution, for display where the caution is already shown."""
+        head, _, _ = self.text.rpartition("\nCAUTION\n")
+        return head.rstrip() if head else self.text
 
 
 def software_versions() -> dict[str, str]:

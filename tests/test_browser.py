@@ -143,7 +143,7 @@ def test_every_notebook_renders_live(tmp_path, notebook):
             browser, page = open_page(p, chromium, url)
             try:
                 expect(page.get_by_text(EXPECTED_TEXT[notebook]).first).to_be_visible(timeout=120_000)
-                expect(page.get_by_text("Caution.").first).to_be_visible()
+                expect(page.get_by_text("Operating near an unverified resonance").first).to_be_visible(timeout=60_000)
                 expect(page.locator(".widget-button, .widget-slider").first).to_be_visible(timeout=60_000)
                 shots = os.environ.get("RESONANCE_SCREENSHOTS")
                 if shots:

@@ -129,6 +129,15 @@ def test_every_panel_shows_the_caution(pump, factory):
     assert "Caution." in panel.widget.children[0].value
 
 
+def test_record_panel_shows_the_caution_once_at_the_end_of_its_record(tmp_path, foundation_path):
+    panel = RecordPanel(foundation_path, output_dir=tmp_path)
+    shown = panel.text.value
+    assert shown.count("CAUTION") == 1
+    assert "Operating near an unverified resonance" in shown
+    assert "CAUTION" not in panel.record.body
+    assert panel.record.text.startswith(panel.record.body)
+
+
 def test_record_panel_sensitivity_controls(tmp_path, foundation_path):
     # Raising the minimum speed to 2600 rpm moves the 2x band up: mode 2's 2x coincidence (about
     # 2095 rpm) is then 100 (2600 - 2095) / 2600 = 19 % below, above the flat 15 % (common practice).

@@ -2,7 +2,8 @@
 
 The notebooks are the product's face and stay thin: each loads a scenario,
 shows a panel from resonance.ui and prints the verdict as text (which nbval
-compares). Cells whose output is a live widget view carry the tag
+compares). The caution appears once per notebook: the panel opens with it (the
+record panel's record closes with it). Cells whose output is a live widget view carry the tag
 ``nbval-ignore-output`` (widget model ids change at every run).
 
 Run after changing a notebook's cells or anything that changes what they print:
@@ -21,14 +22,6 @@ from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook
 
 HERE = Path(__file__).resolve().parent.parent / "notebooks"
 
-CAUTION = (
-    "> **Caution.** Running a machine near an unverified resonance can fail shafts, bearings, couplings, "
-    "welds and anchors by fatigue within hours. These results are engineering estimates that depend on "
-    "the model and its inputs (support stiffness above all). They do not replace the governing standard, "
-    "the manufacturer's data, local codes, field verification, or review by a qualified (where required, "
-    "licensed) engineer."
-)
-
 WIDGET = {"tags": ["nbval-ignore-output"]}  # live widget view: model ids are volatile
 
 
@@ -44,7 +37,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "Drag the **speed range** and the **damping** and watch the unbalance response, the phase lag, "
             "the amplification factor (half-power method) and the separation margins against every "
             "excitation order. Shaded blue: the operating speeds; shaded orange: the speeds the range must "
-            "keep clear of around each 1x coincidence (the scenario's flat margin for a structural mode).\n\n" + CAUTION
+            "keep clear of around each 1x coincidence (the scenario's flat margin for a structural mode).\n\n"
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import single_mode_panel"),
         code(
@@ -65,7 +58,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "modes, the unbalance response and receptance at a chosen mass, the interference diagram "
             "(natural frequencies against the excitation lines over speed, coincidences green when they "
             "pass and red when they fail), the findings worst first, and the predicted 1x casing velocity "
-            "against the ISO 10816-3 zones.\n\n" + CAUTION
+            "against the ISO 10816-3 zones.\n\n"
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import multi_mode_panel"),
         code(
@@ -85,7 +78,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "Scale the stiffness of the chosen springs and the chosen masses, move the speed range, add a "
             "drive skip band, and see the margins move. The buttons find the smallest stiffness or mass "
             "change that makes every check pass; the grey bands show each natural frequency over the "
-            "support-stiffness tolerance, and the checks are evaluated over the whole band.\n\n" + CAUTION
+            "support-stiffness tolerance, and the checks are evaluated over the whole band.\n\n"
         ),
         code("from resonance.scenario import load_scenario\nfrom resonance.ui import WhatIfPanel"),
         code(
@@ -124,8 +117,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
         ),
         code("from resonance.ui import RecordPanel"),
         code('panel = RecordPanel("scenarios/feed_pump_foundation.toml", output_dir="records")\npanel', widget=True),
-        new_markdown_cell("The record of the scenario as loaded:"),
-        code("print(panel.record.text)"),
+        new_markdown_cell("The record of the scenario as loaded (its caution closes the record in the panel above):"),
+        code("print(panel.record.body)"),
         new_markdown_cell("Export (the panel's button does the same):"),
         code("html_path, json_path = panel.export()\nprint(html_path.as_posix(), json_path.as_posix())"),
     ],
@@ -138,7 +131,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "critical speeds where the 1x line crosses a forward branch, the unbalance response with its "
             "half-power AF, the API separation-margin verdicts, the stability (log decrement) and the shaft "
             "vibration against the API limit all follow. The critical speed map shows where the bearings sit "
-            "between soft and rigid supports.\n\n" + CAUTION
+            "between soft and rigid supports.\n\n"
         ),
         code("from resonance.rotor import load_rotor_scenario\nfrom resonance.ui import RotorPanel"),
         code(
@@ -166,7 +159,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "(amplitude peaks confirmed by the phase change), their AF by the half-power method, fits a modal "
             "model to amplitude and phase together (Bode and polar views), checks the measured criticals by "
             "the same rule as the model, and tunes the floor stiffness so the model's modes match the impact "
-            "test's. Move the **speed range**, the **channel** and the **fitting band**.\n\n" + CAUTION
+            "test's. Move the **speed range**, the **channel** and the **fitting band**.\n\n"
         ),
         code(
             "from resonance.scenario import load_scenario\nfrom resonance.study import run_study\nfrom resonance.ui import FieldPanel"
@@ -191,6 +184,7 @@ def main() -> None:
     for name, cells in NOTEBOOKS.items():
         for number, cell in enumerate(cells):
             cell["id"] = f"cell-{number}"  # stable ids keep re-builds' diffs to what changed
+            cell["source"] = cell["source"].rstrip()
         notebook = new_notebook(cells=cells)
         notebook.metadata["kernelspec"] = {"name": "python3", "display_name": "Python 3", "language": "python"}
         path = HERE / name

@@ -54,6 +54,7 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
     d_unit, d_factor = display_unit("displacement", s.units)
     l_unit, l_factor = display_unit("length", s.units)
     m_unit, m_factor = display_unit("mass", s.units)
+    f_unit, f_factor = display_unit("frequency", s.units)
     digits = 1 if s.units == "SI" else 2
     data: dict[str, Any] = {
         **record_head("resonance-rotor-record/2", s.title, s.source, s.sha256, s.record, created),
@@ -97,7 +98,8 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         *basis_lines(data),
         "CRITICAL SPEEDS (forward whirl)",
         *(
-            f"  {c.speed:.0f} rpm ({c.order:g}x, branch {c.branch + 1}): {c.frequency:.2f} Hz, damping ratio "
+            f"  {c.speed:.0f} rpm ({c.order:g}x, branch {c.branch + 1}): "
+            f"{c.frequency * f_factor:.{2 if s.units == 'SI' else 0}f} {f_unit}, damping ratio "
             f"{c.damping_ratio:.4f}, log dec. {c.to_mode().log_decrement:.3f}"
             for c in result.criticals
         ),

@@ -465,9 +465,9 @@ class RecordPanel(_Panel):
         self.result: StudyResult | None = None
         self.load_button.on_click(lambda _: self.load())
         self.export_button.on_click(lambda _: self.export())
+        # No banner here: the record shown below ends with its caution, once.
         self.widget = w.VBox(
             [
-                caution_banner(),
                 w.HBox([self.path, self.load_button]),
                 self.controls,
                 self.message,
