@@ -28,10 +28,10 @@ from typing import Literal
 import numpy as np
 import scipy.linalg
 
-from ._threads import blas_threads_for
 from .inputs import as_si_array
 from .model import MatrixModel, check_dof, matrix_model
-from .modes import _balanced_state_matrix, _undamped, is_proportional
+from .modes import balanced_state_matrix, is_proportional, undamped_modes
+from .threads import blas_threads_for
 
 __all__ = ["FrfMethod", "accelerance", "mobility", "model_receptance", "receptance"]
 
@@ -43,7 +43,7 @@ _DIRECT_CHUNK_BYTES = 64 * 2**20
 
 
 def _modal(model: MatrixModel, w: np.ndarray, j: int, undamped: tuple[np.ndarray, np.ndarray] | None) -> np.ndarray:
-    wr, phi = undamped if undamped is not None else _undamped(model)
+    wr, phi = undamped if undamped is not None else undamped_modes(model)
     cr = np.einsum("ir,ij,jr->r", phi, model.damping, phi)  # = 2 zeta_r w_r
     denominator = wr[None, :] ** 2 - w[:, None] ** 2 + 1j * w[:, None] * cr[None, :]
     return (phi[j][None, :] / denominator) @ phi.T
@@ -57,7 +57,7 @@ def _state_space(
     # its eigenvectors well conditioned; in physical coordinates the blocks
     # differ by w^2 and the expansion loses many digits.
     #   x = Phi [S^-1 0] V diag(1 / (i w - lambda)) V^-1 [0; Phi^T e_j]
-    a, phi, scale = _balanced_state_matrix(model, undamped)
+    a, phi, scale = balanced_state_matrix(model, undamped)
     n = model.size
     lam, vectors = scipy.linalg.eig(a)
     load = np.zeros(2 * n)
@@ -89,7 +89,7 @@ def model_receptance(model: MatrixModel, frequency: object, input_dof: int, meth
     with blas_threads_for(2 * model.size):
         undamped = None
         if method == "auto":
-            undamped = _undamped(model)
+            undamped = undamped_modes(model)
             method = "modal" if is_proportional(model, undamped[1]) else "state-space"
         if method == "modal":
             return _modal(model, w, j, undamped)

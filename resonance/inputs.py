@@ -62,9 +62,9 @@ _NAME = r"[A-Za-zµμ°%][A-Za-z_µμ°%]*"
 _FACTOR = rf"{_NAME}(?:\s*(?:\*\*|\^)\s*-?\d+)?"
 _UNIT = rf"{_FACTOR}(?:\s*[*/·]\s*{_FACTOR}|\s+{_FACTOR})*"
 #: One plain number as the grammar above writes it (for measurement files).
-NUMBER_TEXT = re.compile(_NUMBER)
-_VALUE = re.compile(rf"\s*(?P<number>{_NUMBER})\s*(?P<unit>{_UNIT})?\s*")
-_UNIT_ONLY = re.compile(rf"\s*{_UNIT}\s*")
+NUMBER_TEXT = re.compile(_NUMBER, re.ASCII)  # ASCII digits only: float() also reads other scripts' digits
+_VALUE = re.compile(rf"\s*(?P<number>{_NUMBER})\s*(?P<unit>{_UNIT})?\s*", re.ASCII)
+_UNIT_ONLY = re.compile(rf"\s*{_UNIT}\s*", re.ASCII)
 
 
 def _text_hint(text: str) -> str:

@@ -24,13 +24,23 @@ from typing import Literal
 import numpy as np
 import scipy.linalg
 
-from ._threads import blas_threads_for
 from .damping import amplification_factor_from_damping_ratio, log_decrement
 from .errors import InputValueError
 from .inputs import as_si
 from .model import MatrixModel, matrix_model
+from .threads import blas_threads_for
 
-__all__ = ["MODE_KINDS", "Mode", "ModeKind", "ModeSet", "is_proportional", "modal_properties", "modes"]
+__all__ = [
+    "MODE_KINDS",
+    "Mode",
+    "ModeKind",
+    "ModeSet",
+    "balanced_state_matrix",
+    "is_proportional",
+    "modal_properties",
+    "modes",
+    "undamped_modes",
+]
 
 ModeSource = Literal["model", "rotor", "measured", "user"]
 ModeKind = Literal["rotor-lateral", "structural", "torsional"]
@@ -190,7 +200,11 @@ def is_proportional(model: MatrixModel, shapes: np.ndarray, rtol: float = 1e-9) 
     return float(np.abs(off).max()) <= rtol * scale
 
 
-def _undamped(model: MatrixModel) -> tuple[np.ndarray, np.ndarray]:
+def undamped_modes(model: MatrixModel) -> tuple[np.ndarray, np.ndarray]:
+    """Undamped natural circular frequencies [rad/s] and mass-normalized shapes of ``K phi = w^2 M phi``.
+
+    Rigid-body modes (eigenvalues below 1e-12 of the largest) come out at exactly 0.
+    """
     w2, phi = scipy.linalg.eigh(model.stiffness, model.mass)
     scale = max(float(np.abs(w2).max()), np.finfo(float).tiny)
     w2 = np.where(np.abs(w2) < 1e-12 * scale, 0.0, w2)  # rigid-body modes
@@ -201,7 +215,7 @@ def modal_properties(model: MatrixModel) -> ModeSet:
     """Modes of a validated :class:`MatrixModel` (see :func:`modes`)."""
     n = model.size
     with blas_threads_for(2 * n):
-        w, phi = _undamped(model)
+        w, phi = undamped_modes(model)
         if is_proportional(model, phi):
             cr = np.einsum("ir,ij,jr->r", phi, model.damping, phi)
             with np.errstate(divide="ignore", invalid="ignore"):
@@ -209,7 +223,7 @@ def modal_properties(model: MatrixModel) -> ModeSet:
             wd = w * np.sqrt(np.clip(1.0 - zeta**2, 0.0, None))
             lam = -zeta * w + 1j * wd
             return ModeSet(w / (2.0 * math.pi), zeta, phi, lam, True)
-        a, phi, scale = _balanced_state_matrix(model, (w, phi))
+        a, phi, scale = balanced_state_matrix(model, (w, phi))
         lam, vectors = scipy.linalg.eig(a)
         oscillating = lam.imag > 1e-9 * np.abs(lam).max()
         lam = lam[oscillating]
@@ -222,7 +236,7 @@ def modal_properties(model: MatrixModel) -> ModeSet:
     return ModeSet(wn / (2.0 * math.pi), zeta, vectors / peak, lam, False, n - int(lam.size))
 
 
-def _balanced_state_matrix(
+def balanced_state_matrix(
     model: MatrixModel, undamped: tuple[np.ndarray, np.ndarray] | None = None
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """First-order form in undamped modal coordinates, balanced.
@@ -242,7 +256,7 @@ def _balanced_state_matrix(
         The diagonal of S [rad/s].
     """
     n = model.size
-    wr, phi = undamped if undamped is not None else _undamped(model)
+    wr, phi = undamped if undamped is not None else undamped_modes(model)
     positive = wr[wr > 0.0]
     reference = float(positive.mean()) if positive.size else 1.0
     scale = np.where(wr > 0.0, wr, reference)

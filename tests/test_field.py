@@ -278,34 +278,34 @@ def test_tuning_recovers_known_changes(foundation):
     # "Measured" frequencies from the same model with the mounting softened 20 % and the soil stiffened
     # 30 % (invented); tuning both from the design values must recover the factors (regression of a
     # least-squares update, Friswell & Mottershead 1995 ch. 5) with no mismatch left.
-    from resonance.field.tuning import TuningParameter, _apply, _frequencies, tune_scenario
+    from resonance.field.tuning import TuningParameter, apply_factors, tune_model
 
-    truth = _apply(
-        foundation, [TuningParameter("spring", "mounting"), TuningParameter("spring", "soil")], np.array([0.8, 1.3])
+    truth = apply_factors(
+        foundation.model, [TuningParameter("spring", "mounting"), TuningParameter("spring", "soil")], [0.8, 1.3]
     )
-    measured = _frequencies(truth)
-    tuned = tune_scenario(
-        foundation, measured, [TuningParameter("spring", "mounting"), TuningParameter("spring", "soil")]
+    measured = R.modal_properties(truth.build()).frequency
+    tuned = tune_model(
+        foundation.model, measured, [TuningParameter("spring", "mounting"), TuningParameter("spring", "soil")]
     )
     assert_allclose(list(tuned.factors.values()), [0.8, 1.3], rtol=1e-6)
     assert tuned.mismatch_after < 1e-6
     assert tuned.mismatch_before > 1.0
     # One parameter cannot match three frequencies exactly: the mismatch left is reported, not hidden.
-    partial = tune_scenario(foundation, measured, [TuningParameter("spring", "mounting")])
+    partial = tune_model(foundation.model, measured, [TuningParameter("spring", "mounting")])
     assert partial.mismatch_after > 0.01
     assert partial.rms_mismatch_after < partial.rms_mismatch_before
     assert foundation.model.springs[0].stiffness == 1.1e9  # the original scenario is untouched
 
 
 def test_tuning_errors(foundation):
-    from resonance.field.tuning import TuningParameter, tune_scenario
+    from resonance.field.tuning import TuningParameter, tune_model
 
     with pytest.raises(R.InputValueError, match=r"spring 'anchor' is not in the model"):
-        tune_scenario(foundation, [20.0], [TuningParameter("spring", "anchor")])
+        tune_model(foundation.model, [20.0], [TuningParameter("spring", "anchor")])
     with pytest.raises(R.InputValueError, match=r"bounds \(2\.0, 3\.0\)"):
-        tune_scenario(foundation, [20.0], [TuningParameter("spring", "soil", 2.0, 3.0)])
+        tune_model(foundation.model, [20.0], [TuningParameter("spring", "soil", 2.0, 3.0)])
     with pytest.raises(R.InputValueError, match=r"two frequencies pair with the same model mode"):
-        tune_scenario(foundation, [19.0, 19.5], [TuningParameter("spring", "soil")])
+        tune_model(foundation.model, [19.0, 19.5], [TuningParameter("spring", "soil")])
 
 
 def test_mixed_units_are_declared_per_channel(tmp_path):

@@ -31,12 +31,13 @@ from typing import Any, TypeVar
 
 from ..errors import InputValueError
 from ..interference import FindingsTable
-from ..scenario import Scenario, ScenarioError, _Reader
+from ..scenario import Scenario
 from ..study import StudyResult, run_study
+from ..tables import ScenarioError, TableReader
 from .coastdown import ModalFit, Resonance, find_resonances, fit_modes, measured_findings, measured_modes
 from .impact import Frf, Pole, impact_frf, rfp_fit, stability_diagram
 from .readers import CoastDown, DataFileError, read_coastdown, read_impact
-from .tuning import TunedModel, TuningParameter, tune_scenario
+from .tuning import TunedModel, TuningParameter, tune_model
 
 __all__ = ["FieldSpec", "FieldStudyResult", "field_spec", "run_field_study"]
 
@@ -62,7 +63,7 @@ def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> Fi
     """Validate a scenario's ``[field]`` table; errors name the file and field."""
     if not scenario.field:
         raise ScenarioError(f"{scenario.source}: field: missing; the scenario has no measurements to verify it")
-    r = _Reader(scenario.source)
+    r = TableReader(scenario.source)
     data: Mapping[str, Any] = scenario.field
     r.known(
         data,
@@ -219,7 +220,7 @@ def run_field_study(
         Override the table's coast-down channel and fitting band [rpm].
     """
     spec = field_spec(scenario, base_dir)
-    r = _Reader(scenario.source)
+    r = TableReader(scenario.source)
 
     def named(call: Callable[[], T], fields: Mapping[str, str]) -> T:
         # The analyses name their own parameters (band, channel...); the user wrote scenario fields.
@@ -284,6 +285,6 @@ def run_field_study(
     if spec.tune:
         measured = [p.frequency for p in poles] if poles else [m.frequency for m in modes]
         if measured:
-            tuned = named(lambda: tune_scenario(scenario, measured, spec.tune), {"parameters": "field.tune"})
-            tuned_study = run_study(tuned.scenario)
+            tuned = named(lambda: tune_model(scenario.model, measured, spec.tune), {"parameters": "field.tune"})
+            tuned_study = run_study(scenario.replace(model=tuned.model))
     return FieldStudyResult(spec, data, resonances, fit, findings, frf, poles, stable, tuned, tuned_study)

@@ -4,7 +4,8 @@ The factors on the chosen springs and masses are found by bounded least
 squares on ``f_model / f_measured - 1`` (in log factors, so that stiffening
 and softening are alike); each measured frequency is paired with the model
 mode nearest to it before tuning. The result names the adjusted values, the
-mismatch left, and a tuned scenario that runs through the same checks.
+mismatch left, and the tuned model; the field flow puts it back into its
+scenario and runs the same checks (:mod:`resonance.field.study`).
 
 References
 ----------
@@ -24,10 +25,10 @@ import numpy as np
 import scipy.optimize
 
 from ..errors import InputValueError
+from ..lumped import ModelSpec
 from ..modes import modal_properties
-from ..scenario import Scenario
 
-__all__ = ["TuningParameter", "TunedModel", "tune_scenario"]
+__all__ = ["TuningParameter", "TunedModel", "apply_factors", "tune_model"]
 
 
 @dataclass(frozen=True)
@@ -42,19 +43,19 @@ class TuningParameter:
 
 @dataclass(frozen=True)
 class TunedModel:
-    """The tuned scenario and how well it matches.
+    """The tuned model and how well it matches.
 
     Attributes
     ----------
-    scenario : Scenario
-        The scenario with the adjusted values (the original is untouched).
+    model : ModelSpec
+        The model with the adjusted values (the original is untouched).
     factors : dict of str to float
         Factor applied to each parameter.
     measured, before, after : tuple of float
         Measured frequencies and the paired model frequencies before and after [Hz].
     """
 
-    scenario: Scenario
+    model: ModelSpec
     factors: dict[str, float]
     measured: tuple[float, ...]
     before: tuple[float, ...]
@@ -94,32 +95,36 @@ class TunedModel:
         )
 
 
-def _apply(scenario: Scenario, parameters: Sequence[TuningParameter], factors: np.ndarray) -> Scenario:
+def apply_factors(model: ModelSpec, parameters: Sequence[TuningParameter], factors: Sequence[float]) -> ModelSpec:
+    """A copy of the model with each parameter's spring stiffness or mass multiplied by its factor."""
     springs = {p.name: f for p, f in zip(parameters, factors, strict=True) if p.kind == "spring"}
     masses = {p.name: f for p, f in zip(parameters, factors, strict=True) if p.kind == "mass"}
-    model = scenario.model
     new_springs = tuple(
         dataclasses.replace(s, stiffness=s.stiffness * springs.get(s.label, 1.0)) for s in model.springs
     )
     new_masses = tuple(dataclasses.replace(m, mass=m.mass * masses.get(m.name, 1.0)) for m in model.masses)
-    return scenario.replace(model=dataclasses.replace(model, springs=new_springs, masses=new_masses))
+    return dataclasses.replace(model, springs=new_springs, masses=new_masses)
 
 
-def _frequencies(scenario: Scenario) -> np.ndarray:
-    return modal_properties(scenario.model.build()).frequency
+def _frequencies(model: ModelSpec) -> np.ndarray:
+    return modal_properties(model.build()).frequency
 
 
-def tune_scenario(scenario: Scenario, measured: Sequence[float], parameters: Sequence[TuningParameter]) -> TunedModel:
+def tune_model(model: ModelSpec, measured: Sequence[float], parameters: Sequence[TuningParameter]) -> TunedModel:
     """Adjust stiffnesses and masses within bounds so the model's modes match the measured frequencies.
 
     Parameters
     ----------
-    scenario : Scenario
+    model : ModelSpec
         The model to tune (not modified).
     measured : sequence of float
         Measured natural frequencies [Hz], each paired with the nearest model mode.
     parameters : sequence of TuningParameter
         What may change, and within which factors.
+
+    Returns
+    -------
+    TunedModel
 
     Raises
     ------
@@ -132,8 +137,8 @@ def tune_scenario(scenario: Scenario, measured: Sequence[float], parameters: Seq
         raise InputValueError("measured: expected one or more frequencies > 0 Hz")
     if not parameters:
         raise InputValueError("parameters: got none; expected at least one spring or mass to adjust")
-    labels = {s.label for s in scenario.model.springs}
-    names = set(scenario.model.labels)
+    labels = {s.label for s in model.springs}
+    names = set(model.labels)
     for p in parameters:
         known = labels if p.kind == "spring" else names
         if p.kind not in ("spring", "mass") or p.name not in known:
@@ -142,13 +147,13 @@ def tune_scenario(scenario: Scenario, measured: Sequence[float], parameters: Seq
             )
         if not (0.0 < p.low < 1.0 < p.high and math.isfinite(p.high)):
             raise InputValueError(f"parameters: {p.name!r} bounds ({p.low}, {p.high}); expected 0 < low < 1 < high")
-    start = _frequencies(scenario)
+    start = _frequencies(model)
     pairing = [int(np.argmin(np.abs(np.log(start / f)))) for f in target]
     if len(set(pairing)) != len(pairing):
         raise InputValueError("measured: two frequencies pair with the same model mode; give one per mode")
 
     def residual(log_factors: np.ndarray) -> np.ndarray:
-        f = _frequencies(_apply(scenario, parameters, np.exp(log_factors)))
+        f = _frequencies(apply_factors(model, parameters, np.exp(log_factors)))
         return f[pairing] / target - 1.0
 
     lower = np.log([p.low for p in parameters])
@@ -157,7 +162,7 @@ def tune_scenario(scenario: Scenario, measured: Sequence[float], parameters: Seq
         residual, np.zeros(len(parameters)), bounds=(lower, upper), xtol=1e-12, ftol=1e-12
     )
     factors = np.exp(solution.x)
-    tuned = _apply(scenario, parameters, factors)
+    tuned = apply_factors(model, parameters, factors)
     after = _frequencies(tuned)[pairing]
     return TunedModel(
         tuned,

@@ -36,11 +36,11 @@ import numpy as np
 import scipy.linalg
 import scipy.optimize
 
-from .._threads import blas_threads_for
 from ..damping import log_decrement
 from ..errors import InputTypeError, InputValueError
 from ..inputs import as_si, as_si_array
 from ..modes import Mode
+from ..threads import blas_threads_for
 from .model import Rotor
 
 __all__ = [

@@ -42,23 +42,23 @@ import numpy as np
 from ..errors import InputValueError
 from ..excitations import Excitation, permissible_unbalance
 from ..rules import RuleSet
-from ..scenario import (
+from ..speed_range import OperatingRange
+from ..tables import (
     MotorSpec,
     RecordSpec,
-    _excitation_table,
-    _excitations,
-    _head,
-    _motor,
-    _motor_table,
-    _Reader,
-    _rules,
-    _rules_table,
-    _speed,
-    _speed_table,
+    TableReader,
+    excitation_table,
+    motor_table,
+    parse_excitations,
+    parse_head,
+    parse_motor,
+    parse_record,
+    parse_rules,
+    parse_speed,
     read_scenario_bytes,
-    record_spec,
+    rules_table,
+    speed_table,
 )
-from ..speed_range import OperatingRange
 from ..units import UnitSystem
 from .analysis import Unbalance
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
@@ -143,7 +143,7 @@ class RotorScenario:
         return out
 
 
-def _material(r: _Reader, raw: Any, field: str) -> Material:
+def _material(r: TableReader, raw: Any, field: str) -> Material:
     if raw is None or raw == "steel":
         return STEEL
     if not isinstance(raw, Mapping):
@@ -159,7 +159,7 @@ def _material(r: _Reader, raw: Any, field: str) -> Material:
     return Material(density, modulus, nu, r.text(raw, "name", f"{field}.name", "material"))
 
 
-def _coefficient(r: _Reader, raw: Any, field: str, kind: str, count: int | None) -> float | tuple[float, ...]:
+def _coefficient(r: TableReader, raw: Any, field: str, kind: str, count: int | None) -> float | tuple[float, ...]:
     if isinstance(raw, list):
         if count is None:
             raise r.fail(field, "got a list; give `speeds` for speed-dependent coefficients")
@@ -169,7 +169,7 @@ def _coefficient(r: _Reader, raw: Any, field: str, kind: str, count: int | None)
     return r.value(raw, field, kind)
 
 
-def _bearing(r: _Reader, item: Any, field: str) -> Bearing:
+def _bearing(r: TableReader, item: Any, field: str) -> Bearing:
     if not isinstance(item, Mapping):
         raise r.fail(field, f"got {item!r}; expected a table")
     r.known(item, ("station", "label", "speeds", "tilt_stiffness", "pedestal", *_COEFFICIENTS), field)
@@ -217,11 +217,11 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     ScenarioError
         Any missing, unknown or invalid field; the message names ``source`` and the field.
     """
-    r = _Reader(source)
+    r = TableReader(source)
     r.known(data, ("scenario", "speed", "excitations", "motor", "margin", "rotor", "record"), "")
-    title, description, units = _head(r, data)
-    speed = _speed(r, r.table(data, "speed", "speed"))
-    motor = _motor(r, r.table(data, "motor", "motor", required=False))
+    title, description, units = parse_head(r, data)
+    speed = parse_speed(r, r.table(data, "speed", "speed"))
+    motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
     rotor = r.table(data, "rotor", "rotor")
     r.known(rotor, ("sweep_max", "modes", "probes", "sections", "discs", "bearings", "unbalance"), "rotor")
     sections = []
@@ -294,8 +294,8 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         description,
         units,
         speed,
-        _excitations(r, r.array(data, "excitations", "excitations"), motor),
-        _rules(r, r.table(data, "margin", "margin", required=False)),
+        parse_excitations(r, r.array(data, "excitations", "excitations"), motor),
+        parse_rules(r, r.table(data, "margin", "margin", required=False)),
         tuple(sections),
         tuple(discs),
         tuple(bearings),
@@ -305,7 +305,7 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         modes,
         source,
         motor,
-        record_spec(r, r.table(data, "record", "record", required=False)),
+        parse_record(r, r.table(data, "record", "record", required=False)),
     )
     others = [e.label for e in scenario.excitations if e.kind != "synchronous"]
     if others and scenario.rules.flat is None:
@@ -393,10 +393,10 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
         unbalance.append(entry)
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
-        "speed": _speed_table(scenario.speed),
-        "excitations": [_excitation_table(e, scenario.motor) for e in scenario.excitations],
-        **({"motor": _motor_table(scenario.motor)} if scenario.motor else {}),
-        "margin": _rules_table(scenario.rules),
+        "speed": speed_table(scenario.speed),
+        "excitations": [excitation_table(e, scenario.motor) for e in scenario.excitations],
+        **({"motor": motor_table(scenario.motor)} if scenario.motor else {}),
+        "margin": rules_table(scenario.rules),
         **({"record": dataclasses.asdict(scenario.record)} if scenario.record != RecordSpec() else {}),
         "rotor": {
             "sweep_max": f"{scenario.sweep_max!r} rpm",

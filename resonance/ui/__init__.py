@@ -6,8 +6,9 @@ and the what-if results, and panels edit a scenario and re-run
 """
 
 from .field_panel import FieldPanel
-from .panels import DesignPanel, RecordPanel, WhatIfPanel, caution_banner, multi_mode_panel, single_mode_panel
+from .panels import DesignPanel, RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
+from .widgets import caution_banner
 
 __all__ = [
     "DesignPanel",

@@ -18,12 +18,12 @@ from .field_plots import (
     update_impact_figure,
     update_polar_figure,
 )
-from .panels import _Panel, _slider_range, _speed_slider, _units_toggle, _verdict_html, caution_banner
+from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
 
 __all__ = ["FieldPanel"]
 
 
-class FieldPanel(_Panel):
+class FieldPanel(Panel):
     """Field verification of a scenario with a ``[field]`` table.
 
     Controls: the operating speed range, the coast-down channel, the fitting band and the units.
@@ -38,7 +38,7 @@ class FieldPanel(_Panel):
         channels = sorted(first.coastdown.channels)
         speeds = first.coastdown.speed
         band = first.spec.band or (float(speeds[0]), float(speeds[-1]))
-        self.speed = _speed_slider(scenario.speed)
+        self.speed = speed_slider(scenario.speed)
         self.channel = w.Dropdown(
             options=channels, value=first.spec.channel, description="channel", style={"description_width": "110px"}
         )
@@ -52,7 +52,7 @@ class FieldPanel(_Panel):
             style={"description_width": "110px"},
             layout=w.Layout(width="520px"),
         )
-        self.units = _units_toggle(scenario.units, "110px")
+        self.units = units_toggle(scenario.units, "110px")
         self.verdict = w.HTML()
         self.message = w.HTML()
         self.findings_html = w.HTML()
@@ -86,7 +86,7 @@ class FieldPanel(_Panel):
 
     def compute(self) -> FieldStudyResult:
         """Re-run the field study for the controls (no drawing)."""
-        self.scenario = self.original.with_speed(_slider_range(self.speed, self.original.speed))
+        self.scenario = self.original.with_speed(slider_range(self.speed, self.original.speed))
         band_low, band_high = self.band.value
         return run_field_study(self.scenario, self.base_dir, self.channel.value, (float(band_low), float(band_high)))
 
@@ -103,7 +103,7 @@ class FieldPanel(_Panel):
         return self.result.summary()
 
     def _render_text(self) -> None:
-        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.verdict.value = verdict_html(self.summary(), self.result.passed)
         self.findings_html.value = self.result.findings.to_html(system=self.system) if self.result.findings else ""
         tuned = self.result.tuned_study
         self.tuned_html.value = tuned.findings.to_html(system=self.system) if tuned is not None else "no tuning asked"

@@ -9,7 +9,7 @@ from plotly.subplots import make_subplots
 from ..field.study import FieldStudyResult
 from ..scenario import Scenario
 from ..units import UnitSystem, display_unit
-from .plots import FAIL, OPERATING, PASS, _vertical_bands
+from .plots import FAIL, OPERATING, PASS, vertical_bands
 
 __all__ = [
     "bode_figure",
@@ -90,7 +90,7 @@ def update_bode_figure(
         fig.data[4].update(
             x=fine if fine is not None else [], y=np.degrees(np.unwrap(-np.angle(fitted))) if fitted is not None else []
         )
-        fig.layout.shapes = _vertical_bands(scenario.speed.intervals, OPERATING, (1, 2))
+        fig.layout.shapes = vertical_bands(scenario.speed.intervals, OPERATING, (1, 2))
         fig.layout.yaxis.title.text = f"amplitude [{unit} pk-pk]"
 
 

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import dataclasses
 import html
-import math
 import os
 from pathlib import Path
 
@@ -20,11 +19,11 @@ import ipywidgets as w
 
 from ..damping import amplification_factor_from_damping_ratio, log_decrement
 from ..errors import InputValueError
-from ..record import CAUTION, Record, build_record, write_json
+from ..record import Record, build_record, write_json
 from ..scenario import Scenario, load_scenario, save_scenario
-from ..speed_range import OperatingRange, operating_range
+from ..speed_range import operating_range
 from ..study import StudyResult, run_study
-from ..units import UnitSystem, display_unit
+from ..units import display_unit
 from ..whatif import ToleranceResult, scaled_model, smallest_change, tolerance_check
 from .plots import (
     findings_table_html,
@@ -35,43 +34,9 @@ from .plots import (
     update_response_figure,
 )
 from .report import write_html
+from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
 
-__all__ = ["caution_banner", "DesignPanel", "single_mode_panel", "multi_mode_panel", "WhatIfPanel", "RecordPanel"]
-
-_BANNER_STYLE = "background:#fff4e0;border-left:6px solid #e08a00;padding:8px 12px;margin:4px 0;font-size:90%"
-
-
-def caution_banner() -> w.HTML:
-    """The caution every notebook shows first."""
-    return w.HTML(f"<div style='{_BANNER_STYLE}'><b>Caution.</b> {html.escape(CAUTION)}</div>")
-
-
-def _verdict_html(text: str, passed: bool) -> str:
-    colour = "#2a9d4b" if passed else "#d62828"
-    lines = "<br>".join(html.escape(line) for line in text.splitlines())
-    return f"<div class='verdict' style='border-left:6px solid {colour};padding:6px 10px'>{lines}</div>"
-
-
-def _speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
-    low, high = speed.speed_min, speed.speed_max
-    step = 10 if high < 6000 else 50
-    return w.IntRangeSlider(
-        value=(round(low), round(high)),
-        min=int(max(step, step * math.floor(0.4 * low / step))),
-        max=int(step * math.ceil(1.6 * high / step)),
-        step=step,
-        description="speed [rpm]",
-        continuous_update=False,
-        layout=w.Layout(width="520px"),
-        style={"description_width": "110px"},
-    )
-
-
-def _slider_range(slider: w.IntRangeSlider, original: OperatingRange) -> OperatingRange:
-    """The range a speed slider shows, keeping the original skip bands that still lie inside it."""
-    low, high = slider.value
-    bands = tuple(b for b in original.skip_bands if low <= b[0] and b[1] <= high)
-    return operating_range(float(low), float(high), bands)
+__all__ = ["DesignPanel", "single_mode_panel", "multi_mode_panel", "WhatIfPanel", "RecordPanel"]
 
 
 def _damping_slider(scenario: Scenario) -> w.FloatSlider:
@@ -93,46 +58,7 @@ def _af_text(zeta: float) -> str:
     return f"AF = 1/(2 zeta) = {af:.1f}; log dec. {float(log_decrement(zeta)[0]):.3f}"
 
 
-def _units_toggle(value: str, label_width: str) -> w.ToggleButtons:
-    return w.ToggleButtons(
-        options=["SI", "US"],
-        value=value,
-        description="units",
-        style={"description_width": label_width, "button_width": "60px"},
-    )
-
-
-class _Panel:
-    """What every panel shares: the widget it shows, the unit switch, live updates, error display."""
-
-    widget: w.VBox
-    units: w.ToggleButtons | None
-    message: w.HTML
-
-    @property
-    def system(self) -> UnitSystem:
-        """The unit system shown."""
-        return self.units.value if self.units is not None else "SI"  # type: ignore[no-any-return]
-
-    def update(self) -> None:
-        """Recompute and refresh the views (each panel defines it)."""
-        raise NotImplementedError
-
-    def _changed(self, _change: object) -> None:
-        try:
-            self.update()
-            self.message.value = ""
-        except InputValueError as error:
-            self._error(str(error))
-
-    def _error(self, text: str) -> None:
-        self.message.value = f"<span style='color:#d62828'>{html.escape(text)}</span>"
-
-    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
-
-
-class DesignPanel(_Panel):
+class DesignPanel(Panel):
     """Live check of one scenario: speed range, damping and units as controls.
 
     Parameters
@@ -158,10 +84,10 @@ class DesignPanel(_Panel):
         self.original = scenario
         self.scenario = scenario
         self.views = views
-        self.speed = _speed_slider(scenario.speed)
+        self.speed = speed_slider(scenario.speed)
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML()
-        self.units = _units_toggle(scenario.units, "110px")
+        self.units = units_toggle(scenario.units, "110px")
         self.point = w.Dropdown(
             options=list(scenario.model.labels),
             value=scenario.response.measure_at,
@@ -190,7 +116,7 @@ class DesignPanel(_Panel):
     # -- state ------------------------------------------------------------
     def edited_scenario(self) -> Scenario:
         """The scenario with the controls' values applied."""
-        edited = self.original.with_speed(_slider_range(self.speed, self.original.speed))
+        edited = self.original.with_speed(slider_range(self.speed, self.original.speed))
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
         response = dataclasses.replace(edited.response, measure_at=self.point.value)
         return edited.replace(model=model, response=response, units=self.system)
@@ -238,7 +164,7 @@ class DesignPanel(_Panel):
 
     def _render_text(self) -> None:
         self.af_label.value = _af_text(float(self.damping.value))
-        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.verdict.value = verdict_html(self.summary(), self.result.passed)
         self.findings_html.value = findings_table_html(self.result, self.system)
         self.modes_html.value = modes_table_html(self.result, self.system)
 
@@ -275,7 +201,7 @@ def multi_mode_panel(scenario: Scenario) -> DesignPanel:
     return DesignPanel(scenario, views=("response", "modes", "interference", "findings"))
 
 
-class WhatIfPanel(_Panel):
+class WhatIfPanel(Panel):
     """What-if study: scale support stiffness and mass, move the range, add a skip band.
 
     Also finds the smallest stiffness or mass change that makes every check
@@ -305,7 +231,7 @@ class WhatIfPanel(_Panel):
         )
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML(_af_text(scenario.model.damping_ratio))
-        self.speed = _speed_slider(scenario.speed)
+        self.speed = speed_slider(scenario.speed)
         low, high = scenario.speed.speed_min, scenario.speed.speed_max
         band = (
             scenario.speed.skip_bands[0]
@@ -334,7 +260,7 @@ class WhatIfPanel(_Panel):
             style=style,
             layout=wide,
         )
-        self.units = _units_toggle(scenario.units, "130px")
+        self.units = units_toggle(scenario.units, "130px")
         self.find_stiffness = w.Button(description="Smallest stiffness fix")
         self.find_mass = w.Button(description="Smallest mass fix")
         self.values = w.HTML()
@@ -436,12 +362,12 @@ class WhatIfPanel(_Panel):
         ]
         self.values.value = "<small>" + html.escape("; ".join(parts)) + "</small>"
         self.af_label.value = _af_text(float(self.damping.value))
-        self.verdict.value = _verdict_html(self.result.summary(self.system), self.result.passed)
-        self.tolerance_text.value = _verdict_html(self.band.summary(), self.band.passed)
+        self.verdict.value = verdict_html(self.result.summary(self.system), self.result.passed)
+        self.tolerance_text.value = verdict_html(self.band.summary(), self.band.passed)
         self.findings_html.value = findings_table_html(self.result, self.system)
 
 
-class RecordPanel(_Panel):
+class RecordPanel(Panel):
     """Load a scenario file, run every check, show the record and export it.
 
     After loading, the speed range and damping can be changed for a
@@ -489,8 +415,8 @@ class RecordPanel(_Panel):
             self._error(str(error))
             return False
         self.original = scenario
-        self.speed, self.damping = _speed_slider(scenario.speed), _damping_slider(scenario)
-        self.units = _units_toggle(scenario.units, "110px")
+        self.speed, self.damping = speed_slider(scenario.speed), _damping_slider(scenario)
+        self.units = units_toggle(scenario.units, "110px")
         for control in (self.speed, self.damping, self.units):
             control.observe(self._changed, names="value")
         self.controls.children = (self.speed, self.damping, self.units)
@@ -501,7 +427,7 @@ class RecordPanel(_Panel):
         """The loaded scenario with the panel's speed range, damping and unit system."""
         if self.original is None or self.speed is None or self.damping is None or self.units is None:
             raise InputValueError("scenario: none loaded; load a scenario file first")
-        edited = self.original.with_speed(_slider_range(self.speed, self.original.speed))
+        edited = self.original.with_speed(slider_range(self.speed, self.original.speed))
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
         return edited.replace(model=model, units=self.units.value)
 
@@ -510,7 +436,7 @@ class RecordPanel(_Panel):
         result = run_study(self.edited_scenario())
         self.result, self.record = result, build_record(result)
         self.text.value = f"<pre style='font-size:85%'>{html.escape(self.record.text)}</pre>"
-        self.message.value = _verdict_html(result.summary(result.scenario.units), result.passed)
+        self.message.value = verdict_html(result.summary(result.scenario.units), result.passed)
 
     def export(self) -> tuple[Path, Path] | None:
         """Write the HTML and JSON records to the export folder."""

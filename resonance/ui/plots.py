@@ -22,6 +22,7 @@ from ..units import UnitSystem, display_unit
 from ..whatif import ToleranceResult
 
 __all__ = [
+    "vertical_bands",
     "response_figure",
     "update_response_figure",
     "interference_figure",
@@ -39,7 +40,7 @@ PASS = "#2a9d4b"
 FAIL = "#d62828"
 
 
-def _vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
+def vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
     """Rectangles spanning the full height of the given subplot rows, one per speed span."""
     shapes = []
     for low, high in spans:
@@ -98,8 +99,8 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
         for f in result.findings
         if f.excitation.kind == "synchronous" and f.coincidence_speed is not None and f.margin_rule is not None
     ]
-    shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2, 3))
-    shapes += _vertical_bands(clear, CLEAR_BAND, (1, 2, 3))
+    shapes = vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2, 3))
+    shapes += vertical_bands(clear, CLEAR_BAND, (1, 2, 3))
     with fig.batch_update():
         fig.data[0].update(x=result.speed, y=pk_pk)
         hp = result.half_power
@@ -159,7 +160,7 @@ def update_interference_figure(
     fixed = [e.frequency for e in result.scenario.excitations if e.frequency is not None]
     top_order = max((e.order for e in result.scenario.excitations if e.order is not None), default=1.0)
     y_max = 1.25 * max([*frequencies, *fixed, top_order * speed_max / 60.0]) * f_factor
-    shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
+    shapes = vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
     xs, ys, colours, texts = [], [], [], []
     for finding in result.findings:
         if finding.coincidence_speed is None:

@@ -8,7 +8,6 @@ import ipywidgets as w
 
 from ..rotor.scenario import RotorScenario
 from ..rotor.study import RotorStudyResult, run_rotor_study
-from .panels import _Panel, _slider_range, _speed_slider, _units_toggle, _verdict_html, caution_banner
 from .plots import findings_table_html
 from .rotor_plots import (
     campbell_figure,
@@ -20,6 +19,7 @@ from .rotor_plots import (
     update_rotor_response_figure,
     update_speed_map_figure,
 )
+from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
 
 __all__ = ["RotorPanel"]
 
@@ -40,7 +40,7 @@ def _factor_slider(label: str) -> w.FloatLogSlider:
     )
 
 
-class RotorPanel(_Panel):
+class RotorPanel(Panel):
     """Live rotor critical-speed check of a rotor scenario.
 
     Controls: the operating speed range, factors on every bearing's stiffness
@@ -51,7 +51,7 @@ class RotorPanel(_Panel):
     def __init__(self, scenario: RotorScenario):
         self.original = scenario
         self.scenario = scenario
-        self.speed = _speed_slider(scenario.speed)
+        self.speed = speed_slider(scenario.speed)
         self.stiffness = _factor_slider("bearing stiffness x")
         self.damping = _factor_slider("bearing damping x")
         self.shape_speed = w.IntSlider(
@@ -64,7 +64,7 @@ class RotorPanel(_Panel):
             style={"description_width": "150px"},
             layout=w.Layout(width="540px"),
         )
-        self.units = _units_toggle(scenario.units, "110px")
+        self.units = units_toggle(scenario.units, "110px")
         self.verdict = w.HTML()
         self.message = w.HTML()
         self.findings_html = w.HTML()
@@ -97,7 +97,7 @@ class RotorPanel(_Panel):
 
     def edited_scenario(self) -> RotorScenario:
         """The scenario with the panel's speed range and unit system."""
-        speed = _slider_range(self.speed, self.original.speed)
+        speed = slider_range(self.speed, self.original.speed)
         sweep = max(self.original.sweep_max, 1.25 * speed.speed_max)
         return self.original.replace(speed=speed, units=self.system, sweep_max=sweep)
 
@@ -122,5 +122,5 @@ class RotorPanel(_Panel):
         return self.result.summary(self.system)
 
     def _render_text(self) -> None:
-        self.verdict.value = _verdict_html(self.summary(), self.result.passed)
+        self.verdict.value = verdict_html(self.summary(), self.result.passed)
         self.findings_html.value = findings_table_html(self.result, self.system)  # type: ignore[arg-type]

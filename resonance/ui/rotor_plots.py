@@ -12,7 +12,7 @@ from plotly.subplots import make_subplots
 from ..margins import clear_band
 from ..rotor.study import RotorStudyResult
 from ..units import UnitSystem, display_unit
-from .plots import CLEAR_BAND, FAIL, OPERATING, PASS, _vertical_bands
+from .plots import CLEAR_BAND, FAIL, OPERATING, PASS, vertical_bands
 
 __all__ = [
     "campbell_figure",
@@ -75,7 +75,7 @@ def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: Uni
             ],
             hovertemplate="%{text}<extra></extra>",
         )
-        fig.layout.shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
+        fig.layout.shapes = vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
         # Show what the orders can reach: twice the highest order line at the end of the sweep.
         top_order = max((e.order for e in result.scenario.excitations if e.order is not None), default=1.0)
         y_max = max(2.0 * top_order * x_max / 60.0, *(1.1 * c.frequency for c in result.criticals))
@@ -125,8 +125,8 @@ def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, syste
             fig.data[j].update(x=response.speed, y=response.major_pk_pk[:, j] * d_factor)
             fig.data[n + j].update(x=response.speed, y=response.x_phase_lag_deg[:, j])
         fig.data[-1].update(x=[response.speed[0], response.speed[-1]], y=[result.vibration_limit * d_factor] * 2)
-        shapes = _vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2))
-        fig.layout.shapes = shapes + _vertical_bands(clear, CLEAR_BAND, (1, 2))
+        shapes = vertical_bands(result.scenario.speed.intervals, OPERATING, (1, 2))
+        fig.layout.shapes = shapes + vertical_bands(clear, CLEAR_BAND, (1, 2))
         fig.layout.yaxis.title.text = f"major axis [{d_unit} pk-pk]"
         for axis in (fig.layout.xaxis, fig.layout.xaxis2):
             axis.range = [float(response.speed[0]), float(response.speed[-1])]

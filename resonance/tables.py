@@ -1,0 +1,471 @@
+"""Reading and writing scenario tables: the parts every kind of scenario shares.
+
+A scenario file is TOML; every kind of study (support, rotor, field verification, and those to come)
+reads its own tables with a :class:`TableReader`, whose errors name the file and the field
+(``pump.toml: speed.max: ...``), and shares the head (``[scenario]``), the speed range (``[speed]``), the
+excitations and the motor (``[[excitations]]``, ``[motor]``), the margin rules (``[margin]``) and the
+revision fields (``[record]``) through the functions here. Values are numbers in the package convention
+or text with a unit (:func:`resonance.inputs.parse_quantity`); files are only read, and written only
+through :func:`write_scenario_table`, which never overwrites unless told to.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import hashlib
+import os
+import sys
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import tomli_w
+
+from .errors import InputTypeError, InputValueError
+from .excitations import EXCITATION_KINDS, Excitation, drive_electrical, line_frequency
+from .inputs import as_si, parse_quantity
+from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
+from .modes import MODE_KINDS
+from .rules import TORSIONAL_RULE, RuleSet, is_flat
+from .speed_range import OperatingRange, operating_range
+from .units import UNIT_SYSTEMS, UnitSystem
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
+
+__all__ = [
+    "MotorSpec",
+    "RecordSpec",
+    "ScenarioError",
+    "TableReader",
+    "excitation_table",
+    "motor_table",
+    "parse_excitations",
+    "parse_head",
+    "parse_motor",
+    "parse_percent",
+    "parse_record",
+    "parse_rule",
+    "parse_rules",
+    "parse_speed",
+    "read_scenario_bytes",
+    "read_scenario_file",
+    "rule_table",
+    "rules_table",
+    "speed_table",
+    "write_scenario_table",
+]
+
+
+class ScenarioError(InputValueError):
+    """A scenario file or table is invalid; the message names the file and field."""
+
+
+@dataclass(frozen=True)
+class MotorSpec:
+    """The driving motor, for its electrical excitations.
+
+    Attributes
+    ----------
+    supply : {"drive", "line"}
+        On a variable-speed drive (electrical frequency follows the speed) or
+        on the line (fixed at ``line_frequency``).
+    poles : int or None
+        Number of poles (drive supply).
+    slip : float
+        Slip at the load of interest [-] (drive supply; 0 for a synchronous motor).
+    line_frequency : float or None
+        Supply frequency [Hz] (line supply).
+    """
+
+    supply: str
+    poles: int | None
+    slip: float
+    line_frequency: float | None
+
+    def excitation(self, multiple: float, label: str | None = None) -> Excitation:
+        """The electrical excitation at ``multiple`` x the electrical frequency."""
+        if self.supply == "drive":
+            assert self.poles is not None  # validated with the supply
+            return drive_electrical(self.poles, self.slip, multiple, label)
+        assert self.line_frequency is not None
+        e = line_frequency(self.line_frequency, multiple)
+        return e if label is None else dataclasses.replace(e, label=label)
+
+
+@dataclass(frozen=True)
+class RecordSpec:
+    """Revision control of the record: who prepared and checked it, which revision, when (text as given)."""
+
+    preparer: str = ""
+    checker: str = ""
+    revision: str = ""
+    date: str = ""
+
+
+class TableReader:
+    """Reads the tables of one scenario source; every error names the source and the field.
+
+    Parameters
+    ----------
+    source : str
+        The file name (or ``"<scenario>"``) errors start with.
+    """
+
+    def __init__(self, source: str) -> None:
+        self.source = source
+
+    def fail(self, field: str, message: str) -> ScenarioError:
+        """A :class:`ScenarioError` naming the source and ``field``."""
+        return ScenarioError(f"{self.source}: {field}: {message}")
+
+    def table(self, data: Mapping[str, Any], key: str, field: str, required: bool = True) -> Mapping[str, Any]:
+        """The sub-table ``key`` (an empty one when optional and absent)."""
+        if key not in data:
+            if required:
+                raise self.fail(field, "missing; expected a table")
+            return {}
+        value = data[key]
+        if not isinstance(value, Mapping):
+            raise self.fail(field, f"got {value!r}; expected a table")
+        return value
+
+    def known(self, data: Mapping[str, Any], allowed: Sequence[str], field: str) -> None:
+        """Refuse keys other than ``allowed``, naming the first unknown field."""
+        unknown = sorted(set(data) - set(allowed))
+        if unknown:
+            raise self.fail(
+                f"{field}.{unknown[0]}" if field else unknown[0], f"unknown field; expected one of {sorted(allowed)}"
+            )
+
+    def text(self, data: Mapping[str, Any], key: str, field: str, default: str | None = None) -> str:
+        """A text field (``default`` when absent, or an error if there is none)."""
+        if key not in data:
+            if default is None:
+                raise self.fail(field, "missing; expected text")
+            return default
+        value = data[key]
+        if not isinstance(value, str):
+            raise self.fail(field, f"got {value!r}; expected text")
+        return value
+
+    def quantity(self, data: Mapping[str, Any], key: str, field: str, kind: str, sign: str = "any") -> float:
+        """A required value of ``kind`` in the package convention (see :meth:`value`)."""
+        if key not in data:
+            raise self.fail(field, f"missing; expected a {kind.replace('_', ' ')}")
+        return self.value(data[key], field, kind, sign)
+
+    def value(self, raw: Any, field: str, kind: str, sign: str = "any") -> float:
+        """A number or text with a unit, converted to the package convention of ``kind`` and checked for ``sign``."""
+        if isinstance(raw, bool):
+            raise self.fail(field, f"got {raw!r}; expected a number or a value with a unit")
+        try:
+            if isinstance(raw, str):
+                raw = parse_quantity(raw, "value")  # exactly one number and a unit, or refused
+            return as_si(raw, "value", kind, sign)  # type: ignore[arg-type]
+        except (InputTypeError, InputValueError) as error:
+            raise self.fail(field, str(error).removeprefix("value: ")) from None
+
+    def integer(self, data: Mapping[str, Any], key: str, field: str, default: int | None = None) -> int:
+        """A whole number (``default`` when absent)."""
+        if key not in data:
+            if default is None:
+                raise self.fail(field, "missing; expected a whole number")
+            return default
+        value = data[key]
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise self.fail(field, f"got {value!r}; expected a whole number")
+        return value
+
+    def array(self, data: Mapping[str, Any], key: str, field: str, required: bool = True) -> list[Any]:
+        """A list (empty when optional and absent)."""
+        if key not in data:
+            if required:
+                raise self.fail(field, "missing; expected a list")
+            return []
+        value = data[key]
+        if not isinstance(value, list):
+            raise self.fail(field, f"got {value!r}; expected a list")
+        return value
+
+
+def parse_head(r: TableReader, data: Mapping[str, Any]) -> tuple[str, str, UnitSystem]:
+    """The ``[scenario]`` table: title, description and unit system."""
+    head = r.table(data, "scenario", "scenario")
+    r.known(head, ("title", "description", "units"), "scenario")
+    units = r.text(head, "units", "scenario.units", "SI")
+    if units not in UNIT_SYSTEMS:
+        raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
+    return r.text(head, "title", "scenario.title"), r.text(head, "description", "scenario.description", ""), units  # type: ignore[return-value]
+
+
+def parse_speed(r: TableReader, speed: Mapping[str, Any]) -> OperatingRange:
+    """The ``[speed]`` table: the operating range with its skip bands [rpm]."""
+    r.known(speed, ("min", "max", "skip_bands"), "speed")
+    low = r.quantity(speed, "min", "speed.min", "speed", "positive")
+    high = r.quantity(speed, "max", "speed.max", "speed", "positive")
+    if low > high:
+        raise r.fail("speed.max", f"got {high:g} rpm, below speed.min = {low:g} rpm; expected min <= max")
+    bands = []
+    for i, band in enumerate(r.array(speed, "skip_bands", "speed.skip_bands", required=False)):
+        if not isinstance(band, list) or len(band) != 2:
+            raise r.fail(f"speed.skip_bands[{i}]", f"got {band!r}; expected [low, high]")
+        bands.append(tuple(r.value(b, f"speed.skip_bands[{i}]", "speed", "positive") for b in band))
+    try:
+        return operating_range(low, high, bands)  # type: ignore[arg-type]
+    except InputValueError as error:
+        raise r.fail("speed.skip_bands", str(error)) from None
+
+
+def speed_table(speed: OperatingRange) -> dict[str, Any]:
+    """An operating range as a ``[speed]`` table."""
+    return {
+        "min": f"{speed.speed_min!r} rpm",
+        "max": f"{speed.speed_max!r} rpm",
+        "skip_bands": [[f"{a!r} rpm", f"{b!r} rpm"] for a, b in speed.skip_bands],
+    }
+
+
+def excitation_table(e: Excitation, motor: MotorSpec | None = None) -> dict[str, Any]:
+    """An excitation as an ``[[excitations]]`` entry (electrical ones as multiples of the motor's ``f_e``)."""
+    if e.kind == "electrical" and motor is not None:
+        base = motor.excitation(1.0)
+        multiple = (e.order / base.order) if e.order is not None else (e.frequency / base.frequency)  # type: ignore[operator]
+        if motor.excitation(multiple).label == e.label:
+            return {"electrical": multiple}
+        return {"electrical": multiple, "label": e.label}
+    key = {"order": e.order} if e.order is not None else {"frequency": f"{e.frequency!r} Hz"}
+    return {**key, "label": e.label}
+
+
+def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
+    """The ``[motor]`` table: supply, poles and slip, or line frequency; None when absent."""
+    if not data:
+        return None
+    r.known(data, ("supply", "poles", "slip", "line_frequency"), "motor")
+    supply = r.text(data, "supply", "motor.supply")
+    if supply == "drive":
+        if "line_frequency" in data:
+            raise r.fail("motor.line_frequency", "a drive-fed motor's frequency follows the speed; remove it")
+        poles = r.integer(data, "poles", "motor.poles")
+        if not 2 <= poles <= 96 or poles % 2:
+            raise r.fail("motor.poles", f"got {poles!r}; expected an even whole number from 2 to 96")
+        if "slip" not in data:
+            raise r.fail("motor.slip", "missing; expected the slip at the load of interest (0 for a synchronous motor)")
+        slip = r.value(data["slip"], "motor.slip", "ratio", "nonnegative")
+        if not slip < 0.2:
+            raise r.fail("motor.slip", f"got {slip:g}; expected a fraction below 0.2 (1.3 % slip is 0.013)")
+        return MotorSpec("drive", poles, slip, None)
+    if supply == "line":
+        for key in ("poles", "slip"):
+            if key in data:
+                raise r.fail(f"motor.{key}", "not used for a motor on the line; remove it")
+        f = r.quantity(data, "line_frequency", "motor.line_frequency", "frequency", "positive")
+        return MotorSpec("line", None, 0.0, f)
+    raise r.fail("motor.supply", f"got {supply!r}; expected 'drive' or 'line'")
+
+
+def parse_excitations(r: TableReader, items: list[Any], motor: MotorSpec | None = None) -> tuple[Excitation, ...]:
+    """The ``[[excitations]]`` list: orders, fixed frequencies and electrical multiples, with distinct labels."""
+    out = []
+    keys = ("order", "frequency", "electrical")
+    for i, item in enumerate(items):
+        field = f"excitations[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with order, frequency or electrical")
+        r.known(item, (*keys, "label"), field)
+        if sum(k in item for k in keys) != 1:
+            raise r.fail(
+                field,
+                "give exactly one of order (multiple of running speed), frequency (fixed) or electrical "
+                "(multiple of the motor's electrical frequency)",
+            )
+        label = r.text(item, "label", f"{field}.label", "") or None
+        if "order" in item:
+            order = r.value(item["order"], f"{field}.order", "ratio", "positive")
+            out.append(Excitation(label or f"{order:g}x", order=order))
+        elif "frequency" in item:
+            frequency = r.value(item["frequency"], f"{field}.frequency", "frequency", "positive")
+            out.append(Excitation(label or f"{frequency:g} Hz", frequency=frequency))
+        else:
+            if motor is None:
+                raise r.fail(f"{field}.electrical", "needs a [motor] table (supply, poles and slip, or line_frequency)")
+            multiple = r.value(item["electrical"], f"{field}.electrical", "ratio", "positive")
+            out.append(motor.excitation(multiple, label))
+    if not out:
+        raise r.fail("excitations", "empty; expected at least one excitation")
+    labels = [e.label for e in out]
+    repeated = sorted({x for x in labels if labels.count(x) > 1})
+    if repeated:
+        raise r.fail("excitations", f"label {repeated[0]!r} is used twice; expected distinct labels")
+    return tuple(out)
+
+
+def parse_percent(r: TableReader, raw: Any, field: str) -> float:
+    """A percentage written as a plain number in (0, 100)."""
+    # A percentage is a plain number: "15 %" text would be read by pint as 0.15.
+    if isinstance(raw, bool) or not isinstance(raw, (int, float)):
+        raise r.fail(field, f"got {raw!r}; expected a plain number of percent (for 15 % write 15)")
+    if not 0 < raw < 100:  # compared as given: a huge integer must not overflow a float
+        raise r.fail(field, f"got {raw!r}; expected a percentage between 0 and 100")
+    return float(raw)
+
+
+def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
+    """The ``[margin]`` table as a :class:`~resonance.rules.RuleSet` (see :mod:`resonance.scenario`)."""
+    r.known(data, ("rule", "table", "name", "source", "flat", "torsional", "pairs"), "margin")
+    lateral = parse_rule(r, data)
+    flat: FlatRule | None = None
+    if "flat" in data:
+        flat = FlatRule(parse_percent(r, data["flat"], "margin.flat"))
+    elif is_flat(lateral):
+        flat = lateral  # type: ignore[assignment]  # rule = "flat-P": P % for every pair
+    torsional = TORSIONAL_RULE
+    if "torsional" in data:
+        percent = parse_percent(r, data["torsional"], "margin.torsional")
+        torsional = FlatRule(percent, name=f"torsional {percent:g} %", source=f"given in {r.source}")
+    overrides = []
+    for i, item in enumerate(r.array(data, "pairs", "margin.pairs", required=False)):
+        field = f"margin.pairs[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with mode, excitation and rule")
+        r.known(item, ("mode", "excitation", "rule"), field)
+        mode = r.text(item, "mode", f"{field}.mode")
+        if mode not in MODE_KINDS:
+            raise r.fail(f"{field}.mode", f"got {mode!r}; expected one of {list(MODE_KINDS)}")
+        excitation = r.text(item, "excitation", f"{field}.excitation")
+        if excitation not in EXCITATION_KINDS:
+            raise r.fail(f"{field}.excitation", f"got {excitation!r}; expected one of {list(EXCITATION_KINDS)}")
+        try:
+            rule = rule_by_name(r.text(item, "rule", f"{field}.rule"))
+        except InputValueError as error:
+            raise r.fail(f"{field}.rule", str(error).removeprefix("rule: ")) from None
+        overrides.append((mode, excitation, rule))
+    try:
+        return RuleSet(lateral, flat, torsional, tuple(overrides))  # type: ignore[arg-type]
+    except InputValueError as error:
+        raise r.fail("margin.pairs", str(error).split(": ", 1)[1]) from None
+
+
+def parse_rule(r: TableReader, data: Mapping[str, Any]) -> MarginRule:
+    """The rotor lateral 1x rule of a ``[margin]`` table: a name or an AF table."""
+    if "table" in data:
+        table = r.table(data, "table", "margin.table")
+        r.known(table, ("amplification_factors", "below", "above"), "margin.table")
+        arrays = {}
+        for key in ("amplification_factors", "below", "above"):
+            values = r.array(table, key, f"margin.table.{key}")
+            arrays[key] = tuple(r.value(v, f"margin.table.{key}[{j}]", "ratio") for j, v in enumerate(values))
+        try:
+            return TableRule(
+                arrays["amplification_factors"],
+                arrays["below"],
+                arrays["above"],
+                r.text(data, "name", "margin.name", "user table"),
+                r.text(data, "source", "margin.source", f"user-defined in {r.source}"),
+            )
+        except InputValueError as error:
+            raise r.fail("margin.table", str(error)) from None
+    name = r.text(data, "rule", "margin.rule", "api-lateral")
+    try:
+        return rule_by_name(name)
+    except InputValueError as error:
+        raise r.fail("margin.rule", str(error).removeprefix("rule: ")) from None
+
+
+def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
+    """The ``[record]`` table: preparer, checker, revision and date, as text."""
+    r.known(data, ("preparer", "checker", "revision", "date"), "record")
+    values = {}
+    for key in ("preparer", "checker", "revision", "date"):
+        raw = data.get(key, "")
+        if hasattr(raw, "isoformat"):  # a TOML date
+            raw = raw.isoformat()
+        if not isinstance(raw, str):
+            raise r.fail(f"record.{key}", f"got {raw!r}; expected text")
+        values[key] = raw
+    return RecordSpec(**values)
+
+
+def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
+    """The tables of a scenario file (TOML), unvalidated. The file is only read.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing or is not valid TOML.
+    """
+    return read_scenario_bytes(path)[0]
+
+
+def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], str]:
+    """The tables of a scenario file and the SHA-256 of the very bytes they were read from.
+
+    Raises
+    ------
+    ScenarioError
+        The file is missing or is not valid TOML.
+    """
+    name = os.fspath(path)
+    try:
+        raw = Path(path).read_bytes()
+    except OSError as error:
+        raise ScenarioError(f"{name}: cannot be read ({error.strerror})") from None
+    try:
+        return tomllib.loads(raw.decode("utf-8")), hashlib.sha256(raw).hexdigest()
+    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
+        raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
+
+
+def rules_table(rules: RuleSet) -> dict[str, Any]:
+    """A rule set as a ``[margin]`` table."""
+    out = rule_table(rules.lateral_1x)
+    if rules.flat is not None:
+        out["flat"] = rules.flat.percent
+    if rules.torsional != TORSIONAL_RULE:
+        out["torsional"] = rules.torsional.percent
+    if rules.overrides:
+        out["pairs"] = [
+            {"mode": m, "excitation": e, "rule": rule_table(rule)["rule"]} for m, e, rule in rules.overrides
+        ]
+    return out
+
+
+def rule_table(rule: MarginRule) -> dict[str, Any]:
+    """One rule as ``[margin]`` keys."""
+    if isinstance(rule, ApiLateralRule):
+        return {"rule": "api-lateral"}
+    if isinstance(rule, FlatRule):
+        return {"rule": f"flat-{rule.percent:g}"}
+    if isinstance(rule, TableRule):
+        return {
+            "name": rule.name,
+            "source": rule.source,
+            "table": {
+                "amplification_factors": list(rule.amplification_factors),
+                "below": list(rule.below),
+                "above": list(rule.above),
+            },
+        }
+    raise InputTypeError(f"rule: a {type(rule).__name__} cannot be saved to a scenario file")
+
+
+def motor_table(motor: MotorSpec) -> dict[str, Any]:
+    """A motor as a ``[motor]`` table."""
+    if motor.supply == "drive":
+        return {"supply": "drive", "poles": motor.poles, "slip": motor.slip}
+    return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz"}
+
+
+def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str], overwrite: bool = False) -> Path:
+    """Write scenario tables as TOML through a temporary file; an existing file is kept unless ``overwrite``."""
+    target = Path(path)
+    if target.exists() and not overwrite:
+        raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")
+    temporary = target.with_name(f".{target.name}.tmp")
+    temporary.write_text(tomli_w.dumps(table), encoding="utf-8")
+    os.replace(temporary, target)
+    return target

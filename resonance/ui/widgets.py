@@ -1,0 +1,96 @@
+"""What every panel shares: the caution banner, the verdict box, the speed and unit controls, the panel base.
+
+Panels (:mod:`resonance.ui.panels`, :mod:`resonance.ui.rotor_panel`, :mod:`resonance.ui.field_panel` and
+those to come) build on :class:`Panel` and these controls, so they look and behave alike.
+"""
+
+from __future__ import annotations
+
+import html
+import math
+
+import ipywidgets as w
+
+from ..errors import InputValueError
+from ..record import CAUTION
+from ..speed_range import OperatingRange, operating_range
+from ..units import UnitSystem
+
+__all__ = ["Panel", "caution_banner", "slider_range", "speed_slider", "units_toggle", "verdict_html"]
+
+_BANNER_STYLE = "background:#fff4e0;border-left:6px solid #e08a00;padding:8px 12px;margin:4px 0;font-size:90%"
+
+
+def caution_banner() -> w.HTML:
+    """The caution every notebook shows first."""
+    return w.HTML(f"<div style='{_BANNER_STYLE}'><b>Caution.</b> {html.escape(CAUTION)}</div>")
+
+
+def verdict_html(text: str, passed: bool) -> str:
+    """The verdict lines as an HTML box, green when passed and red otherwise."""
+    colour = "#2a9d4b" if passed else "#d62828"
+    lines = "<br>".join(html.escape(line) for line in text.splitlines())
+    return f"<div class='verdict' style='border-left:6px solid {colour};padding:6px 10px'>{lines}</div>"
+
+
+def speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
+    """A range slider [rpm] around an operating range (0.4 to 1.6 times its ends)."""
+    low, high = speed.speed_min, speed.speed_max
+    step = 10 if high < 6000 else 50
+    return w.IntRangeSlider(
+        value=(round(low), round(high)),
+        min=int(max(step, step * math.floor(0.4 * low / step))),
+        max=int(step * math.ceil(1.6 * high / step)),
+        step=step,
+        description="speed [rpm]",
+        continuous_update=False,
+        layout=w.Layout(width="520px"),
+        style={"description_width": "110px"},
+    )
+
+
+def slider_range(slider: w.IntRangeSlider, original: OperatingRange) -> OperatingRange:
+    """The range a speed slider shows, keeping the original skip bands that still lie inside it."""
+    low, high = slider.value
+    bands = tuple(b for b in original.skip_bands if low <= b[0] and b[1] <= high)
+    return operating_range(float(low), float(high), bands)
+
+
+def units_toggle(value: str, label_width: str) -> w.ToggleButtons:
+    """The SI / US customary switch."""
+    return w.ToggleButtons(
+        options=["SI", "US"],
+        value=value,
+        description="units",
+        style={"description_width": label_width, "button_width": "60px"},
+    )
+
+
+class Panel:
+    """What every panel shares: the widget it shows, the unit switch, live updates, error display."""
+
+    widget: w.VBox
+    units: w.ToggleButtons | None
+    message: w.HTML
+
+    @property
+    def system(self) -> UnitSystem:
+        """The unit system shown."""
+        return self.units.value if self.units is not None else "SI"  # type: ignore[no-any-return]
+
+    def update(self) -> None:
+        """Recompute and refresh the views (each panel defines it)."""
+        raise NotImplementedError
+
+    def _changed(self, _change: object) -> None:
+        try:
+            self.update()
+            self.message.value = ""
+        except InputValueError as error:
+            self._error(str(error))
+
+    def _error(self, text: str) -> None:
+        self.message.value = f"<span style='color:#d62828'>{html.escape(text)}</span>"
+
+    def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
+        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
