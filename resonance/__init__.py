@@ -38,6 +38,9 @@ from .excitations import (
     twice_line_frequency,
     unbalance_force,
 )
+
+# The flows (scenario -> study -> record), so notebooks import from one place.
+from .field.study import run_field_study
 from .frf import accelerance, mobility, model_receptance, receptance
 from .harmonic import acceleration_amplitude, convert_amplitude, velocity_amplitude
 from .interference import Finding, FindingsTable, interference_check
@@ -55,7 +58,11 @@ from .margins import (
 )
 from .model import GROUND, MatrixModel, Spring, chain_model, lumped_model, matrix_model
 from .modes import Mode, ModeSet, modal_properties, modes
+from .record import build_record
+from .rotor.scenario import load_rotor_scenario
+from .rotor.study import run_rotor_study
 from .rules import RuleSet
+from .scenario import load_scenario
 from .sdof import (
     SteadyState,
     base_excitation_response,
@@ -70,6 +77,8 @@ from .sdof import (
     unbalance_response,
 )
 from .speed_range import OperatingRange, operating_range
+from .studies import StudyOutcome, run_scenario_file
+from .study import run_study
 from .units import Quantity, display_unit, ureg
 
 __all__ = [
@@ -154,4 +163,13 @@ __all__ = [
     "iso_velocity_zone",
     "api_shaft_vibration_limit",
     "support_class",
+    # flows
+    "load_scenario",
+    "run_study",
+    "load_rotor_scenario",
+    "run_rotor_study",
+    "run_field_study",
+    "run_scenario_file",
+    "StudyOutcome",
+    "build_record",
 ]

@@ -1,7 +1,7 @@
 """The ``check`` and ``compare`` commands.
 
 ``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` runs a
-support scenario, or a rotor scenario (one with a ``rotor`` table), prints the
+scenario of any registered kind (:mod:`resonance.studies`: support, rotor), prints the
 text record, writes the self-contained HTML record and the JSON of inputs and
 findings when asked, and exits 0 when every check passes (``PASS`` or ``PASS
 WITH EXEMPTION``), 1 when any fails, and 2 on bad input (with a message naming
@@ -25,9 +25,9 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from .errors import InputTypeError, InputValueError
-from .record import atomic_write, build_record
-from .scenario import parse_scenario, read_scenario_bytes
-from .study import run_study
+from .record import atomic_write
+from .studies import study_kind_for
+from .tables import read_scenario_bytes
 
 __all__ = ["main"]
 
@@ -102,58 +102,25 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 
 
 def _check(args: argparse.Namespace) -> int:
-    data, sha256 = read_scenario_bytes(args.scenario)
-    name = args.scenario.name
-    inputs = [args.scenario]
-    outputs = {"html": args.html, "json": args.json}
-    if "rotor" in data:  # a rotor scenario
-        from .rotor.record import build_rotor_record
-        from .rotor.scenario import parse_rotor_scenario
-        from .rotor.study import run_rotor_study
-
-        rotor_scenario = parse_rotor_scenario(data, name).replace(sha256=sha256)
-        check_outputs(outputs, inputs)
-        rotor_result = run_rotor_study(rotor_scenario)
-        record, passed = build_rotor_record(rotor_result), rotor_result.passed
-
-        def page() -> str:
-            from .ui.report import render_rotor_html
-
-            return render_rotor_html(rotor_result, record)
-
-    else:
-        scenario = parse_scenario(data, name).replace(sha256=sha256)
-        if scenario.field:
-            from .field.study import field_spec
-
-            spec = field_spec(scenario, args.scenario.parent)
-            inputs += [spec.coastdown, *([spec.impact] if spec.impact is not None else [])]
-        check_outputs(outputs, inputs)
-        result = run_study(scenario)
-        field = None
-        if scenario.field:  # measurements that verify the model
-            from .field.study import run_field_study
-
-            field = run_field_study(scenario, args.scenario.parent)
-        record = build_record(result, field=field)
-        passed = result.passed and (field is None or field.passed)
-
-        def page() -> str:
-            from .ui.report import render_html  # plotly is only needed for the HTML record
-
-            return render_html(result, record, field)
-
+    tables, sha256 = read_scenario_bytes(args.scenario)
+    kind = study_kind_for(tables, args.scenario.name)
+    scenario = kind.parse(tables, args.scenario.name).replace(sha256=sha256)
+    base = args.scenario.parent
+    check_outputs({"html": args.html, "json": args.json}, [args.scenario, *kind.inputs(scenario, base)])
+    outcome = kind.run(scenario, base)
     texts: list[tuple[Path, str]] = []
     if args.json is not None:
-        texts.append((args.json, json.dumps(record.data, indent=2)))
+        texts.append((args.json, json.dumps(outcome.record.data, indent=2)))
     if args.html is not None:
-        texts.append((args.html, page()))
+        from .ui.report import render_outcome_html  # plotly is only needed for the HTML record
+
+        texts.append((args.html, render_outcome_html(outcome)))
     for path, text in texts:
         atomic_write(path, text)
-    print(record.text)
+    print(outcome.record.text)
     for path, _ in texts:
         print(f"wrote {path}")
-    return EXIT_PASS if passed else EXIT_FAIL
+    return EXIT_PASS if outcome.passed else EXIT_FAIL
 
 
 def _compare(args: argparse.Namespace) -> int:

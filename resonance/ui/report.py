@@ -7,17 +7,19 @@ from __future__ import annotations
 
 import html
 import os
+from collections.abc import Callable
 from pathlib import Path
 
 from ..field.study import FieldStudyResult
 from ..record import CAUTION, Record, atomic_write
 from ..rotor.study import RotorStudyResult
+from ..studies import StudyOutcome
 from ..study import StudyResult
 from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 
-__all__ = ["render_html", "render_rotor_html", "write_html"]
+__all__ = ["FIGURES", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
 
 _STYLE = """
 body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:0 16px;color:#222}
@@ -130,6 +132,46 @@ def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
             mode_shape_figure(result),
         ],
         record,
+    )
+
+
+def _support_figures(outcome: StudyOutcome) -> list:
+    result, field, system = outcome.result, outcome.field, outcome.units
+    figures = [response_figure(result, system), interference_figure(result, system)]
+    if field is not None:
+        figures += [
+            bode_figure(field, result.scenario, field.spec.channel, system),
+            polar_figure(field, field.spec.channel, system),
+            impact_figure(field),
+        ]
+    return figures
+
+
+def _rotor_figures(outcome: StudyOutcome) -> list:
+    result, system = outcome.result, outcome.units
+    return [
+        campbell_figure(result, system),
+        rotor_response_figure(result, system),
+        speed_map_figure(result, system),
+        mode_shape_figure(result),
+    ]
+
+
+#: The figures of each kind of study's HTML record (the presentation half of the study registry).
+FIGURES: dict[str, Callable[[StudyOutcome], list]] = {"support": _support_figures, "rotor": _rotor_figures}
+
+
+def render_outcome_html(outcome: StudyOutcome) -> str:
+    """The HTML record of any kind of study, from its outcome (figures from :data:`FIGURES`)."""
+    system = outcome.units
+    return _page(
+        outcome.title,
+        outcome.passed,
+        outcome.summary,
+        outcome.findings.to_html(system=system),
+        [(heading, table.to_html(system=system)) for heading, table in outcome.tables],
+        FIGURES.get(outcome.kind, lambda _: [])(outcome),
+        outcome.record,
     )
 
 

@@ -1,0 +1,263 @@
+"""One study layer: every kind of study (support, rotor, and those to come) has the same shape.
+
+A kind of study implements :class:`StudyKind`: it says which scenario tables it claims, parses them into
+its validated scenario, names the files the study will read, and runs the study into a
+:class:`StudyOutcome`, the one result shape the ``check`` command, the records and the HTML report use
+(verdict, summary, findings, record). :data:`STUDY_KINDS` is the registry; :func:`study_kind_for` picks
+the kind of a scenario file, and :func:`run_scenario_file` runs one end to end. A new kind (torsional
+trains, 3D supports) adds a class here (or anywhere, with :func:`register_study_kind`) and its figures in
+:mod:`resonance.ui.report`; nothing else branches on the kind.
+
+Kinds today:
+
+* ``support``: a machine on its support (``[model]``), with its field verification when the scenario
+  has a ``[field]`` table (:mod:`resonance.study`, :mod:`resonance.field.study`);
+* ``rotor``: a rotor on its bearings (``[rotor]``; :mod:`resonance.rotor.study`).
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any, Protocol
+
+from .interference import FindingsTable
+from .record import Record, build_record
+from .tables import ScenarioError, read_scenario_bytes
+from .units import UnitSystem
+
+__all__ = [
+    "STUDY_KINDS",
+    "RotorStudy",
+    "StudyKind",
+    "StudyOutcome",
+    "SupportStudy",
+    "register_study_kind",
+    "run_scenario_file",
+    "study_kind_for",
+]
+
+
+@dataclass(frozen=True)
+class StudyOutcome:
+    """What one run of any kind of study gives, in one shape.
+
+    Attributes
+    ----------
+    kind : str
+        The kind's name (``"support"``, ``"rotor"``).
+    title : str
+        The scenario's title.
+    units : {"SI", "US"}
+        The scenario's unit system (for display).
+    result : object
+        The kind's own result (``StudyResult``, ``RotorStudyResult``...), for its figures.
+    passed : bool
+        True when every check of the study passes (an exemption passes, and is named).
+    summary : str
+        The verdict and its lines, in the scenario's units.
+    findings : FindingsTable
+        The margin findings of the model, worst first.
+    tables : tuple of (str, FindingsTable)
+        Further findings with a heading (measured modes, a tuned model).
+    record : Record
+        The calculation record (JSON-ready data and text).
+    field : object or None
+        The field verification, where the kind has one.
+    """
+
+    kind: str
+    title: str
+    units: UnitSystem
+    result: Any
+    passed: bool
+    summary: str
+    findings: FindingsTable
+    tables: tuple[tuple[str, FindingsTable], ...]
+    record: Record
+    field: Any = None
+
+    @property
+    def verdict(self) -> str:
+        """``"PASS"``, ``"PASS WITH EXEMPTION"`` or ``"FAIL"`` (the record's)."""
+        return str(self.record.data["verdict"])
+
+
+class StudyKind(Protocol):
+    """What every kind of study implements."""
+
+    @property
+    def name(self) -> str:
+        """Short name of the kind (``"support"``, ``"rotor"``)."""
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """True when a scenario's top-level tables are of this kind."""
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """The validated scenario; errors name ``source`` and the field."""
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """The files the study will read besides the scenario (measurements), for the output checks."""
+
+    def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
+        """Run every check of the scenario (files named in it are relative to ``base_dir``)."""
+
+
+class SupportStudy:
+    """A machine on its support: modes, interference, response, zones; field verification with ``[field]``."""
+
+    name = "support"
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """Scenarios with a ``[model]`` table."""
+        return "model" in tables
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """See :func:`resonance.scenario.parse_scenario`."""
+        from .scenario import parse_scenario
+
+        return parse_scenario(tables, source)
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """The coast-down and impact files of the ``[field]`` table, if any."""
+        if not scenario.field:
+            return []
+        from .field.study import field_spec
+
+        spec = field_spec(scenario, base_dir)
+        return [spec.coastdown, *([spec.impact] if spec.impact is not None else [])]
+
+    def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
+        """See :func:`resonance.study.run_study` and :func:`resonance.field.study.run_field_study`."""
+        from .study import run_study
+
+        result = run_study(scenario)
+        field = None
+        tables: list[tuple[str, FindingsTable]] = []
+        summary = result.summary(scenario.units)
+        if scenario.field:
+            from .field.study import run_field_study
+
+            field = run_field_study(scenario, base_dir)
+            summary += "\n\n" + field.summary()
+            if field.findings is not None:
+                tables.append(("Field verification: measured modes against the rules", field.findings))
+            if field.tuned_study is not None:
+                tables.append(("Field verification: tuned model", field.tuned_study.findings))
+        record = build_record(result, field=field)
+        passed = result.passed and (field is None or field.passed)
+        if field is not None:
+            verdict = record.data["verdict"]
+            summary = (
+                f"Verdict: {verdict} (the design model and its field verification together)\n\n"
+                f"Design model:\n{result.summary(scenario.units)}\n\n{field.summary()}"
+            )
+        return StudyOutcome(
+            self.name,
+            scenario.title,
+            scenario.units,
+            result,
+            passed,
+            summary,
+            result.findings,
+            tuple(tables),
+            record,
+            field,
+        )
+
+
+class RotorStudy:
+    """A rotor on its bearings: Campbell data, critical speeds, API margins, stability, shaft vibration."""
+
+    name = "rotor"
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """Scenarios with a ``[rotor]`` table."""
+        return "rotor" in tables
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """See :func:`resonance.rotor.scenario.parse_rotor_scenario`."""
+        from .rotor.scenario import parse_rotor_scenario
+
+        return parse_rotor_scenario(tables, source)
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """None: a rotor study reads no measurement file."""
+        return []
+
+    def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
+        """See :func:`resonance.rotor.study.run_rotor_study`."""
+        from .rotor.record import build_rotor_record
+        from .rotor.study import run_rotor_study
+
+        result = run_rotor_study(scenario)
+        return StudyOutcome(
+            self.name,
+            scenario.title,
+            scenario.units,
+            result,
+            result.passed,
+            result.summary(scenario.units),
+            result.findings,
+            (),
+            build_rotor_record(result),
+        )
+
+
+#: The registry of kinds, asked in order; the first that claims a scenario runs it.
+STUDY_KINDS: list[StudyKind] = [RotorStudy(), SupportStudy()]
+
+
+def register_study_kind(kind: StudyKind, first: bool = True) -> None:
+    """Add a kind of study to the registry (asked first by default, so it may claim before the others).
+
+    Raises
+    ------
+    InputValueError
+        A kind of that name is registered already.
+    """
+    if any(k.name == kind.name for k in STUDY_KINDS):
+        raise ScenarioError(f"kind: a study kind named {kind.name!r} is registered already")
+    STUDY_KINDS.insert(0 if first else len(STUDY_KINDS), kind)
+
+
+def study_kind_for(tables: Mapping[str, Any], source: str) -> StudyKind:
+    """The kind of study a scenario's tables describe.
+
+    Raises
+    ------
+    ScenarioError
+        No registered kind claims the tables (naming the file and the tables each kind expects).
+    """
+    for kind in STUDY_KINDS:
+        if kind.claims(tables):
+            return kind
+    raise ScenarioError(
+        f"{source}: no [model] or [rotor] table; expected one of the study kinds {[k.name for k in STUDY_KINDS]}"
+    )
+
+
+def run_scenario_file(path: str | os.PathLike[str]) -> StudyOutcome:
+    """Read, validate and run a scenario file of any kind (the file is only read).
+
+    Parameters
+    ----------
+    path : path-like
+        The scenario file (TOML).
+
+    Returns
+    -------
+    StudyOutcome
+
+    Raises
+    ------
+    ScenarioError
+        The file cannot be read, is not TOML, is of no known kind, or has an invalid field.
+    """
+    source = Path(path)
+    tables, sha256 = read_scenario_bytes(source)
+    kind = study_kind_for(tables, source.name)
+    scenario = kind.parse(tables, source.name).replace(sha256=sha256)
+    return kind.run(scenario, source.parent)
