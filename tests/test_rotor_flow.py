@@ -161,3 +161,29 @@ def test_mode_shapes_at_a_chosen_speed(fan):
     assert shape.max() == 1.0
     assert shape[impeller] > max(shape[b] for b in bearings)
     assert_allclose(np.array(panel.shape_fig.data[0].x), z)
+
+
+def test_reduced_unbalance_response_matches_the_full_model(fan):
+    # The Ritz basis (modes, static bearing shapes, static shapes of the unbalance loads) against the full
+    # model's direct solve at every speed (regression of the reduction; Craig & Kurdila sec. 14.4).
+    from resonance.rotor.analysis import unbalance_response_rotor
+
+    rotor = fan.build(1.3, 0.7)
+    speeds = np.linspace(20.0, fan.sweep_max, 240)
+    full = unbalance_response_rotor(rotor, fan.unbalances(rotor), speeds, fan.probes)
+    reduced = unbalance_response_rotor(rotor, fan.unbalances(rotor), speeds, fan.probes, reduced=True)
+    peak = full.major_pk_pk.max()
+    assert np.max(np.abs(reduced.major_pk_pk - full.major_pk_pk)) < 2e-3 * peak
+
+
+def test_a_study_reusing_the_last_result_is_the_same_as_a_fresh_one(fan):
+    first = R.run_rotor_study(fan)
+    moved = fan.replace(speed=R.operating_range(900, 2200))
+    reused = R.run_rotor_study(moved, previous=first)
+    fresh = R.run_rotor_study(moved)
+    assert reused.campbell is first.campbell  # the speed range does not touch the dynamics
+    assert reused.findings.to_records() == fresh.findings.to_records()
+    assert reused.summary() == fresh.summary()
+    stiffer = R.run_rotor_study(moved, 1.2, previous=reused)
+    assert stiffer.campbell is not reused.campbell
+    assert stiffer.summary() == R.run_rotor_study(moved, 1.2).summary()

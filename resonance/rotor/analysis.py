@@ -83,10 +83,11 @@ class _Basis:
         return k, c
 
 
-def _ritz_basis(rotor: Rotor, speed: float, count: int) -> _Basis:
+def _ritz_basis(rotor: Rotor, speed: float, count: int, loads: np.ndarray | None = None) -> _Basis:
     k_bearing, _ = rotor.bearing_matrices(speed)
     k = rotor.shaft_stiffness + 0.5 * (k_bearing + k_bearing.T)
     m = rotor.mass
+    extra = loads
     modes = min(rotor.size, max(2 * count + 8, 16))
     _, low = scipy.linalg.eigh(k, m, subset_by_index=[0, modes - 1])
     # Static shapes of unit loads at the bearings make the basis follow bearing changes.
@@ -97,6 +98,8 @@ def _ritz_basis(rotor: Rotor, speed: float, count: int) -> _Basis:
             e = np.zeros((rotor.size, 1))
             e[rotor.station_dof(bearing.station, direction)] = 1.0
             loads = np.hstack([loads, e])
+    if extra is not None:
+        loads = np.hstack([loads, extra])  # static shapes of the applied loads (a static correction)
     static = scipy.linalg.solve(shift, loads, assume_a="sym")
     vectors = np.hstack([low, static])
     # Mass-orthonormalize (and drop dependent vectors).
@@ -581,16 +584,45 @@ class UnbalanceResponse:
 
 
 def unbalance_response_rotor(
-    rotor: Rotor, unbalances: Sequence[Unbalance], speeds: Sequence[float] | np.ndarray, stations: Sequence[int]
+    rotor: Rotor,
+    unbalances: Sequence[Unbalance],
+    speeds: Sequence[float] | np.ndarray,
+    stations: Sequence[int],
+    reduced: bool = False,
 ) -> UnbalanceResponse:
-    """Steady response to rotating unbalances (full model, one solve per speed).
+    """Steady response to rotating unbalances, one solve per speed.
 
     The unbalance force ``U W^2`` turns with the spin: ``F_x = U W^2 cos(W t + a)``,
     ``F_y = U W^2 sin(W t + a)``. The x phase lag is measured from ``a = 0``.
 
+    Parameters
+    ----------
+    rotor : Rotor
+        The assembled rotor.
+    unbalances : sequence of Unbalance
+        Amounts [kg m] and angles [deg] at stations.
+    speeds : array_like
+        Spin speeds [rpm] (>= 0).
+    stations : sequence of int
+        Stations where the response is read.
+    reduced : bool
+        Solve in the Ritz basis of the sweeps (lowest modes, static bearing shapes, and the static
+        shapes of the unbalance loads, a static correction) instead of the full model: the same
+        answer to a few parts in 1e4 at a fraction of the time (see the tests).
+
+    Returns
+    -------
+    UnbalanceResponse
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A bad rotor, speed, unbalance or station.
+
     References
     ----------
-    Friswell et al., *Dynamics of Rotating Machines*, 2010, sec. 6.4.
+    Friswell et al., *Dynamics of Rotating Machines*, 2010, sec. 6.4; R. R. Craig and A. J. Kurdila,
+    *Fundamentals of Structural Dynamics*, 2nd ed., 2006, sec. 14.4 (static correction of modal bases).
     """
     _check_rotor(rotor)
     grid = as_si_array(speeds, "speeds", "speed", "nonnegative")
@@ -609,6 +641,23 @@ def unbalance_response_rotor(
         base[rotor.station_dof(u.station, "y")] += -1j * u.amount * np.exp(1j * a)
     x = np.empty((grid.size, len(probes)), dtype=complex)
     y = np.empty_like(x)
+    if reduced:
+        loads = np.column_stack([base.real, base.imag])
+        basis = _ritz_basis(rotor, float(np.median(grid)), 16, loads[:, np.any(loads != 0.0, axis=0)])
+        t = basis.vectors
+        force = t.T @ base
+        rows = t[[d for pair in probes for d in pair]]
+        r = t.shape[1]
+        spins = np.array([_omega(float(v)) for v in grid])
+        stacked = np.empty((grid.size, r, r), dtype=complex)
+        for i, speed in enumerate(grid):
+            kb, cb = basis.project_supports(rotor, float(speed))
+            stacked[i] = basis.shaft_stiffness + kb + 1j * spins[i] * (cb + spins[i] * basis.gyroscopic)
+        stacked[:, np.arange(r), np.arange(r)] -= (spins**2)[:, None]  # mass-orthonormal basis: M_r = I
+        with blas_threads_for(r):
+            q = np.linalg.solve(stacked, (force[None, :] * (spins**2)[:, None])[:, :, None])[:, :, 0] @ rows.T
+        x[:], y[:] = q[:, 0::2], q[:, 1::2]
+        return UnbalanceResponse(grid, x, y, tuple(stations))
     with blas_threads_for(rotor.size):
         for i, speed in enumerate(grid):
             omega = _omega(float(speed))

@@ -159,26 +159,31 @@ class Bearing:
             speeds = as_si_array(self.speeds, f"{self.label}: speeds", "speed", "nonnegative")
             object.__setattr__(self, "speeds", tuple(speeds.tolist()))
         _convert(self, "tilt_stiffness", "moment_stiffness", "nonnegative", label=self.label)
+        # The coefficient table as one array, so a lookup is a single interpolation (sweeps call it often).
+        names = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+        width = 1 if self.speeds is None else len(self.speeds)
+        try:
+            table = np.array([np.broadcast_to(np.asarray(getattr(self, n), dtype=float), (width,)) for n in names])
+        except ValueError:
+            table = None  # lengths that do not match the speeds: rotor_model names the field
+        object.__setattr__(self, "_table", table)
 
     def coefficients(self, speed: float) -> tuple[np.ndarray, np.ndarray]:
-        """Stiffness and damping matrices ``[[xx, xy], [yx, yy]]`` at a speed [rpm]."""
-        names = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+        """Stiffness and damping matrices ``[[xx, xy], [yx, yy]]`` at a speed [rpm] (linear between table speeds)."""
+        table: np.ndarray = self._table  # type: ignore[attr-defined]
         if self.speeds is None:
-            values = [float(getattr(self, n)) for n in names]  # type: ignore[arg-type]
+            values = table[:, 0]
         else:
-            table = np.asarray(self.speeds, dtype=float)
-            if not table[0] <= speed <= table[-1]:
+            grid = np.asarray(self.speeds)
+            if not grid[0] <= speed <= grid[-1]:
                 raise InputValueError(
                     f"{self.label}: speed {speed:g} rpm is outside its coefficient table "
-                    f"({table[0]:g}-{table[-1]:g} rpm); extend the table to cover the sweep"
+                    f"({grid[0]:g}-{grid[-1]:g} rpm); extend the table to cover the sweep"
                 )
-            values = [
-                float(np.interp(speed, table, np.broadcast_to(np.asarray(getattr(self, n), dtype=float), table.shape)))
-                for n in names
-            ]
-        k = np.array([[values[0], values[1]], [values[2], values[3]]])
-        c = np.array([[values[4], values[5]], [values[6], values[7]]])
-        return k, c
+            i = min(int(np.searchsorted(grid, speed, side="right")) - 1, grid.size - 2)
+            t = (speed - grid[i]) / (grid[i + 1] - grid[i])
+            values = table[:, i] + t * (table[:, i + 1] - table[:, i])
+        return values[:4].reshape(2, 2).copy(), values[4:].reshape(2, 2).copy()
 
 
 @dataclass(frozen=True)

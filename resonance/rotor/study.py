@@ -34,6 +34,7 @@ from .analysis import (
     CampbellData,
     CriticalSpeed,
     CriticalSpeedMap,
+    Unbalance,
     UnbalanceResponse,
     campbell,
     critical_speed_map,
@@ -82,6 +83,10 @@ class RotorStudyResult:
         Deflected shape (node positions [m], relative semi-major axis) of each mode at ``shape_speed``.
     shape_speed : float
         The speed of the mode shapes [rpm] (the maximum continuous speed unless chosen).
+    stiffness_scale, damping_scale : float
+        The factors on the bearings' stiffness and damping [-].
+    unbalances : tuple of Unbalance
+        The unbalances the response was computed for [kg m].
     """
 
     scenario: RotorScenario
@@ -100,6 +105,9 @@ class RotorStudyResult:
     bearing_curves: tuple[tuple[str, np.ndarray, np.ndarray, np.ndarray], ...]
     shapes_at_max: tuple[tuple[np.ndarray, np.ndarray], ...]
     shape_speed: float
+    stiffness_scale: float = 1.0
+    damping_scale: float = 1.0
+    unbalances: tuple[Unbalance, ...] = ()
 
     @property
     def stable(self) -> bool:
@@ -155,22 +163,71 @@ def _order_excitations(scenario: RotorScenario) -> list[Excitation]:
     return list(scenario.excitations)
 
 
+def _same_dynamics(a: RotorScenario, b: RotorScenario) -> bool:
+    # What the Campbell data, the criticals and the map depend on (not the speed range, rules or units).
+    fields = ("sections", "discs", "bearings", "sweep_max", "modes", "excitations")
+    return all(getattr(a, f) == getattr(b, f) for f in fields)
+
+
 def run_rotor_study(
-    scenario: RotorScenario, stiffness_scale: float = 1.0, damping_scale: float = 1.0, shape_speed: float | None = None
+    scenario: RotorScenario,
+    stiffness_scale: float = 1.0,
+    damping_scale: float = 1.0,
+    shape_speed: float | None = None,
+    previous: RotorStudyResult | None = None,
 ) -> RotorStudyResult:
     """Run every rotor check of a scenario (optionally with scaled bearing stiffness and damping).
 
-    ``shape_speed`` [rpm] is where the mode shapes are taken (the maximum continuous speed if omitted).
+    Parameters
+    ----------
+    scenario : RotorScenario
+        The validated scenario.
+    stiffness_scale, damping_scale : float
+        Factors on every bearing's stiffness and damping [-] (> 0).
+    shape_speed : float, optional
+        Where the mode shapes are taken [rpm] (the maximum continuous speed if omitted).
+    previous : RotorStudyResult, optional
+        An earlier result (a panel's last update): whatever the change does not touch is reused (the
+        Campbell data, criticals and critical speed map when only the speed range, the rules or the
+        units moved; the unbalance response when the unbalances are the same too). The result is the
+        same as without it.
+
+    Returns
+    -------
+    RotorStudyResult
+
+    Raises
+    ------
+    InputValueError
+        A factor that is not finite and positive, or a source the rotor flow does not check.
     """
     for name, value in (("stiffness_scale", stiffness_scale), ("damping_scale", damping_scale)):
         if not (math.isfinite(value) and value > 0.0):
             raise InputValueError(f"{name}: got {value!r}; expected a finite factor > 0")
-    rotor = scenario.build(stiffness_scale, damping_scale)
     orders = _order_excitations(scenario)
-    data = campbell(rotor, np.linspace(0.0, scenario.sweep_max, CAMPBELL_POINTS), scenario.modes)
-    criticals = tuple(critical_speeds(rotor, data, [e.order for e in orders]))  # type: ignore[misc]
+    reuse = (
+        previous is not None
+        and (previous.stiffness_scale, previous.damping_scale) == (stiffness_scale, damping_scale)
+        and _same_dynamics(previous.scenario, scenario)
+    )
+    if reuse:
+        assert previous is not None
+        rotor, data, criticals = previous.rotor, previous.campbell, previous.criticals
+    else:
+        rotor = scenario.build(stiffness_scale, damping_scale)
+        data = campbell(rotor, np.linspace(0.0, scenario.sweep_max, CAMPBELL_POINTS), scenario.modes)
+        criticals = tuple(critical_speeds(rotor, data, [e.order for e in orders]))  # type: ignore[misc]
     speeds = np.linspace(scenario.sweep_max / RESPONSE_POINTS, scenario.sweep_max, RESPONSE_POINTS)
-    response = unbalance_response_rotor(rotor, scenario.unbalances(rotor), speeds, scenario.probes)
+    unbalances = scenario.unbalances(rotor)
+    if (
+        reuse
+        and previous is not None
+        and previous.unbalances == tuple(unbalances)
+        and (previous.scenario.probes == scenario.probes)
+    ):
+        response = previous.response
+    else:
+        response = unbalance_response_rotor(rotor, unbalances, speeds, scenario.probes, reduced=True)
     amplitude = response.major_pk_pk
     probe = int(np.argmax(amplitude.max(axis=0)))
     tables = []
@@ -209,11 +266,27 @@ def run_rotor_study(
     for b in rotor.bearings:
         table = np.array([b.coefficients(float(n))[0] for n in curve_speeds])
         curves.append((b.label, curve_speeds, table[:, 0, 0], table[:, 1, 1]))
-    low = 0.1 * min(float(np.min(c[2:])) for c in curves)
-    high = 10.0 * max(float(np.max(c[2:])) for c in curves)
+    # The map's stiffness axis comes from the bearings as given (unscaled), so it stays put while a factor
+    # moves (and the map need not be recomputed): 1/100 of the softest to 100 x the stiffest coefficient.
+    given = [np.atleast_1d(np.asarray(getattr(b, n), dtype=float)) for b in scenario.bearings for n in ("kxx", "kyy")]
+    positive = [v[v > 0] for v in given if np.any(v > 0)]
+    low = 0.01 * min(float(v.min()) for v in positive) if positive else 1e3
+    high = 100.0 * max(float(v.max()) for v in positive) if positive else 1e10
     shape_speed = scenario.speed.speed_max if shape_speed is None else shape_speed
-    at_max = rotor_modes(rotor, shape_speed, scenario.modes)
-    speed_map = critical_speed_map(rotor, np.geomspace(max(low, 1e3), max(high, 1e4), 41), count=4)
+    if reuse and previous is not None and previous.shape_speed == shape_speed:
+        shapes = previous.shapes_at_max
+    else:
+        at_max = rotor_modes(rotor, shape_speed, scenario.modes)
+        shapes = tuple(deflected_shape(rotor, at_max, i) for i in range(at_max.shapes.shape[1]))
+    grid = np.geomspace(max(low, 1e3), max(high, 1e4), 49)
+    if (
+        previous is not None
+        and _same_dynamics(previous.scenario, scenario)
+        and np.array_equal(previous.speed_map.stiffness, grid)
+    ):
+        speed_map = previous.speed_map  # the map depends on the shaft and the grid only
+    else:
+        speed_map = critical_speed_map(rotor, grid, count=4)
     return RotorStudyResult(
         scenario,
         rotor,
@@ -229,6 +302,9 @@ def run_rotor_study(
         api_shaft_vibration_limit(scenario.speed.speed_max),
         speed_map,
         tuple(curves),
-        tuple(deflected_shape(rotor, at_max, i) for i in range(at_max.shapes.shape[1])),
+        shapes,
         float(shape_speed),
+        stiffness_scale,
+        damping_scale,
+        tuple(unbalances),
     )

@@ -104,8 +104,13 @@ class RotorPanel(Panel):
     def compute(self) -> RotorStudyResult:
         """Re-run the rotor study for the controls (no drawing)."""
         self.scenario = self.edited_scenario()
+        # The last result lends what the moved control does not touch (Campbell data, criticals, map, response).
         return run_rotor_study(
-            self.scenario, float(self.stiffness.value), float(self.damping.value), float(self.shape_speed.value)
+            self.scenario,
+            float(self.stiffness.value),
+            float(self.damping.value),
+            float(self.shape_speed.value),
+            previous=getattr(self, "result", None),
         )
 
     def update(self) -> None:
