@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Install everything the tests need into .venv and run every test:
-# lint (ruff), types (mypy), unit and property tests, doctests, the notebooks
-# under nbval, and the browser test in Debian's chromium.
+# lint (ruff), types (mypy), the API reference (Sphinx, warnings as errors),
+# unit and property tests, doctests, the notebooks under nbval, and the
+# browser test in Debian's chromium.
 # Usage: bash tools/run-tests.sh [extra pytest arguments]
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -19,9 +20,11 @@ if ! command -v chromium >/dev/null 2>&1; then
   fi
 fi
 
-.venv/bin/ruff check resonance tests benchmarks notebooks
+.venv/bin/ruff check resonance tests benchmarks notebooks docs
 .venv/bin/ruff format --check resonance tests benchmarks
 .venv/bin/mypy
+# The API reference and the notebooks as pages, offline, warnings as errors.
+.venv/bin/python -m sphinx -W -q -b html docs docs/_build
 
 set +e
 .venv/bin/python -m pytest "$@"

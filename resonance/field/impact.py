@@ -223,7 +223,7 @@ def _band_mask(frf: Frf, band: tuple[float, float]) -> np.ndarray:
 
 
 def peak_pick(frf: Frf, band: tuple[float, float]) -> Pole:
-    """Natural frequency and damping of the peak in a band by the half-power method on |receptance|."""
+    """Natural frequency and damping of the peak in a band by the half-power method on ``|receptance|``."""
     mask = _band_mask(frf, band)
     hp = half_power_points(frf.frequency[mask], np.abs(frf.receptance()[mask]))
     return _unwindowed(frf, hp.peak_frequency, hp.damping_ratio)

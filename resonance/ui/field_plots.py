@@ -130,7 +130,7 @@ def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, 
 
 
 def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
-    """Impact test: |receptance| (H1) and coherence against frequency, the identified modes marked."""
+    """Impact test: ``|receptance|`` (H1) and coherence against frequency, the identified modes marked."""
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.7, 0.3])
     fig.add_trace(go.Scatter(name="|H1| (receptance)", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
     fig.add_trace(
