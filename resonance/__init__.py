@@ -57,7 +57,7 @@ from .margins import (
     separation_margin,
 )
 from .model import GROUND, MatrixModel, Spring, chain_model, lumped_model, matrix_model
-from .modes import Mode, ModeSet, modal_properties, modes
+from .modes import Mode, ModeSet, modal_properties, model_modes, modes
 from .record import build_record
 from .rotor.scenario import load_rotor_scenario
 from .rotor.study import run_rotor_study
@@ -124,6 +124,7 @@ __all__ = [
     "Mode",
     "ModeSet",
     "modes",
+    "model_modes",
     "modal_properties",
     "receptance",
     "mobility",

@@ -33,7 +33,7 @@ import numpy as np
 import pint
 
 from .errors import InputTypeError, InputValueError
-from .units import internal_unit, ureg
+from .units import QuantityKind, internal_unit, ureg
 
 __all__ = ["NUMBER_TEXT", "PLAUSIBLE", "Sign", "as_matrix", "as_si", "as_si_array", "parse_quantity", "parse_unit"]
 
@@ -143,7 +143,7 @@ def parse_quantity(text: str, name: str) -> pint.Quantity | float:
     return ureg.Quantity(number, unit)
 
 
-def _magnitude(value: object, name: str, kind: str) -> np.ndarray:
+def _magnitude(value: object, name: str, kind: QuantityKind) -> np.ndarray:
     unit = internal_unit(kind)
     if isinstance(value, pint.Quantity):
         if value._REGISTRY is not ureg:
@@ -174,7 +174,7 @@ def _magnitude(value: object, name: str, kind: str) -> np.ndarray:
     return array
 
 
-def _check(array: np.ndarray, name: str, kind: str, sign: Sign, plausible: bool = True) -> None:
+def _check(array: np.ndarray, name: str, kind: QuantityKind, sign: Sign, plausible: bool = True) -> None:
     unit = internal_unit(kind)
     unit = "" if unit == "dimensionless" else f" {unit}"
     if not np.all(np.isfinite(array)):
@@ -198,7 +198,7 @@ def _check(array: np.ndarray, name: str, kind: str, sign: Sign, plausible: bool 
             )
 
 
-def as_si(value: object, name: str, kind: str, sign: Sign = "any") -> float:
+def as_si(value: object, name: str, kind: QuantityKind, sign: Sign = "any") -> float:
     """Convert one scalar input to a float in the package convention.
 
     Parameters
@@ -237,7 +237,7 @@ def as_si(value: object, name: str, kind: str, sign: Sign = "any") -> float:
     return float(array)
 
 
-def as_si_array(value: object, name: str, kind: str, sign: Sign = "any") -> np.ndarray:
+def as_si_array(value: object, name: str, kind: QuantityKind, sign: Sign = "any") -> np.ndarray:
     """Convert a scalar or array input to a float array (at least 1-D).
 
     Same parameters, conversion and checks as :func:`as_si`; an empty array
@@ -253,7 +253,7 @@ def as_si_array(value: object, name: str, kind: str, sign: Sign = "any") -> np.n
     return array
 
 
-def as_matrix(value: object, name: str, kind: str, size: int | None = None) -> np.ndarray:
+def as_matrix(value: object, name: str, kind: QuantityKind, size: int | None = None) -> np.ndarray:
     """Convert a square matrix input (plain or pint) to a float array.
 
     Parameters

@@ -158,8 +158,8 @@ class Spring:
 
     def __post_init__(self) -> None:
         # Quantities become floats in the package convention here; the names are the parameter's.
-        for name, kind in (("stiffness", "stiffness"), ("damping", "damping")):
-            object.__setattr__(self, name, as_si(getattr(self, name), name, kind, "nonnegative"))
+        object.__setattr__(self, "stiffness", as_si(self.stiffness, "stiffness", "stiffness", "nonnegative"))
+        object.__setattr__(self, "damping", as_si(self.damping, "damping", "damping", "nonnegative"))
         for name in ("node_a", "node_b"):
             if not isinstance(getattr(self, name), str):
                 raise InputTypeError(f"{name}: got {getattr(self, name)!r}; expected the name of a mass or 'ground'")

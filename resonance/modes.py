@@ -38,6 +38,7 @@ __all__ = [
     "balanced_state_matrix",
     "is_proportional",
     "modal_properties",
+    "model_modes",
     "modes",
     "undamped_modes",
 ]
@@ -211,7 +212,7 @@ def undamped_modes(model: MatrixModel) -> tuple[np.ndarray, np.ndarray]:
     return np.sqrt(np.clip(w2, 0.0, None)), phi
 
 
-def modal_properties(model: MatrixModel) -> ModeSet:
+def model_modes(model: MatrixModel) -> ModeSet:
     """Modes of a validated :class:`MatrixModel` (see :func:`modes`)."""
     n = model.size
     with blas_threads_for(2 * n):
@@ -303,3 +304,8 @@ def modes(mass_matrix: object, stiffness_matrix: object, damping_matrix: object 
     [1.414214, 2.236068]
     """
     return modal_properties(matrix_model(mass_matrix, stiffness_matrix, damping_matrix))
+
+
+#: The name of 0.1, kept working: the same function as :func:`model_modes` (functions on a
+#: :class:`~resonance.model.MatrixModel` are named ``model_*``, those on matrices have plain names).
+modal_properties = model_modes

@@ -145,11 +145,11 @@ def _assumptions(result: StudyResult) -> list[str]:
 
 
 def record_head(
-    kind: str, title: str, source: str, sha256: str | None, revision: RecordSpec, created: _dt.datetime
+    record_format: str, title: str, source: str, sha256: str | None, revision: RecordSpec, created: _dt.datetime
 ) -> dict[str, Any]:
     """The opening fields of a record's data: format, title, time, software, scenario file and hash, revision."""
     return {
-        "format": kind,
+        "format": record_format,
         "title": title,
         "created_utc": created.replace(microsecond=0).isoformat(),
         "software": software_versions(),

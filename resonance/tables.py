@@ -24,12 +24,12 @@ import tomli_w
 
 from .errors import InputTypeError, InputValueError
 from .excitations import EXCITATION_KINDS, Excitation, drive_electrical, line_frequency
-from .inputs import as_si, parse_quantity
+from .inputs import Sign, as_si, parse_quantity
 from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from .modes import MODE_KINDS
 from .rules import TORSIONAL_RULE, RuleSet, is_flat
 from .speed_range import OperatingRange, operating_range
-from .units import UNIT_SYSTEMS, UnitSystem
+from .units import UNIT_SYSTEMS, QuantityKind, UnitSystem
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -152,13 +152,13 @@ class TableReader:
             raise self.fail(field, f"got {value!r}; expected text")
         return value
 
-    def quantity(self, data: Mapping[str, Any], key: str, field: str, kind: str, sign: str = "any") -> float:
+    def quantity(self, data: Mapping[str, Any], key: str, field: str, kind: QuantityKind, sign: Sign = "any") -> float:
         """A required value of ``kind`` in the package convention (see :meth:`value`)."""
         if key not in data:
             raise self.fail(field, f"missing; expected a {kind.replace('_', ' ')}")
         return self.value(data[key], field, kind, sign)
 
-    def value(self, raw: Any, field: str, kind: str, sign: str = "any") -> float:
+    def value(self, raw: Any, field: str, kind: QuantityKind, sign: Sign = "any") -> float:
         """A number or text with a unit, converted to the package convention of ``kind`` and checked for ``sign``."""
         if isinstance(raw, bool):
             raise self.fail(field, f"got {raw!r}; expected a number or a value with a unit")

@@ -23,7 +23,7 @@ from typing import Literal
 
 import pint
 
-__all__ = ["UNIT_SYSTEMS", "Quantity", "UnitSystem", "display_unit", "internal_unit", "ureg"]
+__all__ = ["UNIT_SYSTEMS", "Quantity", "QuantityKind", "UnitSystem", "display_unit", "internal_unit", "ureg"]
 
 # (pattern, replacement) applied to pint's default_en.txt; each must match once.
 _EDITS: tuple[tuple[str, str], ...] = (
@@ -98,6 +98,29 @@ UNIT_SYSTEMS: tuple[UnitSystem, ...] = ("SI", "US")
 
 # Display units per quantity kind and unit system. Internal values are in the
 # package convention (first column is what a plain float means).
+QuantityKind = Literal[
+    "mass",
+    "stiffness",
+    "damping",
+    "force",
+    "frequency",
+    "speed",
+    "displacement",
+    "velocity",
+    "acceleration",
+    "unbalance",
+    "length",
+    "receptance",
+    "angle",
+    "ratio",
+    "balance_grade",
+    "inertia",
+    "density",
+    "pressure",
+    "moment_stiffness",
+    "time",
+]
+
 _DISPLAY: dict[str, tuple[str, str, str]] = {
     # kind: (internal unit, SI display, US customary display)
     "mass": ("kg", "kg", "lbm"),
@@ -138,7 +161,7 @@ _LABELS: dict[str, str] = {
 }
 
 
-def internal_unit(kind: str) -> str:
+def internal_unit(kind: QuantityKind) -> str:
     """Return the unit a plain float of this quantity kind is taken to be in.
 
     Examples
@@ -151,7 +174,7 @@ def internal_unit(kind: str) -> str:
     return _DISPLAY[kind][0]
 
 
-def display_unit(kind: str, system: UnitSystem = "SI") -> tuple[str, float]:
+def display_unit(kind: QuantityKind, system: UnitSystem = "SI") -> tuple[str, float]:
     """Return the display unit of a quantity kind and the factor to reach it.
 
     Parameters

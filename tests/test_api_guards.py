@@ -341,6 +341,8 @@ def test_the_sweep_covers_every_public_constructor_and_function():
         "ureg",
         "__version__",
         "STEEL",
+        "model_modes",
+        "rotor_unbalance_response",
         "load_scenario",
         "run_study",
         "run_field_study",

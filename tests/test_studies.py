@@ -121,3 +121,11 @@ def test_the_flows_are_exported_at_the_top_level():
     ):
         assert name in R.__all__
         assert callable(getattr(R, name)) or isinstance(getattr(R, name), type)
+
+
+def test_one_naming_convention_keeps_the_pinned_names():
+    # Functions on a MatrixModel are model_*, on a Rotor rotor_*; the 0.1 names are the same functions.
+    import resonance.rotor as rotor_api
+
+    assert R.modal_properties is R.model_modes
+    assert rotor_api.unbalance_response_rotor is rotor_api.rotor_unbalance_response

@@ -41,7 +41,7 @@ import numpy as np
 from ..errors import InputTypeError, InputValueError
 from ..harmonic import convert_amplitude
 from ..inputs import NUMBER_TEXT, as_si, parse_unit
-from ..units import ureg
+from ..units import QuantityKind, ureg
 
 __all__ = ["DataFileError", "CoastDown", "ImpactRecord", "read_coastdown", "read_impact"]
 
@@ -186,7 +186,7 @@ def _option(
     return value
 
 
-def _unit_factor(unit: str, kind: str, field: str, name: str) -> float:
+def _unit_factor(unit: str, kind: QuantityKind, field: str, name: str) -> float:
     try:
         return as_si(ureg.Quantity(1.0, parse_unit(unit, field)), field, kind)
     except (InputTypeError, InputValueError) as error:

@@ -34,6 +34,7 @@ from ..interference import FindingsTable
 from ..scenario import Scenario
 from ..study import StudyResult, run_study
 from ..tables import ScenarioError, TableReader
+from ..units import QuantityKind
 from .coastdown import ModalFit, Resonance, find_resonances, fit_modes, measured_findings, measured_modes
 from .impact import Frf, Pole, impact_frf, rfp_fit, stability_diagram
 from .readers import CoastDown, DataFileError, read_coastdown, read_impact
@@ -82,7 +83,7 @@ def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> Fi
     )
     base = Path(base_dir)
 
-    def pair(key: str, kind: str, default: tuple[float, float] | None) -> tuple[float, float] | None:
+    def pair(key: str, kind: QuantityKind, default: tuple[float, float] | None) -> tuple[float, float] | None:
         if key not in data:
             return default
         raw = r.array(data, key, f"field.{key}")

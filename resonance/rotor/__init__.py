@@ -16,6 +16,7 @@ from .analysis import (
     critical_speed_map,
     critical_speeds,
     rotor_modes,
+    rotor_unbalance_response,
     unbalance_response_rotor,
 )
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
@@ -39,6 +40,7 @@ __all__ = [
     "critical_speed_map",
     "Unbalance",
     "UnbalanceResponse",
+    "rotor_unbalance_response",
     "unbalance_response_rotor",
     "RotorScenario",
     "load_rotor_scenario",

@@ -55,6 +55,7 @@ __all__ = [
     "critical_speed_map",
     "Unbalance",
     "UnbalanceResponse",
+    "rotor_unbalance_response",
     "unbalance_response_rotor",
 ]
 
@@ -583,7 +584,7 @@ class UnbalanceResponse:
         return np.mod(-np.degrees(np.angle(self.x)), 360.0)
 
 
-def unbalance_response_rotor(
+def rotor_unbalance_response(
     rotor: Rotor,
     unbalances: Sequence[Unbalance],
     speeds: Sequence[float] | np.ndarray,
@@ -669,3 +670,8 @@ def unbalance_response_rotor(
             for j, (dx, dy) in enumerate(probes):
                 x[i, j], y[i, j] = q[dx], q[dy]
     return UnbalanceResponse(grid, x, y, tuple(stations))
+
+
+#: The name of 0.1, kept working: the same function as :func:`rotor_unbalance_response` (functions on a
+#: :class:`~resonance.rotor.model.Rotor` are named ``rotor_*``).
+unbalance_response_rotor = rotor_unbalance_response

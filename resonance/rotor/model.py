@@ -26,7 +26,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import InputTypeError, InputValueError
-from ..inputs import as_si, as_si_array
+from ..inputs import Sign, as_si, as_si_array
+from ..units import QuantityKind
 from .elements import beam_rotary_mass, beam_stiffness, beam_translational_mass, shear_coefficient
 
 __all__ = ["Material", "STEEL", "ShaftSection", "Disc", "Bearing", "Pedestal", "Rotor", "rotor_model"]
@@ -36,7 +37,7 @@ __all__ = ["Material", "STEEL", "ShaftSection", "Disc", "Bearing", "Pedestal", "
 MAX_ROTOR_ELEMENTS = 200
 
 
-def _convert(obj: object, name: str, kind: str, sign: str = "any", label: str = "") -> None:
+def _convert(obj: object, name: str, kind: QuantityKind, sign: Sign = "any", label: str = "") -> None:
     """Convert a frozen dataclass field through the input layer, in place (errors name the field)."""
     where = f"{label}: {name}" if label else name
     object.__setattr__(obj, name, as_si(getattr(obj, name), where, kind, sign))  # type: ignore[arg-type]
@@ -147,7 +148,7 @@ class Bearing:
     def __post_init__(self) -> None:
         # Quantities (SI or US) become floats in the package convention here, so no later step strips a unit.
         for name in ("kxx", "kyy", "kxy", "kyx", "cxx", "cyy", "cxy", "cyx"):
-            kind = "stiffness" if name[0] == "k" else "damping"
+            kind: QuantityKind = "stiffness" if name[0] == "k" else "damping"
             value = getattr(self, name)
             if isinstance(value, (list, tuple, np.ndarray)) or (
                 hasattr(value, "magnitude") and np.ndim(value.magnitude) > 0
@@ -268,7 +269,7 @@ class Rotor:
         return k, c
 
 
-def _positive(value: float, name: str, kind: str) -> float:
+def _positive(value: float, name: str, kind: QuantityKind) -> float:
     return as_si(value, name, kind, "positive")
 
 

@@ -59,7 +59,7 @@ from ..tables import (
     rules_table,
     speed_table,
 )
-from ..units import UnitSystem
+from ..units import QuantityKind, UnitSystem
 from .analysis import Unbalance
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
 
@@ -159,7 +159,9 @@ def _material(r: TableReader, raw: Any, field: str) -> Material:
     return Material(density, modulus, nu, r.text(raw, "name", f"{field}.name", "material"))
 
 
-def _coefficient(r: TableReader, raw: Any, field: str, kind: str, count: int | None) -> float | tuple[float, ...]:
+def _coefficient(
+    r: TableReader, raw: Any, field: str, kind: QuantityKind, count: int | None
+) -> float | tuple[float, ...]:
     if isinstance(raw, list):
         if count is None:
             raise r.fail(field, "got a list; give `speeds` for speed-dependent coefficients")
