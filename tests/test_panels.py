@@ -158,3 +158,12 @@ def test_record_panel_units(tmp_path, foundation_path):
     assert "f_n [cpm]" in panel.record.text
     assert f"{mm_s / 25.4:.3f} in/s RMS" in panel.record.text
     assert panel.record.data["scenario"]["scenario"]["units"] == "US"
+
+
+def test_record_panel_takes_a_scenario_like_every_panel_and_keeps_its_hash(tmp_path, foundation_path, foundation):
+    panel = RecordPanel(foundation, output_dir=tmp_path)
+    assert panel.record.data["scenario_sha256"] == foundation.sha256 is not None  # untouched: the file's hash
+    panel.speed.value = (2600, 3000)
+    assert panel.record.data["scenario_sha256"] is None  # edited in memory: no file hash to claim
+    from_path = RecordPanel(foundation_path, output_dir=tmp_path)
+    assert from_path.record.data["scenario_sha256"] == foundation.sha256

@@ -375,8 +375,12 @@ class RecordPanel(Panel):
     from, so the exported JSON re-runs with the ``check`` command.
     """
 
-    def __init__(self, path: str | os.PathLike[str] = "", output_dir: str | os.PathLike[str] = "records"):
-        self.path = w.Text(value=str(path), description="scenario", layout=w.Layout(width="520px"))
+    def __init__(
+        self, scenario: Scenario | str | os.PathLike[str] = "", output_dir: str | os.PathLike[str] = "records"
+    ):
+        # Like every panel, the first argument is the scenario: a loaded one, or the path of its file.
+        path = scenario.source if isinstance(scenario, Scenario) else str(scenario)
+        self.path = w.Text(value=path, description="scenario", layout=w.Layout(width="520px"))
         self.output_dir = w.Text(value=str(output_dir), description="export to", layout=w.Layout(width="520px"))
         self.load_button = w.Button(description="Load and run", icon="play")
         self.export_button = w.Button(description="Export HTML + JSON", icon="download")
@@ -401,7 +405,9 @@ class RecordPanel(Panel):
                 w.HBox([self.output_dir, self.export_button]),
             ]
         )
-        if self.path.value:
+        if isinstance(scenario, Scenario):
+            self.show(scenario)
+        elif self.path.value:
             self.load()
 
     def load(self) -> bool:
@@ -414,6 +420,11 @@ class RecordPanel(Panel):
             self.text.value = ""
             self._error(str(error))
             return False
+        self.show(scenario)
+        return True
+
+    def show(self, scenario: Scenario) -> None:
+        """Run a scenario and show its record, with the sensitivity controls set from it."""
         self.original = scenario
         self.speed, self.damping = speed_slider(scenario.speed), _damping_slider(scenario)
         self.units = units_toggle(scenario.units, "110px")
@@ -421,7 +432,6 @@ class RecordPanel(Panel):
             control.observe(self._changed, names="value")
         self.controls.children = (self.speed, self.damping, self.units)
         self.update()
-        return True
 
     def edited_scenario(self) -> Scenario:
         """The loaded scenario with the panel's speed range, damping and unit system."""
@@ -429,7 +439,9 @@ class RecordPanel(Panel):
             raise InputValueError("scenario: none loaded; load a scenario file first")
         edited = self.original.with_speed(slider_range(self.speed, self.original.speed))
         model = dataclasses.replace(edited.model, damping_ratio=float(self.damping.value))
-        return edited.replace(model=model, units=self.units.value)
+        edited = edited.replace(model=model, units=self.units.value)
+        # Untouched controls: the scenario as loaded, whose file hash the record then carries.
+        return self.original if edited == self.original else edited
 
     def update(self) -> None:
         """Run every check of the (edited) scenario and rebuild the record."""
