@@ -466,6 +466,9 @@ def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str],
     if target.exists() and not overwrite:
         raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")
     temporary = target.with_name(f".{target.name}.tmp")
-    temporary.write_text(tomli_w.dumps(table), encoding="utf-8")
-    os.replace(temporary, target)
+    try:
+        temporary.write_text(tomli_w.dumps(table), encoding="utf-8")
+        os.replace(temporary, target)
+    finally:
+        temporary.unlink(missing_ok=True)  # never leave a partial file behind
     return target

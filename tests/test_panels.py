@@ -167,3 +167,10 @@ def test_record_panel_takes_a_scenario_like_every_panel_and_keeps_its_hash(tmp_p
     assert panel.record.data["scenario_sha256"] is None  # edited in memory: no file hash to claim
     from_path = RecordPanel(foundation_path, output_dir=tmp_path)
     assert from_path.record.data["scenario_sha256"] == foundation.sha256
+
+
+def test_saving_into_a_missing_folder_is_refused_in_words(pump, tmp_path):
+    panel = single_mode_panel(pump)
+    assert panel.save(tmp_path / "missing" / "new.toml") is None
+    assert "save as: cannot write" in panel.message.value
+    assert not (tmp_path / "missing").exists()

@@ -145,6 +145,9 @@ class DesignPanel(Panel):
         except FileExistsError as error:
             self._error(str(error))
             return None
+        except OSError as error:  # a missing or read-only folder, a name too long: say so, write nothing
+            self._error(f"save as: cannot write {path} ({error.strerror or error})")
+            return None
         self.message.value = f"saved {html.escape(str(target))}"
         return target
 
