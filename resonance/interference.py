@@ -22,7 +22,7 @@ from typing import Literal
 
 from .errors import InputTypeError, InputValueError
 from .excitations import Excitation
-from .margins import Location, MarginRule, Side, range_margin
+from .margins import ApiLateralRule, Location, MarginRule, Side, range_margin
 from .modes import Mode
 from .rules import RuleSet, as_rule_set, is_flat
 from .speed_range import OperatingRange
@@ -88,7 +88,8 @@ class Finding:
         if not self.exempt:
             return None
         af = self.mode.amplification_factor
-        return f"{self.rule} requires no separation margin for AF {af:.2f} (below 2.5: critically damped)"
+        why = " (below 2.5: critically damped)" if isinstance(self.margin_rule, ApiLateralRule) else ""
+        return f"{self.rule} requires no separation margin for AF {af:.2f}{why}"
 
     @property
     def passed(self) -> bool:

@@ -282,3 +282,12 @@ def test_rotor_flow_refuses_fixed_sources_and_needs_flat_for_other_orders(fan):
     with pytest.raises(R.InputValueError, match=r"'tower fan' has a fixed frequency"):
         run_rotor_study(parse_rotor_scenario(table))
     assert math.isclose(fan.rules.lateral_1x.required(10.0, "below"), 15.0)
+
+
+def test_a_user_table_exemption_is_named_without_the_api_words():
+    table = R.TableRule((1.0, 3.0, 10.0), (0.0, 0.0, 15.0), (0.0, 0.0, 25.0), name="owner's table")
+    rules = R.RuleSet(lateral_1x=table, flat=FLAT)
+    mode = R.Mode(25.0, 0.25, "rotor 1st", kind="rotor-lateral")  # AF 2.0: the table asks 0 %
+    (finding,) = R.interference_check([mode], [R.running_speed_order(1)], R.operating_range(1400, 1600), rules)
+    assert finding.verdict == "EXEMPT"
+    assert finding.exemption == "owner's table requires no separation margin for AF 2.00"
