@@ -28,6 +28,16 @@ _FORMATS = ("resonance-record/2", "resonance-rotor-record/2")
 def load_record(path: str | os.PathLike[str]) -> dict[str, Any]:
     """Read a JSON record written by ``check --json`` (only read).
 
+    Parameters
+    ----------
+    path : path-like
+        A JSON record written by ``check --json``.
+
+    Returns
+    -------
+    dict
+        The record's data.
+
     Raises
     ------
     InputValueError
@@ -111,6 +121,21 @@ class RecordComparison:
 
 def compare_records(old: Mapping[str, Any], new: Mapping[str, Any]) -> RecordComparison:
     """Compare two records' data (see :func:`load_record`).
+
+    Parameters
+    ----------
+    old, new : mapping
+        Two records' data (see :func:`load_record`).
+
+    Returns
+    -------
+    RecordComparison
+        Changed inputs, changed findings and both verdicts.
+
+    Raises
+    ------
+    KeyError
+        A record without scenario, findings or verdict (:func:`load_record` refuses those first).
 
     Examples
     --------

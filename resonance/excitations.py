@@ -129,6 +129,23 @@ def _count(value: object, name: str) -> int:
 def running_speed_order(order: float, label: str | None = None) -> Excitation:
     """An order of running speed (1x unbalance, 2x misalignment, 0.45x whirl...).
 
+    Parameters
+    ----------
+    order : float or pint.Quantity
+        Multiple of the running speed [-] (> 0).
+    label : str, optional
+        Name shown in tables; ``"<order>x"`` if omitted.
+
+    Returns
+    -------
+    Excitation
+        Kind ``"synchronous"`` for order 1, ``"order"`` otherwise.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        An order that is not a finite number > 0.
+
     Examples
     --------
     >>> running_speed_order(2).frequency_at(1800.0)
@@ -139,19 +156,73 @@ def running_speed_order(order: float, label: str | None = None) -> Excitation:
 
 
 def blade_pass(blades: int, label: str | None = None) -> Excitation:
-    """Blade or vane pass: ``blades`` x running speed."""
+    """Blade or vane pass: ``blades`` x running speed.
+
+    Parameters
+    ----------
+    blades : int
+        Number of blades or vanes (>= 1).
+    label : str, optional
+        Name shown in tables.
+
+    Returns
+    -------
+    Excitation
+        The order ``blades`` [-], kind ``"order"``.
+
+    Raises
+    ------
+    InputValueError
+        A count that is not a whole number >= 1.
+    """
     z = _count(blades, "blades")
     return Excitation(label if label is not None else f"blade pass ({z}x)", order=float(z))
 
 
 def gear_mesh(teeth: int, label: str | None = None) -> Excitation:
-    """Gear mesh: ``teeth`` x the speed of the shaft that carries the gear."""
+    """Gear mesh: ``teeth`` x the speed of the shaft that carries the gear.
+
+    Parameters
+    ----------
+    teeth : int
+        Number of teeth of the gear on the shaft (>= 1).
+    label : str, optional
+        Name shown in tables.
+
+    Returns
+    -------
+    Excitation
+        The order ``teeth`` [-] of that shaft's speed, kind ``"order"``.
+
+    Raises
+    ------
+    InputValueError
+        A count that is not a whole number >= 1.
+    """
     z = _count(teeth, "teeth")
     return Excitation(label if label is not None else f"gear mesh ({z}x)", order=float(z))
 
 
 def fixed_frequency(frequency: object, label: str) -> Excitation:
-    """A source at a fixed frequency [Hz], independent of the running speed."""
+    """A source at a fixed frequency [Hz], independent of the running speed.
+
+    Parameters
+    ----------
+    frequency : float or pint.Quantity
+        [Hz] (> 0).
+    label : str
+        Name shown in tables.
+
+    Returns
+    -------
+    Excitation
+        Kind ``"fixed"``.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A frequency that is not finite and > 0, or not a frequency.
+    """
     f = as_si(frequency, "frequency", "frequency", "positive")
     return Excitation(label, frequency=f)
 
@@ -172,6 +243,11 @@ def line_frequency(supply_frequency: object = 50.0, multiple: float = 1.0) -> Ex
     Excitation
         Kind ``"electrical"``, at the fixed frequency ``multiple x f_line``.
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A supply frequency or multiple that is not finite and > 0.
+
     Examples
     --------
     >>> line_frequency(60.0, 2).frequency
@@ -187,6 +263,21 @@ def line_frequency(supply_frequency: object = 50.0, multiple: float = 1.0) -> Ex
 
 def twice_line_frequency(supply_frequency: object = 50.0) -> Excitation:
     """Twice line frequency of a motor on the line (see :func:`line_frequency`).
+
+    Parameters
+    ----------
+    supply_frequency : float or pint.Quantity
+        Line frequency [Hz].
+
+    Returns
+    -------
+    Excitation
+        Kind ``"electrical"``, at ``2 f_line``.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A supply frequency that is not finite and > 0.
 
     Examples
     --------
@@ -215,6 +306,11 @@ def electrical_order(poles: int, slip: object = 0.0, multiple: float = 1.0) -> f
     float
         ``multiple x p / (2 (1 - s))``: the frequency [Hz] is this order times
         the shaft speed [rpm] / 60.
+
+    Raises
+    ------
+    InputValueError
+        Poles not an even whole number >= 2, a slip outside [0, 1), a multiple not > 0.
 
     Notes
     -----
@@ -248,10 +344,26 @@ def electrical_order(poles: int, slip: object = 0.0, multiple: float = 1.0) -> f
 def drive_electrical(poles: int, slip: object = 0.0, multiple: float = 1.0, label: str | None = None) -> Excitation:
     """An electrical excitation of a drive-fed motor, following the speed (see :func:`electrical_order`).
 
+    Parameters
+    ----------
+    poles : int
+        Number of poles (even, >= 2).
+    slip : float
+        Slip at the load of interest [-], in [0, 1).
+    multiple : float
+        Multiple of the electrical frequency [-] (> 0).
+    label : str, optional
+        Name shown in tables.
+
     Returns
     -------
     Excitation
         Kind ``"electrical"``, an order of the shaft speed.
+
+    Raises
+    ------
+    InputValueError
+        As :func:`electrical_order`.
 
     Examples
     --------
@@ -283,6 +395,11 @@ def permissible_unbalance(grade: object, rotor_mass: object, speed: object) -> f
     -------
     float
         Permissible residual unbalance [kg m] for the whole rotor.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not finite and > 0, or of the wrong kind.
 
     Notes
     -----
@@ -319,6 +436,11 @@ def api_design_unbalance(journal_mass: object, speed: object) -> float:
     float
         Unbalance [kg m] (``4 W / N`` oz in with W in lbm).
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not finite and > 0, or of the wrong kind.
+
     References
     ----------
     API Std 617, 8th ed., 2014, and API RP 684, 2nd ed., 2005 (from memory).
@@ -337,6 +459,16 @@ def unbalance_force(unbalance: object, speed: object) -> np.ndarray:
         [kg m].
     speed : array_like or pint.Quantity
         Running speeds [rpm].
+
+    Returns
+    -------
+    numpy.ndarray
+        Force amplitude [N] at each speed.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A negative or non-finite value, or a quantity of the wrong kind.
     """
     u = as_si(unbalance, "unbalance", "unbalance", "nonnegative")
     w = 2.0 * math.pi * as_si_array(speed, "speed", "speed", "nonnegative") / 60.0

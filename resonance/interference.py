@@ -410,12 +410,48 @@ def interference_check(
 
 
 def verdict_of(passed: bool, findings: FindingsTable) -> str:
-    """The verdict of a study: ``"FAIL"``, or the findings' verdict (``"PASS"`` or ``"PASS WITH EXEMPTION"``)."""
+    """The verdict of a study: ``"FAIL"``, or the findings' verdict (``"PASS"`` or ``"PASS WITH EXEMPTION"``).
+
+    Parameters
+    ----------
+    passed : bool
+        Whether every check of the study passed (margins and the rest).
+    findings : FindingsTable
+        The margin findings.
+
+    Returns
+    -------
+    str
+        ``"FAIL"``, ``"PASS WITH EXEMPTION"`` or ``"PASS"``.
+
+    Raises
+    ------
+    Nothing
+        Pure text.
+    """
     return findings.verdict if passed else "FAIL"
 
 
 def verdict_line(verdict: str, findings: FindingsTable) -> str:
-    """``Verdict: ...``, naming every exempt coincidence inside the operating range."""
+    """``Verdict: ...``, naming every exempt coincidence inside the operating range.
+
+    Parameters
+    ----------
+    verdict : str
+        The study's verdict.
+    findings : FindingsTable
+        The margin findings (their exempt coincidences inside the range are named).
+
+    Returns
+    -------
+    str
+        One line starting ``Verdict:``.
+
+    Raises
+    ------
+    Nothing
+        Pure text.
+    """
     exempt = findings.exempt_inside
     if not exempt:
         return f"Verdict: {verdict}"

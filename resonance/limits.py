@@ -61,6 +61,11 @@ def iso_velocity_zone_limits(group: MachineGroup, support: SupportClass) -> tupl
     tuple of float
         The three boundaries [m/s], RMS.
 
+    Raises
+    ------
+    InputValueError
+        A group other than 1 or 2, or a support other than rigid or flexible.
+
     References
     ----------
     ISO 10816-3:2009, Table A.1 (from memory).
@@ -88,6 +93,11 @@ def iso_velocity_zone(velocity_rms: object, group: MachineGroup, support: Suppor
     list of str
         ``"A"`` (new machines), ``"B"`` (unrestricted long-term operation),
         ``"C"`` (restricted), ``"D"`` (damage possible), one per value.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A negative or non-finite velocity, or a bad group or support.
     """
     v = as_si_array(velocity_rms, "velocity_rms", "velocity", "nonnegative")
     limits = np.asarray(iso_velocity_zone_limits(group, support))
@@ -111,6 +121,11 @@ def support_class(lowest_natural_frequency: object, running_speed: object) -> Su
     -------
     {"rigid", "flexible"}
         ``"rigid"`` when ``f_1 >= 1.25 N / 60``, ``"flexible"`` otherwise.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not finite and > 0, or of the wrong kind.
 
     References
     ----------
@@ -140,6 +155,11 @@ def api_shaft_vibration_limit(speed: object) -> float:
     -------
     float
         Limit [m], peak-to-peak.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A speed that is not finite and > 0.
 
     References
     ----------

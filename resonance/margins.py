@@ -77,7 +77,22 @@ class HalfPower:
 
     @property
     def amplification_factor(self) -> float:
-        """``AF = N_c / (N_2 - N_1)`` [-]."""
+        """``AF = N_c / (N_2 - N_1)`` [-].
+
+        Parameters
+        ----------
+        frequency : array_like or pint.Quantity
+            Strictly increasing frequencies or speeds (any one unit).
+        amplitude : array_like or pint.Quantity
+            Response amplitudes (> 0).
+        near : float, optional
+            Pick the local maximum nearest this frequency.
+
+        Raises
+        ------
+        InputValueError
+            As :func:`half_power_points`.
+        """
         return self.peak_frequency / (self.upper - self.lower)
 
     @property
@@ -259,6 +274,11 @@ def range_margin(critical_speed: float, speed_range: OperatingRange) -> tuple[fl
         ``"above"`` also for a critical inside a skip band (nearest edge).
     side : {"below", "above"}
         The side of the nearest edge, which selects the required margin.
+
+    Raises
+    ------
+    AssertionError
+        Never for an :class:`OperatingRange`, which always has an interval.
     """
     best: tuple[float, Location, Side] | None = None
     for low, high in speed_range.intervals:
@@ -292,6 +312,11 @@ def separation_margin(critical_speed: object, speed_min: object, speed_max: obje
         Percent: ``100 (N_min - N_c) / N_min`` below the range,
         ``100 (N_c - N_max) / N_max`` above it, negative inside it (the
         distance to the nearer limit).
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A speed that is not finite and > 0, or min above max.
 
     References
     ----------
@@ -341,6 +366,11 @@ def required_separation_margin(amplification_factor: float, side: Side) -> float
         0 for ``AF < 2.5`` (critically damped); below the range
         ``min(16, 17 (1 - 1 / (AF - 1.5)))``; above the range
         ``min(26, 10 + 17 (1 - 1 / (AF - 1.5)))``.
+
+    Raises
+    ------
+    InputValueError
+        An AF below 1, or a side other than below or above.
 
     References
     ----------
@@ -460,6 +490,16 @@ RULE_NAMES: tuple[str, ...] = ("api-lateral", "flat-10", "flat-15", "flat-20")
 
 def rule_by_name(name: str) -> MarginRule:
     """A built-in rule by name: ``api-lateral`` or ``flat-P`` (P percent).
+
+    Parameters
+    ----------
+    name : str
+        ``"api-lateral"`` or ``"flat-P"`` with P a percentage.
+
+    Returns
+    -------
+    MarginRule
+        The rule.
 
     Raises
     ------

@@ -47,12 +47,45 @@ _EXCITATION_WORDS = {
 
 
 def is_flat(rule: MarginRule) -> bool:
-    """True for a rule that requires the same margin whatever the damping and side (a flat rule)."""
+    """True for a rule that requires the same margin whatever the damping and side (a flat rule).
+
+    Parameters
+    ----------
+    rule : MarginRule
+        Any margin rule.
+
+    Returns
+    -------
+    bool
+        True for a :class:`~resonance.margins.FlatRule`.
+
+    Raises
+    ------
+    Nothing
+        Any object is answered.
+    """
     return isinstance(rule, FlatRule)
 
 
 def scope_words(mode_kind: ModeKind, excitation_kind: ExcitationKind) -> str:
     """The pair in words, e.g. ``"structural mode against 1x"``.
+
+    Parameters
+    ----------
+    mode_kind : {"rotor-lateral", "structural", "torsional"}
+        The mode's kind.
+    excitation_kind : {"synchronous", "order", "electrical", "fixed"}
+        The excitation's kind.
+
+    Returns
+    -------
+    str
+        The pair in words.
+
+    Raises
+    ------
+    KeyError
+        A kind that is not one of the above (the callers check kinds first).
 
     Examples
     --------
@@ -178,6 +211,20 @@ def as_rule_set(rules: RuleSet | MarginRule | None) -> RuleSet:
     flat rule applies to every pair (rotor lateral at 1x included); any other
     rule (the API lateral rule, a table against AF) governs rotor lateral
     modes against 1x only.
+
+    Parameters
+    ----------
+    rules : RuleSet, MarginRule or None
+        What the caller gave.
+
+    Returns
+    -------
+    RuleSet
+
+    Raises
+    ------
+    InputTypeError
+        Something that is neither a rule set nor a margin rule.
     """
     if rules is None:
         return RuleSet()

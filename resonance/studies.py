@@ -213,6 +213,13 @@ STUDY_KINDS: list[StudyKind] = [RotorStudy(), SupportStudy()]
 def register_study_kind(kind: StudyKind, first: bool = True) -> None:
     """Add a kind of study to the registry (asked first by default, so it may claim before the others).
 
+    Parameters
+    ----------
+    kind : StudyKind
+        The kind to add.
+    first : bool
+        Ask it before the kinds registered already (default) or after them.
+
     Raises
     ------
     InputValueError
@@ -225,6 +232,18 @@ def register_study_kind(kind: StudyKind, first: bool = True) -> None:
 
 def study_kind_for(tables: Mapping[str, Any], source: str) -> StudyKind:
     """The kind of study a scenario's tables describe.
+
+    Parameters
+    ----------
+    tables : mapping
+        A scenario's top-level tables.
+    source : str
+        The file name, for the error.
+
+    Returns
+    -------
+    StudyKind
+        The first registered kind that claims the tables.
 
     Raises
     ------
