@@ -47,6 +47,11 @@ def log_decrement(damping_ratio: object) -> np.ndarray:
     numpy.ndarray
         Log decrement [-]; ``inf`` at and above critical damping (``|zeta| >= 1``).
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not a finite number.
+
     Examples
     --------
     >>> round(float(log_decrement(0.1)[0]), 4)
@@ -62,6 +67,21 @@ def damping_ratio_from_log_decrement(log_decrement: object) -> np.ndarray:
     """Damping ratio from a log decrement, ``zeta = delta / sqrt(4 pi^2 + delta^2)``.
 
     The inverse of :func:`log_decrement`.
+
+    Parameters
+    ----------
+    log_decrement : array_like
+        Logarithmic decrement(s) [-]; negative for an unstable mode.
+
+    Returns
+    -------
+    numpy.ndarray
+        Damping ratio(s) [-].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not a finite number.
     """
     delta = as_si_array(log_decrement, "log_decrement", "ratio")
     return delta / np.sqrt(4.0 * np.pi**2 + delta**2)
@@ -70,10 +90,20 @@ def damping_ratio_from_log_decrement(log_decrement: object) -> np.ndarray:
 def amplification_factor_from_damping_ratio(damping_ratio: object) -> np.ndarray:
     """Amplification factor of a lightly damped mode, ``AF = 1 / (2 zeta)`` (= Q).
 
+    Parameters
+    ----------
+    damping_ratio : array_like
+        Damping ratio(s) [-] (>= 0).
+
     Returns
     -------
     numpy.ndarray
         AF [-]; ``inf`` for zero damping.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A negative or non-finite value.
 
     References
     ----------
@@ -86,6 +116,16 @@ def amplification_factor_from_damping_ratio(damping_ratio: object) -> np.ndarray
 
 def damping_ratio_from_amplification_factor(amplification_factor: object) -> np.ndarray:
     """Damping ratio of a lightly damped mode, ``zeta = 1 / (2 AF)``.
+
+    Parameters
+    ----------
+    amplification_factor : array_like
+        AF [-] (>= 1).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``zeta = 1 / (2 AF)`` [-].
 
     Raises
     ------
@@ -105,12 +145,24 @@ def rayleigh_coefficients(
 
     ``zeta(w) = alpha / (2 w) + beta w / 2`` passes through both points.
 
+    Parameters
+    ----------
+    frequency_1, frequency_2 : float or pint.Quantity
+        Two distinct natural frequencies [Hz] (> 0).
+    damping_ratio_1, damping_ratio_2 : float
+        The damping ratios wanted at them [-] (>= 0).
+
     Returns
     -------
     alpha : float
         Mass-proportional coefficient [1/s].
     beta : float
         Stiffness-proportional coefficient [s].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Non-positive or equal frequencies, negative damping, a quantity of the wrong kind.
 
     References
     ----------
@@ -129,7 +181,27 @@ def rayleigh_coefficients(
 
 
 def rayleigh_damping(mass_matrix: object, stiffness_matrix: object, alpha: float, beta: float) -> np.ndarray:
-    """Rayleigh damping matrix ``C = alpha M + beta K`` [N s/m]."""
+    """Rayleigh damping matrix ``C = alpha M + beta K`` [N s/m].
+
+    Parameters
+    ----------
+    mass_matrix, stiffness_matrix : array_like or pint.Quantity
+        Symmetric M [kg] and K [N/m] of the same size.
+    alpha : float
+        Mass coefficient [1/s] (>= 0).
+    beta : float
+        Stiffness coefficient [s] (>= 0).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``C = alpha M + beta K`` [N s/m].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Matrices that are not square, symmetric, finite or of one size; negative or non-finite coefficients.
+    """
     m = as_matrix(mass_matrix, "mass_matrix", "mass")
     k = as_matrix(stiffness_matrix, "stiffness_matrix", "stiffness", m.shape[0])
     a = as_si(alpha, "alpha", "ratio", "nonnegative")  # [1/s]
@@ -153,6 +225,11 @@ def modal_damping(mass_matrix: object, stiffness_matrix: object, damping_ratios:
     -------
     numpy.ndarray
         Damping matrix [N s/m].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Bad matrices or damping ratios (see :func:`resonance.inputs.as_matrix`).
 
     References
     ----------

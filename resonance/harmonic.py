@@ -53,6 +53,11 @@ def convert_amplitude(
     numpy.ndarray
         The amplitudes in ``to_convention``, same unit.
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        An unknown convention, a negative or non-finite amplitude, or a pint quantity.
+
     Examples
     --------
     >>> convert_amplitude([1.0], "peak", "peak-to-peak")
@@ -72,10 +77,22 @@ def velocity_amplitude(displacement: object, frequency: object) -> np.ndarray:
 
     The convention (peak, pk-pk, RMS) of the result is that of the input.
 
+    Parameters
+    ----------
+    displacement : array_like or pint.Quantity
+        Displacement amplitude(s) [m] (>= 0).
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0), one per amplitude or one for all.
+
     Returns
     -------
     numpy.ndarray
         Velocity amplitude [m/s].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Negative or non-finite values, or quantities of the wrong kind.
     """
     x = as_si_array(displacement, "displacement", "displacement", "nonnegative")
     f = as_si_array(frequency, "frequency", "frequency", "nonnegative")
@@ -85,10 +102,22 @@ def velocity_amplitude(displacement: object, frequency: object) -> np.ndarray:
 def acceleration_amplitude(displacement: object, frequency: object) -> np.ndarray:
     """Acceleration amplitude ``w^2 X`` of a harmonic displacement ``X`` [m] at [Hz].
 
+    Parameters
+    ----------
+    displacement : array_like or pint.Quantity
+        Displacement amplitude(s) [m] (>= 0).
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0), one per amplitude or one for all.
+
     Returns
     -------
     numpy.ndarray
         Acceleration amplitude [m/s^2], same convention as the input.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Negative or non-finite values, or quantities of the wrong kind.
     """
     x = as_si_array(displacement, "displacement", "displacement", "nonnegative")
     f = as_si_array(frequency, "frequency", "frequency", "nonnegative")

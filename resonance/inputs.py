@@ -80,6 +80,18 @@ def _text_hint(text: str) -> str:
 def parse_unit(text: str, name: str) -> pint.Unit:
     """A unit written as text, read by the grammar of :func:`parse_quantity` or refused.
 
+    Parameters
+    ----------
+    text : str
+        A unit as written, e.g. ``"um"``, ``"lbf/in"``, ``"m/s**2"``.
+    name : str
+        The field, for error messages.
+
+    Returns
+    -------
+    pint.Unit
+        A unit of the package registry.
+
     Raises
     ------
     InputValueError
@@ -242,6 +254,30 @@ def as_si_array(value: object, name: str, kind: QuantityKind, sign: Sign = "any"
 
     Same parameters, conversion and checks as :func:`as_si`; an empty array
     is an error.
+
+    Parameters
+    ----------
+    value : array_like or pint.Quantity
+        One value or a 1-D sequence, plain numbers in the package convention or a quantity.
+    name : str
+        The parameter's name, for error messages.
+    kind : QuantityKind
+        The quantity kind (see :func:`resonance.units.internal_unit`).
+    sign : {"positive", "nonnegative", "any"}
+        The allowed sign.
+
+    Returns
+    -------
+    numpy.ndarray
+        The values in the internal unit of ``kind``, at least 1-D.
+
+    Raises
+    ------
+    InputValueError
+        Empty, non-finite, of the wrong sign, or implausible for the kind (speeds and frequencies excepted:
+        they are sweep axes).
+    InputTypeError
+        Text, a quantity of another dimension or registry, or more than one dimension.
     """
     array = np.atleast_1d(_magnitude(value, name, kind))
     if array.size == 0:
@@ -266,6 +302,11 @@ def as_matrix(value: object, name: str, kind: QuantityKind, size: int | None = N
         The quantity kind of its entries.
     size : int, optional
         The required number of rows and columns.
+
+    Returns
+    -------
+    numpy.ndarray
+        The symmetric matrix (symmetrized to round-off) in the internal unit of ``kind``.
 
     Raises
     ------

@@ -193,7 +193,25 @@ class TableReader:
 
 
 def parse_head(r: TableReader, data: Mapping[str, Any]) -> tuple[str, str, UnitSystem]:
-    """The ``[scenario]`` table: title, description and unit system."""
+    """The ``[scenario]`` table: title, description and unit system.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    data : mapping
+        The scenario's top-level tables.
+
+    Returns
+    -------
+    title, description : str
+    units : {"SI", "US"}
+
+    Raises
+    ------
+    ScenarioError
+        A missing title, a field of the wrong type, an unknown field, an unknown unit system.
+    """
     head = r.table(data, "scenario", "scenario")
     r.known(head, ("title", "description", "units"), "scenario")
     units = r.text(head, "units", "scenario.units", "SI")
@@ -203,7 +221,25 @@ def parse_head(r: TableReader, data: Mapping[str, Any]) -> tuple[str, str, UnitS
 
 
 def parse_speed(r: TableReader, speed: Mapping[str, Any]) -> OperatingRange:
-    """The ``[speed]`` table: the operating range with its skip bands [rpm]."""
+    """The ``[speed]`` table: the operating range with its skip bands [rpm].
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    speed : mapping
+        The ``[speed]`` table.
+
+    Returns
+    -------
+    OperatingRange
+        Speeds [rpm].
+
+    Raises
+    ------
+    ScenarioError
+        Missing or bad values, ``min`` above ``max``, skip bands that do not fit.
+    """
     r.known(speed, ("min", "max", "skip_bands"), "speed")
     low = r.quantity(speed, "min", "speed.min", "speed", "positive")
     high = r.quantity(speed, "max", "speed.max", "speed", "positive")
@@ -221,7 +257,23 @@ def parse_speed(r: TableReader, speed: Mapping[str, Any]) -> OperatingRange:
 
 
 def speed_table(speed: OperatingRange) -> dict[str, Any]:
-    """An operating range as a ``[speed]`` table."""
+    """An operating range as a ``[speed]`` table.
+
+    Parameters
+    ----------
+    speed : OperatingRange
+        The range to write.
+
+    Returns
+    -------
+    dict
+        The ``[speed]`` table, values as text in rpm.
+
+    Raises
+    ------
+    Nothing
+        Any operating range is written.
+    """
     return {
         "min": f"{speed.speed_min!r} rpm",
         "max": f"{speed.speed_max!r} rpm",
@@ -230,7 +282,25 @@ def speed_table(speed: OperatingRange) -> dict[str, Any]:
 
 
 def excitation_table(e: Excitation, motor: MotorSpec | None = None) -> dict[str, Any]:
-    """An excitation as an ``[[excitations]]`` entry (electrical ones as multiples of the motor's ``f_e``)."""
+    """An excitation as an ``[[excitations]]`` entry (electrical ones as multiples of the motor's ``f_e``).
+
+    Parameters
+    ----------
+    e : Excitation
+        The excitation to write.
+    motor : MotorSpec, optional
+        The scenario's motor, for electrical excitations.
+
+    Returns
+    -------
+    dict
+        One ``[[excitations]]`` entry.
+
+    Raises
+    ------
+    Nothing
+        Any excitation is written.
+    """
     if e.kind == "electrical" and motor is not None:
         base = motor.excitation(1.0)
         multiple = (e.order / base.order) if e.order is not None else (e.frequency / base.frequency)  # type: ignore[operator]
@@ -242,7 +312,25 @@ def excitation_table(e: Excitation, motor: MotorSpec | None = None) -> dict[str,
 
 
 def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
-    """The ``[motor]`` table: supply, poles and slip, or line frequency; None when absent."""
+    """The ``[motor]`` table: supply, poles and slip, or line frequency; None when absent.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    data : mapping
+        The ``[motor]`` table (empty when absent).
+
+    Returns
+    -------
+    MotorSpec or None
+
+    Raises
+    ------
+    ScenarioError
+        An unknown supply, poles that are not even (2 to 96), a missing or too large slip, a field that
+        does not belong to the supply.
+    """
     if not data:
         return None
     r.known(data, ("supply", "poles", "slip", "line_frequency"), "motor")
@@ -269,7 +357,27 @@ def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
 
 
 def parse_excitations(r: TableReader, items: list[Any], motor: MotorSpec | None = None) -> tuple[Excitation, ...]:
-    """The ``[[excitations]]`` list: orders, fixed frequencies and electrical multiples, with distinct labels."""
+    """The ``[[excitations]]`` list: orders, fixed frequencies and electrical multiples, with distinct labels.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    items : list
+        The ``[[excitations]]`` entries.
+    motor : MotorSpec, optional
+        The motor electrical excitations refer to.
+
+    Returns
+    -------
+    tuple of Excitation
+
+    Raises
+    ------
+    ScenarioError
+        None given, an entry with not exactly one of order, frequency or electrical, an electrical
+        excitation without a motor, bad values, a label used twice.
+    """
     out = []
     keys = ("order", "frequency", "electrical")
     for i, item in enumerate(items):
@@ -305,7 +413,27 @@ def parse_excitations(r: TableReader, items: list[Any], motor: MotorSpec | None 
 
 
 def parse_percent(r: TableReader, raw: Any, field: str) -> float:
-    """A percentage written as a plain number in (0, 100)."""
+    """A percentage written as a plain number in (0, 100).
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    raw : object
+        The value as read.
+    field : str
+        The field, for the error.
+
+    Returns
+    -------
+    float
+        Percent.
+
+    Raises
+    ------
+    ScenarioError
+        Text (``"15 %"`` would read as 0.15), a boolean, or a value outside (0, 100).
+    """
     # A percentage is a plain number: "15 %" text would be read by pint as 0.15.
     if isinstance(raw, bool) or not isinstance(raw, (int, float)):
         raise r.fail(field, f"got {raw!r}; expected a plain number of percent (for 15 % write 15)")
@@ -315,7 +443,24 @@ def parse_percent(r: TableReader, raw: Any, field: str) -> float:
 
 
 def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
-    """The ``[margin]`` table as a :class:`~resonance.rules.RuleSet` (see :mod:`resonance.scenario`)."""
+    """The ``[margin]`` table as a :class:`~resonance.rules.RuleSet` (see :mod:`resonance.scenario`).
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    data : mapping
+        The ``[margin]`` table (empty when absent).
+
+    Returns
+    -------
+    RuleSet
+
+    Raises
+    ------
+    ScenarioError
+        An unknown field or rule, a bad percentage, a pair of unknown kinds, an AF rule outside its scope.
+    """
     r.known(data, ("rule", "table", "name", "source", "flat", "torsional", "pairs"), "margin")
     lateral = parse_rule(r, data)
     flat: FlatRule | None = None
@@ -351,7 +496,25 @@ def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
 
 
 def parse_rule(r: TableReader, data: Mapping[str, Any]) -> MarginRule:
-    """The rotor lateral 1x rule of a ``[margin]`` table: a name or an AF table."""
+    """The rotor lateral 1x rule of a ``[margin]`` table: a name or an AF table.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    data : mapping
+        The ``[margin]`` table.
+
+    Returns
+    -------
+    MarginRule
+        ``margin.rule`` by name, or the ``margin.table`` rule.
+
+    Raises
+    ------
+    ScenarioError
+        An unknown rule name or a bad table.
+    """
     if "table" in data:
         table = r.table(data, "table", "margin.table")
         r.known(table, ("amplification_factors", "below", "above"), "margin.table")
@@ -377,7 +540,24 @@ def parse_rule(r: TableReader, data: Mapping[str, Any]) -> MarginRule:
 
 
 def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
-    """The ``[record]`` table: preparer, checker, revision and date, as text."""
+    """The ``[record]`` table: preparer, checker, revision and date, as text.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader of the scenario's source.
+    data : mapping
+        The ``[record]`` table (empty when absent).
+
+    Returns
+    -------
+    RecordSpec
+
+    Raises
+    ------
+    ScenarioError
+        An unknown field or a value that is not text (a TOML date is taken as its ISO text).
+    """
     r.known(data, ("preparer", "checker", "revision", "date"), "record")
     values = {}
     for key in ("preparer", "checker", "revision", "date"):
@@ -393,6 +573,16 @@ def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
 def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
     """The tables of a scenario file (TOML), unvalidated. The file is only read.
 
+    Parameters
+    ----------
+    path : path-like
+        The scenario file.
+
+    Returns
+    -------
+    dict
+        Its tables, unvalidated.
+
     Raises
     ------
     ScenarioError
@@ -403,6 +593,18 @@ def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:
 
 def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], str]:
     """The tables of a scenario file and the SHA-256 of the very bytes they were read from.
+
+    Parameters
+    ----------
+    path : path-like
+        The scenario file.
+
+    Returns
+    -------
+    tables : dict
+        Its tables, unvalidated.
+    sha256 : str
+        SHA-256 of the bytes read, as hex.
 
     Raises
     ------
@@ -421,7 +623,23 @@ def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], s
 
 
 def rules_table(rules: RuleSet) -> dict[str, Any]:
-    """A rule set as a ``[margin]`` table."""
+    """A rule set as a ``[margin]`` table.
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rules to write.
+
+    Returns
+    -------
+    dict
+        The ``[margin]`` table.
+
+    Raises
+    ------
+    InputTypeError
+        A rule with no scenario spelling.
+    """
     out = rule_table(rules.lateral_1x)
     if rules.flat is not None:
         out["flat"] = rules.flat.percent
@@ -435,7 +653,23 @@ def rules_table(rules: RuleSet) -> dict[str, Any]:
 
 
 def rule_table(rule: MarginRule) -> dict[str, Any]:
-    """One rule as ``[margin]`` keys."""
+    """One rule as ``[margin]`` keys.
+
+    Parameters
+    ----------
+    rule : MarginRule
+        The rule to write.
+
+    Returns
+    -------
+    dict
+        ``rule`` by name, or ``name``, ``source`` and ``table``.
+
+    Raises
+    ------
+    InputTypeError
+        A rule with no scenario spelling.
+    """
     if isinstance(rule, ApiLateralRule):
         return {"rule": "api-lateral"}
     if isinstance(rule, FlatRule):
@@ -454,14 +688,52 @@ def rule_table(rule: MarginRule) -> dict[str, Any]:
 
 
 def motor_table(motor: MotorSpec) -> dict[str, Any]:
-    """A motor as a ``[motor]`` table."""
+    """A motor as a ``[motor]`` table.
+
+    Parameters
+    ----------
+    motor : MotorSpec
+        The motor to write.
+
+    Returns
+    -------
+    dict
+        The ``[motor]`` table.
+
+    Raises
+    ------
+    Nothing
+        Any motor is written.
+    """
     if motor.supply == "drive":
         return {"supply": "drive", "poles": motor.poles, "slip": motor.slip}
     return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz"}
 
 
 def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str], overwrite: bool = False) -> Path:
-    """Write scenario tables as TOML through a temporary file; an existing file is kept unless ``overwrite``."""
+    """Write scenario tables as TOML through a temporary file; an existing file is kept unless ``overwrite``.
+
+    Parameters
+    ----------
+    table : mapping
+        Scenario tables (as :func:`resonance.scenario.scenario_to_dict` gives them).
+    path : path-like
+        Where to write.
+    overwrite : bool
+        Replace an existing file.
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+
+    Raises
+    ------
+    FileExistsError
+        ``path`` exists and ``overwrite`` is False.
+    OSError
+        The folder cannot be written (nothing is left behind).
+    """
     target = Path(path)
     if target.exists() and not overwrite:
         raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")

@@ -164,6 +164,21 @@ _LABELS: dict[str, str] = {
 def internal_unit(kind: QuantityKind) -> str:
     """Return the unit a plain float of this quantity kind is taken to be in.
 
+    Parameters
+    ----------
+    kind : QuantityKind
+        The quantity kind.
+
+    Returns
+    -------
+    str
+        The pint spelling of the unit a plain number of this kind is taken to be in.
+
+    Raises
+    ------
+    ValueError
+        An unknown kind.
+
     Examples
     --------
     >>> internal_unit("speed"), internal_unit("frequency"), internal_unit("stiffness")
@@ -192,6 +207,11 @@ def display_unit(kind: QuantityKind, system: UnitSystem = "SI") -> tuple[str, fl
         The display unit's label (``"µm"``, ``"mil"``, ``"lbf/in"``...).
     factor : float
         Multiply a value in the package's internal unit by this to display it.
+
+    Raises
+    ------
+    ValueError
+        An unknown kind or unit system.
 
     Examples
     --------
