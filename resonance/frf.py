@@ -81,7 +81,31 @@ def _direct(model: MatrixModel, w: np.ndarray, j: int) -> np.ndarray:
 
 
 def model_receptance(model: MatrixModel, frequency: object, input_dof: int, method: FrfMethod = "auto") -> np.ndarray:
-    """Receptance column of a validated :class:`MatrixModel` (see :func:`receptance`)."""
+    """Receptance column of a validated :class:`MatrixModel` (see :func:`receptance`).
+
+    Parameters
+    ----------
+    model : MatrixModel
+        The model.
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0).
+    input_dof : int
+        Index of the degree of freedom where the force acts.
+    method : {"auto", "modal", "state-space", "direct"}
+        Solution method.
+
+    Returns
+    -------
+    numpy.ndarray of complex, shape (len(frequency), n)
+        Receptance [m/N] (see :func:`receptance`).
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Bad frequencies or degree of freedom.
+    ValueError
+        An unknown method.
+    """
     if method not in _METHODS:
         raise ValueError(f"method: got {method!r}; expected one of {list(_METHODS)}")
     j = check_dof(input_dof, model.size, "input_dof")
@@ -128,6 +152,13 @@ def receptance(
         ``H[i, r]``: displacement at dof ``r`` per unit force at ``input_dof``,
         at ``frequency[i]`` [m/N]; the phase lag is ``-angle(H)``.
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Bad matrices (not square, symmetric, finite, definite), frequencies or degree of freedom.
+    ValueError
+        An unknown method.
+
     References
     ----------
     Ewins, *Modal Testing*, 2nd ed., 2000, eqs. 2.59 and 2.88.
@@ -165,7 +196,23 @@ def mobility(
     input_dof: int,
     method: FrfMethod = "auto",
 ) -> np.ndarray:
-    """Mobility ``i w H``: velocity per unit force [m/(N s)]; see :func:`receptance`."""
+    """Mobility ``i w H``: velocity per unit force [m/(N s)]; see :func:`receptance`.
+
+    Parameters
+    ----------
+    mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method
+        As :func:`receptance`.
+
+    Returns
+    -------
+    numpy.ndarray of complex
+        Mobility [m/(N s)].
+
+    Raises
+    ------
+    InputValueError, InputTypeError, ValueError
+        As :func:`receptance`.
+    """
     return _derivative(1, mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)
 
 
@@ -177,5 +224,21 @@ def accelerance(
     input_dof: int,
     method: FrfMethod = "auto",
 ) -> np.ndarray:
-    """Accelerance ``-w^2 H``: acceleration per unit force [m/(N s^2)]; see :func:`receptance`."""
+    """Accelerance ``-w^2 H``: acceleration per unit force [m/(N s^2)]; see :func:`receptance`.
+
+    Parameters
+    ----------
+    mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method
+        As :func:`receptance`.
+
+    Returns
+    -------
+    numpy.ndarray of complex
+        Accelerance [m/(N s^2)].
+
+    Raises
+    ------
+    InputValueError, InputTypeError, ValueError
+        As :func:`receptance`.
+    """
     return _derivative(2, mass_matrix, stiffness_matrix, damping_matrix, frequency, input_dof, method)

@@ -76,6 +76,11 @@ def natural_frequency(mass: object, stiffness: object) -> float:
     float
         Natural frequency [Hz].
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A mass or stiffness that is not finite and > 0, or of the wrong kind.
+
     References
     ----------
     Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 2.2.
@@ -103,6 +108,11 @@ def damping_ratio(mass: object, stiffness: object, damping: object) -> float:
     float
         Damping ratio [-].
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A non-positive mass or stiffness, a negative damping, a quantity of the wrong kind.
+
     References
     ----------
     Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 2.6.
@@ -116,10 +126,24 @@ def damping_coefficient(mass: object, stiffness: object, damping_ratio: object) 
 
     The inverse of :func:`damping_ratio`.
 
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    stiffness : float or pint.Quantity
+        [N/m] (> 0).
+    damping_ratio : float
+        [-] (>= 0).
+
     Returns
     -------
     float
         Viscous damping coefficient [N s/m].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A non-positive mass or stiffness, a negative damping ratio, a quantity of the wrong kind.
     """
     m = as_si(mass, "mass", "mass", "positive")
     k = as_si(stiffness, "stiffness", "stiffness", "positive")
@@ -129,6 +153,20 @@ def damping_coefficient(mass: object, stiffness: object, damping_ratio: object) 
 
 def damped_natural_frequency(mass: object, stiffness: object, damping: object) -> float:
     """Damped natural frequency ``fd = fn sqrt(1 - zeta^2)``.
+
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    stiffness : float or pint.Quantity
+        [N/m] (> 0).
+    damping : float or pint.Quantity
+        Viscous damping [N s/m] (>= 0).
+
+    Returns
+    -------
+    float
+        ``f_d = f_n sqrt(1 - zeta^2)`` [Hz].
 
     Raises
     ------
@@ -153,6 +191,20 @@ def peak_frequency(mass: object, stiffness: object, damping: object) -> float:
     """Frequency of the displacement peak under a constant harmonic force.
 
     ``f_peak = fn sqrt(1 - 2 zeta^2)``.
+
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    stiffness : float or pint.Quantity
+        [N/m] (> 0).
+    damping : float or pint.Quantity
+        Viscous damping [N s/m] (>= 0).
+
+    Returns
+    -------
+    float
+        Frequency of the displacement peak under a constant force, ``f_n sqrt(1 - 2 zeta^2)`` [Hz].
 
     Raises
     ------
@@ -189,6 +241,11 @@ def sdof_receptance(mass: object, stiffness: object, damping: object, frequency:
     -------
     numpy.ndarray of complex
         Receptance [m/N], one value per frequency.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Bad mass, stiffness, damping or frequencies (see :func:`harmonic_response`).
     """
     m, k, c = _mkc(mass, stiffness, damping)
     w = TWO_PI * as_si_array(frequency, "frequency", "frequency", "nonnegative")
@@ -217,6 +274,12 @@ def harmonic_response(
     -------
     SteadyState
         ``amplitude`` 0-peak [m] and ``phase_lag`` [rad] in [0, pi].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A non-positive mass or stiffness, negative damping or frequencies, non-finite values, a quantity
+        of the wrong kind.
 
     Notes
     -----
@@ -262,6 +325,11 @@ def unbalance_response(
         ``amplitude`` 0-peak [m], tending to ``U / m`` well above resonance,
         and ``phase_lag`` [rad] behind the unbalance force, in [0, pi].
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        As :func:`harmonic_response`, or a negative unbalance.
+
     References
     ----------
     Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 3.7.
@@ -277,11 +345,29 @@ def base_excitation_response(
 ) -> SteadyState:
     """Absolute motion of the mass when its base moves ``Y cos(w t)``.
 
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    stiffness : float or pint.Quantity
+        [N/m] (> 0).
+    damping : float or pint.Quantity
+        Viscous damping [N s/m] (>= 0).
+    base_amplitude : float or pint.Quantity
+        Amplitude of the base motion [m].
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0).
+
     Returns
     -------
     SteadyState
         ``amplitude`` 0-peak [m] (``Y`` times the motion transmissibility) and
         ``phase_lag`` [rad] of the mass behind the base motion, in [0, pi].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        As :func:`harmonic_response`.
 
     Notes
     -----
@@ -307,11 +393,27 @@ def transmissibility(mass: object, stiffness: object, damping: object, frequency
     ``T = sqrt(1 + (2 zeta r)^2) / sqrt((1 - r^2)^2 + (2 zeta r)^2)``,
     ``r = f / fn``.
 
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    stiffness : float or pint.Quantity
+        [N/m] (> 0).
+    damping : float or pint.Quantity
+        Viscous damping [N s/m] (>= 0).
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0).
+
     Returns
     -------
     numpy.ndarray
         Transmissibility [-], one value per frequency; below 1 only above
         ``r = sqrt(2)``.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        As :func:`harmonic_response`.
 
     References
     ----------

@@ -50,6 +50,16 @@ def scaled_model(
         Factor on the masses ``scenario.whatif.vary_masses`` (> 0).
     damping_ratio : float, optional
         Modal damping ratio instead of the scenario's.
+
+    Returns
+    -------
+    MatrixModel
+        The model with the factors applied.
+
+    Raises
+    ------
+    InputValueError
+        A factor that is not finite and > 0.
     """
     for name, value in (("stiffness_scale", stiffness_scale), ("mass_scale", mass_scale)):
         if not (math.isfinite(value) and value > 0.0):
@@ -62,7 +72,25 @@ def scaled_model(
 
 
 def check_scaled(scenario: Scenario, stiffness_scale: float = 1.0, mass_scale: float = 1.0) -> FindingsTable:
-    """The margin checks of the scaled model (no forced response: fast)."""
+    """The margin checks of the scaled model (no forced response: fast).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The validated scenario (not modified).
+    stiffness_scale, mass_scale : float
+        Factors on the what-if springs and masses (> 0).
+
+    Returns
+    -------
+    FindingsTable
+        The margin findings of the scaled model.
+
+    Raises
+    ------
+    InputValueError
+        A factor that is not finite and > 0.
+    """
     model = scaled_model(scenario, stiffness_scale, mass_scale)
     modes = study_modes(modal_properties(model), model.labels)
     return interference_check(modes, scenario.excitations, scenario.speed, scenario.rules)
@@ -129,6 +157,16 @@ def smallest_change(
         Smallest and largest factor searched (``0 < low < 1 < high``).
     points : int
         Grid size of the scan.
+
+    Returns
+    -------
+    SmallestChange
+        The factor (None when no factor within the bounds passes) and how it was found.
+
+    Raises
+    ------
+    InputValueError
+        An unknown parameter, or bounds that do not bracket 1.
     """
     if parameter not in ("stiffness", "mass"):
         raise InputValueError(f"parameter: got {parameter!r}; expected 'stiffness' or 'mass'")
@@ -216,6 +254,16 @@ def tolerance_check(
         Factors evaluated across the band (>= 2), evenly spaced.
     stiffness_scale, mass_scale : float
         The nominal what-if factors the band is centred on.
+
+    Returns
+    -------
+    ToleranceResult
+        The findings at every factor of the band.
+
+    Raises
+    ------
+    InputValueError
+        A tolerance outside [0, 1), fewer than 2 samples, a bad factor.
     """
     tol = scenario.whatif.tolerance if tolerance is None else tolerance
     if not (0.0 <= tol < 1.0):
