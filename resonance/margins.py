@@ -77,22 +77,7 @@ class HalfPower:
 
     @property
     def amplification_factor(self) -> float:
-        """``AF = N_c / (N_2 - N_1)`` [-].
-
-        Parameters
-        ----------
-        frequency : array_like or pint.Quantity
-            Strictly increasing frequencies or speeds (any one unit).
-        amplitude : array_like or pint.Quantity
-            Response amplitudes (> 0).
-        near : float, optional
-            Pick the local maximum nearest this frequency.
-
-        Raises
-        ------
-        InputValueError
-            As :func:`half_power_points`.
-        """
+        """``AF = N_c / (N_2 - N_1)`` [-]."""
         return self.peak_frequency / (self.upper - self.lower)
 
     @property
@@ -231,10 +216,24 @@ def amplification_factor(frequency: object, amplitude: object, near: object | No
     ``AF = N_c / (N_2 - N_1)``; see :func:`half_power_points` for the
     parameters, the interpolation and the errors.
 
+    Parameters
+    ----------
+    frequency : array_like or pint.Quantity
+        Strictly increasing frequencies or speeds (any one unit).
+    amplitude : array_like or pint.Quantity
+        Response amplitudes (> 0).
+    near : float, optional
+        Pick the local maximum nearest this frequency.
+
     Returns
     -------
     float
         AF [-].
+
+    Raises
+    ------
+    InputValueError
+        As :func:`half_power_points`.
 
     References
     ----------

@@ -103,6 +103,11 @@ def matrix_model(
     labels : sequence of str, optional
         Names of the degrees of freedom; ``dof0, dof1, ...`` if omitted.
 
+    Returns
+    -------
+    MatrixModel
+        The validated model (damping zero when not given).
+
     Raises
     ------
     InputValueError
@@ -182,6 +187,12 @@ def lumped_model(masses: Mapping[str, object], springs: Sequence[Spring]) -> Mat
     -------
     MatrixModel
 
+    Raises
+    ------
+    InputValueError, InputTypeError
+        No masses, a mass named ground, a spring naming an unknown mass or joining a mass to itself, bad values,
+        too many degrees of freedom.
+
     Examples
     --------
     A pump (1200 kg) on a skid (800 kg) on isolators and anchors:
@@ -244,6 +255,16 @@ def chain_model(
         [N/m], n values (the first to ground).
     dampings : sequence of float or pint.Quantity, optional
         [N s/m], n values; undamped if omitted.
+
+    Returns
+    -------
+    MatrixModel
+        The chain, masses named ``m0`` .. ``m(n-1)``.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Lists of different lengths, bad values, too many masses.
     """
     m = as_si_array(masses, "masses", "mass", "positive")
     k = as_si_array(stiffnesses, "stiffnesses", "stiffness", "nonnegative")

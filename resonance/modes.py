@@ -192,7 +192,26 @@ class ModeSet:
 
 
 def is_proportional(model: MatrixModel, shapes: np.ndarray, rtol: float = 1e-9) -> bool:
-    """True when ``Phi^T C Phi`` is diagonal, i.e. the undamped shapes decouple C."""
+    """True when ``Phi^T C Phi`` is diagonal, i.e. the undamped shapes decouple C.
+
+    Parameters
+    ----------
+    model : MatrixModel
+        The model.
+    shapes : numpy.ndarray
+        Undamped mass-normalized shapes, one column per mode.
+    rtol : float
+        Largest off-diagonal term allowed, relative to the largest term.
+
+    Returns
+    -------
+    bool
+
+    Raises
+    ------
+    ValueError
+        Shapes whose size does not match the model (from numpy).
+    """
     modal_c = shapes.T @ model.damping @ shapes
     scale = float(np.abs(modal_c).max())
     if scale == 0.0:
@@ -205,6 +224,23 @@ def undamped_modes(model: MatrixModel) -> tuple[np.ndarray, np.ndarray]:
     """Undamped natural circular frequencies [rad/s] and mass-normalized shapes of ``K phi = w^2 M phi``.
 
     Rigid-body modes (eigenvalues below 1e-12 of the largest) come out at exactly 0.
+
+    Parameters
+    ----------
+    model : MatrixModel
+        The model.
+
+    Returns
+    -------
+    omega : numpy.ndarray
+        Natural circular frequencies [rad/s], ascending.
+    shapes : numpy.ndarray
+        Mass-normalized shapes, one column per mode.
+
+    Raises
+    ------
+    numpy.linalg.LinAlgError
+        Never for a validated model (M positive definite, K semi-definite).
     """
     w2, phi = scipy.linalg.eigh(model.stiffness, model.mass)
     scale = max(float(np.abs(w2).max()), np.finfo(float).tiny)
@@ -213,7 +249,23 @@ def undamped_modes(model: MatrixModel) -> tuple[np.ndarray, np.ndarray]:
 
 
 def model_modes(model: MatrixModel) -> ModeSet:
-    """Modes of a validated :class:`MatrixModel` (see :func:`modes`)."""
+    """Modes of a validated :class:`MatrixModel` (see :func:`modes`).
+
+    Parameters
+    ----------
+    model : MatrixModel
+        A validated model.
+
+    Returns
+    -------
+    ModeSet
+        Undamped, proportionally or generally damped modes (see :func:`modes`).
+
+    Raises
+    ------
+    Nothing
+        The model is validated; overdamped modes are counted and left out, not refused.
+    """
     n = model.size
     with blas_threads_for(2 * n):
         w, phi = undamped_modes(model)
@@ -247,6 +299,13 @@ def balanced_state_matrix(
     matrix is ``[[0, S], [-W^2 S^-1, -Phi^T C Phi]]``, whose entries are all of
     the order of the natural frequencies.
 
+    Parameters
+    ----------
+    model : MatrixModel
+        The model.
+    undamped : tuple of numpy.ndarray, optional
+        Its undamped modes, when already solved (:func:`undamped_modes`).
+
     Returns
     -------
     a : numpy.ndarray
@@ -255,6 +314,11 @@ def balanced_state_matrix(
         Mass-normalized undamped shapes.
     scale : numpy.ndarray
         The diagonal of S [rad/s].
+
+    Raises
+    ------
+    numpy.linalg.LinAlgError
+        Never for a validated model.
     """
     n = model.size
     wr, phi = undamped if undamped is not None else undamped_modes(model)
@@ -284,6 +348,11 @@ def modes(mass_matrix: object, stiffness_matrix: object, damping_matrix: object 
     -------
     ModeSet
         ``frequency`` [Hz] ascending, ``damping_ratio``, ``shapes`` and more.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Matrices that are not square, symmetric, finite, of one size, or M not positive definite.
 
     Notes
     -----

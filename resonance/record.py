@@ -80,7 +80,25 @@ _AF_REFERENCES = {
 
 
 def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> list[dict[str, str]]:
-    """The methods of a record: the fixed ones, each margin rule as applied, each AF source as used."""
+    """The methods of a record: the fixed ones, each margin rule as applied, each AF source as used.
+
+    Parameters
+    ----------
+    base : tuple of (str, str)
+        The methods every record of the kind uses, with references.
+    findings : FindingsTable
+        The findings whose rules and AF sources are added.
+
+    Returns
+    -------
+    list of dict
+        ``{"method": ..., "reference": ...}`` entries.
+
+    Raises
+    ------
+    Nothing
+        Pure text.
+    """
     out = [{"method": m, "reference": r} for m, r in base]
     for line in findings.rules_used():
         out.append({"method": f"Required separation margin: {line}", "reference": line.split(" (", 1)[1].split(")")[0]})
@@ -105,7 +123,18 @@ class Record:
 
 
 def software_versions() -> dict[str, str]:
-    """Versions of this package (from its one source) and of what it runs on."""
+    """Versions of this package (from its one source) and of what it runs on.
+
+    Returns
+    -------
+    dict of str to str
+        Python, this package (from ``resonance._version``) and its main dependencies.
+
+    Raises
+    ------
+    Nothing
+        A package that is not installed is reported as such.
+    """
     out = {"python": platform.python_version(), "resonance": __version__}
     for name in ("numpy", "scipy", "pint", "plotly", "ipywidgets"):
         try:
@@ -147,7 +176,33 @@ def _assumptions(result: StudyResult) -> list[str]:
 def record_head(
     record_format: str, title: str, source: str, sha256: str | None, revision: RecordSpec, created: _dt.datetime
 ) -> dict[str, Any]:
-    """The opening fields of a record's data: format, title, time, software, scenario file and hash, revision."""
+    """The opening fields of a record's data: format, title, time, software, scenario file and hash, revision.
+
+    Parameters
+    ----------
+    record_format : str
+        The record format's name and version.
+    title : str
+        The scenario's title.
+    source : str
+        The scenario file's name.
+    sha256 : str or None
+        The SHA-256 of the scenario file's bytes (None when edited in memory).
+    revision : RecordSpec
+        Preparer, checker, revision and date.
+    created : datetime
+        Time stamp (UTC).
+
+    Returns
+    -------
+    dict
+        The opening fields of the record's data.
+
+    Raises
+    ------
+    Nothing
+        Pure data.
+    """
     return {
         "format": record_format,
         "title": title,
@@ -165,7 +220,26 @@ def record_head(
 
 
 def header_lines(heading: str, title: str, description: str, data: dict[str, Any]) -> list[str]:
-    """The opening lines of a text record: title, description, file and hash, revision, time stamp, software."""
+    """The opening lines of a text record: title, description, file and hash, revision, time stamp, software.
+
+    Parameters
+    ----------
+    heading : str
+        The record's heading.
+    title, description : str
+        The scenario's title and description.
+    data : dict
+        The record's data (its head, see :func:`record_head`).
+
+    Returns
+    -------
+    list of str
+
+    Raises
+    ------
+    KeyError
+        Data without the head fields.
+    """
     rev = data["revision"]
     return [
         f"{heading}: {title}",
@@ -182,7 +256,22 @@ def header_lines(heading: str, title: str, description: str, data: dict[str, Any
 
 
 def basis_lines(data: dict[str, Any]) -> list[str]:
-    """The assumptions and the methods with their references, as text lines."""
+    """The assumptions and the methods with their references, as text lines.
+
+    Parameters
+    ----------
+    data : dict
+        The record's data, with its assumptions and methods.
+
+    Returns
+    -------
+    list of str
+
+    Raises
+    ------
+    KeyError
+        Data without assumptions or methods.
+    """
     return [
         "ASSUMPTIONS",
         *(f"  - {a}" for a in data["assumptions"]),
@@ -257,6 +346,16 @@ def build_record(
         Its field verification; the verdict then needs both to pass.
     created : datetime, optional
         Time stamp to write (now, UTC, if omitted).
+
+    Returns
+    -------
+    Record
+        Data (JSON-ready, SI) and text (in the scenario's units).
+
+    Raises
+    ------
+    Nothing
+        The study result is already validated.
     """
     created = created or _dt.datetime.now(_dt.timezone.utc)
     modes = []
@@ -325,14 +424,53 @@ def build_record(
 
 
 def atomic_write(path: str | os.PathLike[str], text: str) -> Path:
-    """Write text through a temporary file and a rename, so no partial file is left."""
+    """Write text through a temporary file and a rename, so no partial file is left.
+
+    Parameters
+    ----------
+    path : path-like
+        The file to write.
+    text : str
+        Its content (UTF-8).
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+
+    Raises
+    ------
+    OSError
+        The folder cannot be written (no temporary file is left behind).
+    """
     target = Path(path)
     temporary = target.with_name(f".{target.name}.partial")
-    temporary.write_text(text, encoding="utf-8")
-    os.replace(temporary, target)
+    try:
+        temporary.write_text(text, encoding="utf-8")
+        os.replace(temporary, target)
+    finally:
+        temporary.unlink(missing_ok=True)  # never a partial file, whatever failed
     return target
 
 
 def write_json(record: Record, path: str | os.PathLike[str]) -> Path:
-    """Write the record's data as JSON."""
+    """Write the record's data as JSON.
+
+    Parameters
+    ----------
+    record : Record
+        The record.
+    path : path-like
+        The file to write.
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+
+    Raises
+    ------
+    OSError
+        As :func:`atomic_write`.
+    """
     return atomic_write(path, json.dumps(record.data, indent=2))

@@ -312,6 +312,18 @@ def _response(r: TableReader, data: Mapping[str, Any], names: Sequence[str], spe
 def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scenario:
     """Validate a scenario given as nested tables (as read from TOML).
 
+    Parameters
+    ----------
+    data : mapping
+        The scenario's tables.
+    source : str
+        The file name errors start with.
+
+    Returns
+    -------
+    Scenario
+        The validated scenario.
+
     Raises
     ------
     ScenarioError
@@ -400,6 +412,16 @@ def load_scenario(path: str | os.PathLike[str]) -> Scenario:
 
     The scenario keeps the SHA-256 of the file's bytes for the record.
 
+    Parameters
+    ----------
+    path : path-like
+        The scenario file.
+
+    Returns
+    -------
+    Scenario
+        The validated scenario, with the file's SHA-256.
+
     Raises
     ------
     ScenarioError
@@ -413,6 +435,21 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
     """The scenario as nested tables, in the package convention, ready for TOML.
 
     ``parse_scenario(scenario_to_dict(s))`` gives back an equal scenario.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+
+    Returns
+    -------
+    dict
+        Its tables, values as text with units in the package convention.
+
+    Raises
+    ------
+    InputTypeError
+        A margin rule with no scenario spelling.
     """
     m = scenario.model
     given = scenario.response
@@ -455,6 +492,20 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
 
 def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: bool = False) -> Path:
     """Write a scenario as TOML; an existing file is kept unless ``overwrite``.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario to write.
+    path : path-like
+        Where to write.
+    overwrite : bool
+        Replace an existing file.
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
 
     Raises
     ------

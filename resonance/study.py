@@ -157,7 +157,27 @@ class StudyResult:
 
 
 def speed_axis(scenario: Scenario, modes: tuple[Mode, ...] | list[Mode], points: int = 600) -> np.ndarray:
-    """Speed axis for response plots [rpm]: the range and the 1x criticals near it."""
+    """Speed axis for response plots [rpm]: the range and the 1x criticals near it.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (its speed range).
+    modes : sequence of Mode
+        The modes whose 1x criticals the axis should reach.
+    points : int
+        Number of speeds.
+
+    Returns
+    -------
+    numpy.ndarray
+        Speeds [rpm].
+
+    Raises
+    ------
+    Nothing
+        The scenario is validated.
+    """
     low = 0.5 * scenario.speed.speed_min
     high = 1.3 * scenario.speed.speed_max
     for mode in modes:
@@ -172,6 +192,22 @@ def shape_words(shape: np.ndarray | None, labels: tuple[str, ...]) -> str:
     Masses moving at least 30 % of the largest amplitude are named, ``with`` when in phase with
     the largest and ``against`` when in opposition (complex shapes are compared by the real part of
     ``conj(largest) x other``).
+
+    Parameters
+    ----------
+    shape : numpy.ndarray or None
+        A mode shape over the masses (complex allowed).
+    labels : tuple of str
+        The masses' names in degree-of-freedom order.
+
+    Returns
+    -------
+    str
+
+    Raises
+    ------
+    Nothing
+        Pure text.
 
     Examples
     --------
@@ -200,7 +236,25 @@ def shape_words(shape: np.ndarray | None, labels: tuple[str, ...]) -> str:
 
 
 def study_modes(modeset: ModeSet, labels: tuple[str, ...]) -> tuple[Mode, ...]:
-    """Structural modes labelled by number and what moves in each (see :func:`shape_words`)."""
+    """Structural modes labelled by number and what moves in each (see :func:`shape_words`).
+
+    Parameters
+    ----------
+    modeset : ModeSet
+        The model's modes.
+    labels : tuple of str
+        The masses' names.
+
+    Returns
+    -------
+    tuple of Mode
+        Structural modes with descriptive labels and their AF source.
+
+    Raises
+    ------
+    Nothing
+        Modes at 0 Hz (rigid-body) are left out by :meth:`ModeSet.to_modes`.
+    """
     out = []
     for i, mode in enumerate(modeset.to_modes()):
         out.append(
@@ -237,6 +291,11 @@ def run_study(
     Returns
     -------
     StudyResult
+
+    Raises
+    ------
+    InputValueError
+        A degree of freedom named in the scenario that the model does not have (parsing prevents it).
     """
     model = model if model is not None else scenario.model.build()
     modeset = modal_properties(model)

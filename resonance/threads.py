@@ -24,7 +24,23 @@ _controller: ThreadpoolController | None = None
 
 @contextlib.contextmanager
 def blas_threads_for(order: int) -> Iterator[None]:
-    """Run the block with one BLAS thread when the matrix order is small."""
+    """Run the block with one BLAS thread when the matrix order is small.
+
+    Parameters
+    ----------
+    order : int
+        Size of the dense problem about to be solved.
+
+    Returns
+    -------
+    context manager
+        Inside it, BLAS runs on one thread when ``order`` is small.
+
+    Raises
+    ------
+    Nothing
+        Without threadpoolctl's support the limit is simply not applied.
+    """
     global _controller
     if order >= SMALL_PROBLEM_SIZE:
         yield
