@@ -132,7 +132,23 @@ def _compare(args: argparse.Namespace) -> int:
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Entry point; returns the exit code."""
+    """Entry point; returns the exit code.
+
+    Parameters
+    ----------
+    argv : sequence of str, optional
+        The arguments (``sys.argv[1:]`` if omitted).
+
+    Returns
+    -------
+    int
+        0 pass, 1 fail (or a changed verdict for ``compare``), 2 bad input.
+
+    Raises
+    ------
+    SystemExit
+        On a usage error (from argparse, exit code 2).
+    """
     args = _parser().parse_args(argv)
     try:
         return _compare(args) if args.command == "compare" else _check(args)

@@ -63,6 +63,11 @@ def operating_range(
     skip_bands : sequence of (low, high)
         [rpm], each ``low < high``, within the range, not covering all of it.
 
+    Returns
+    -------
+    OperatingRange
+        Speeds [rpm].
+
     Raises
     ------
     InputValueError

@@ -117,6 +117,11 @@ def find_resonances(
     -------
     list of Resonance
         Sorted by speed.
+
+    Raises
+    ------
+    InputValueError
+        An unknown channel, or a band holding fewer than 5 readings.
     """
     mask = _band(data.speed, band)
     speed = data.speed[mask]
@@ -229,6 +234,11 @@ def fit_modes(
     -------
     ModalFit
 
+    Raises
+    ------
+    InputValueError
+        No initial guess, an unknown channel, or a band holding fewer than 5 readings.
+
     Notes
     -----
     Variable projection: only the frequencies and damping ratios are iterated; residues, the offset
@@ -319,6 +329,16 @@ def measured_modes(
     kind : {"structural", "rotor-lateral", "torsional"}
         What was measured (a casing or support: structural; a shaft probe:
         rotor lateral); it selects the margin rule.
+
+    Returns
+    -------
+    list of Mode
+        Source ``"measured"``, with the AF source in words.
+
+    Raises
+    ------
+    InputValueError
+        A kind that is not a mode kind.
     """
     out = []
     for i, res in enumerate(r for r in resonances if r.confirmed):
@@ -353,5 +373,26 @@ def measured_findings(
     speed_range: OperatingRange,
     rules: RuleSet | MarginRule | None = None,
 ) -> FindingsTable:
-    """The interference check of measured modes (the same rules, in the same scopes, as the model checks)."""
+    """The interference check of measured modes (the same rules, in the same scopes, as the model checks).
+
+    Parameters
+    ----------
+    modes : sequence of Mode
+        Measured modes (:func:`measured_modes`).
+    excitations : sequence of Excitation
+        The scenario's excitations.
+    speed_range : OperatingRange
+        The speeds of continuous operation [rpm].
+    rules : RuleSet or MarginRule, optional
+        The scenario's rules.
+
+    Returns
+    -------
+    FindingsTable
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        As :func:`resonance.interference.interference_check`.
+    """
     return interference_check(list(modes), list(excitations), speed_range, rules)

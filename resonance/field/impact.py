@@ -105,6 +105,11 @@ def h1_estimate(
     Returns
     -------
     frequency, h1, coherence : numpy.ndarray
+
+    Raises
+    ------
+    ValueError
+        Force and response of different shapes (from numpy).
     """
     f = np.fft.rfft(force, axis=1)
     x = np.fft.rfft(response, axis=1)
@@ -145,6 +150,11 @@ def impact_frf(
         twice the pulse (from the trigger until the force falls below 5 % of its peak).
     exponential_tau : float, optional
         Time constant of the exponential window [s]; by default a quarter of the record.
+
+    Returns
+    -------
+    Frf
+        H1 [response unit / N] and coherence over frequency, with the window's time constant.
 
     Raises
     ------
@@ -223,7 +233,25 @@ def _band_mask(frf: Frf, band: tuple[float, float]) -> np.ndarray:
 
 
 def peak_pick(frf: Frf, band: tuple[float, float]) -> Pole:
-    """Natural frequency and damping of the peak in a band by the half-power method on ``|receptance|``."""
+    """Natural frequency and damping of the peak in a band by the half-power method on ``|receptance|``.
+
+    Parameters
+    ----------
+    frf : Frf
+        The estimate.
+    band : (float, float)
+        Frequencies [Hz] holding one peak.
+
+    Returns
+    -------
+    Pole
+        The system's natural frequency [Hz] and damping ratio (the window's decay removed).
+
+    Raises
+    ------
+    InputValueError
+        A band with fewer than 5 lines, or a half-power point outside it.
+    """
     mask = _band_mask(frf, band)
     hp = half_power_points(frf.frequency[mask], np.abs(frf.receptance()[mask]))
     return _unwindowed(frf, hp.peak_frequency, hp.damping_ratio)
@@ -236,6 +264,23 @@ def circle_fit(frf: Frf, band: tuple[float, float]) -> Pole:
     plane; the natural frequency is where the angle along the circle changes
     fastest with frequency, and the damping follows from the angles of the
     points either side: ``zeta = (w_a^2 - w_b^2) / (2 w_n (w_a tan(t_a / 2) + w_b tan(t_b / 2)))``.
+
+    Parameters
+    ----------
+    frf : Frf
+        The estimate.
+    band : (float, float)
+        Frequencies [Hz] around one mode.
+
+    Returns
+    -------
+    Pole
+        The system's natural frequency [Hz] and damping ratio (the window's decay removed).
+
+    Raises
+    ------
+    InputValueError
+        A band with fewer than 5 lines or without points on both sides of the peak.
 
     References
     ----------
@@ -291,10 +336,26 @@ def rfp_fit(frf: Frf, band: tuple[float, float], modes: int, iterations: int = 8
     at least 0.1 % of ``|H|``. Without this, a weight of ``1 / |H|`` lets noisy antiresonances and band
     edges decide the fit.
 
+    Parameters
+    ----------
+    frf : Frf
+        The estimate.
+    band : (float, float)
+        Frequencies [Hz] fitted.
+    modes : int
+        Number of modes in the band (>= 1).
+    iterations : int
+        Largest number of Sanathanan-Koerner passes.
+
     Returns
     -------
     list of Pole
         Underdamped poles in the band's neighbourhood, by frequency.
+
+    Raises
+    ------
+    InputValueError
+        A band with fewer than 5 lines, or a model order below 1.
 
     References
     ----------
@@ -349,6 +410,29 @@ def stability_diagram(
 
     A pole is stable when the next order has a pole within ``frequency_tol`` in frequency and
     ``damping_tol`` (relative) in damping; the stable list holds the highest order's stable poles.
+
+    Parameters
+    ----------
+    frf : Frf
+        The estimate.
+    band : (float, float)
+        Frequencies [Hz] fitted.
+    max_modes : int
+        Highest model order.
+    frequency_tol, damping_tol : float
+        Relative changes between consecutive orders that count as stable.
+
+    Returns
+    -------
+    diagram : list of list of Pole
+        The poles of each order, 1 to ``max_modes``.
+    stable : list of Pole
+        The highest order's poles found again at the order below.
+
+    Raises
+    ------
+    InputValueError
+        As :func:`rfp_fit`.
     """
     diagram = [rfp_fit(frf, band, m) for m in range(1, max_modes + 1)]
     stable: list[Pole] = []

@@ -295,6 +295,18 @@ def read_impact(
 ) -> ImpactRecord:
     """Read an impact-test time history (time, force and one or more responses).
 
+    Parameters
+    ----------
+    path : path-like
+        The measurement file.
+    response_unit, force_unit : str, optional
+        Units when the file does not declare them.
+
+    Returns
+    -------
+    ImpactRecord
+        Force [N] and responses in SI, the sample rate and the response quantity.
+
     Raises
     ------
     DataFileError

@@ -61,7 +61,24 @@ class FieldSpec:
 
 
 def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> FieldSpec:
-    """Validate a scenario's ``[field]`` table; errors name the file and field."""
+    """Validate a scenario's ``[field]`` table; errors name the file and field.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        With a ``[field]`` table.
+    base_dir : path-like
+        Folder the table's file names are relative to.
+
+    Returns
+    -------
+    FieldSpec
+
+    Raises
+    ------
+    ScenarioError
+        No table, an unknown field, an empty path, a bad band or count, a tune target not in the model.
+    """
     if not scenario.field:
         raise ScenarioError(f"{scenario.source}: field: missing; the scenario has no measurements to verify it")
     r = TableReader(scenario.source)
@@ -219,6 +236,17 @@ def run_field_study(
         Folder the table's file names are relative to (the scenario file's folder).
     channel, band : optional
         Override the table's coast-down channel and fitting band [rpm].
+
+    Returns
+    -------
+    FieldStudyResult
+
+    Raises
+    ------
+    ScenarioError
+        A bad ``[field]`` table, or an analysis that cannot run on the data, naming the field.
+    DataFileError
+        A measurement file that cannot be read, behind the scenario file and field.
     """
     spec = field_spec(scenario, base_dir)
     r = TableReader(scenario.source)

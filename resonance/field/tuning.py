@@ -96,7 +96,26 @@ class TunedModel:
 
 
 def apply_factors(model: ModelSpec, parameters: Sequence[TuningParameter], factors: Sequence[float]) -> ModelSpec:
-    """A copy of the model with each parameter's spring stiffness or mass multiplied by its factor."""
+    """A copy of the model with each parameter's spring stiffness or mass multiplied by its factor.
+
+    Parameters
+    ----------
+    model : ModelSpec
+        The model (not modified).
+    parameters : sequence of TuningParameter
+        The springs and masses.
+    factors : sequence of float
+        One factor per parameter [-].
+
+    Returns
+    -------
+    ModelSpec
+
+    Raises
+    ------
+    ValueError
+        Parameters and factors of different lengths.
+    """
     springs = {p.name: f for p, f in zip(parameters, factors, strict=True) if p.kind == "spring"}
     masses = {p.name: f for p, f in zip(parameters, factors, strict=True) if p.kind == "mass"}
     new_springs = tuple(

@@ -222,6 +222,11 @@ def rotor_modes(rotor: Rotor, speed: float, count: int = 8, reduced: bool = True
     Returns
     -------
     RotorModes
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a rotor, a bad speed or count, a speed outside a bearing's coefficient table.
     """
     _check_rotor(rotor)
     speed = as_si(speed, "speed", "speed", "nonnegative")
@@ -288,6 +293,27 @@ def deflected_shape(rotor: Rotor, modes: RotorModes, index: int) -> tuple[np.nda
     """Deflected shape of one mode along the shaft: node positions [m] and orbit semi-major axis.
 
     The shape is scaled to a largest semi-major axis of 1 (mode shapes have no absolute size).
+
+    Parameters
+    ----------
+    rotor : Rotor
+        The rotor.
+    modes : RotorModes
+        Its modes at one speed.
+    index : int
+        Which mode.
+
+    Returns
+    -------
+    z : numpy.ndarray
+        Node positions along the shaft [m].
+    semi_major : numpy.ndarray
+        Semi-major axis of each node's orbit, relative to the largest.
+
+    Raises
+    ------
+    IndexError
+        An index beyond the modes.
     """
     if not 0 <= index < modes.shapes.shape[1]:
         raise InputValueError(f"index: got {index}; expected 0..{modes.shapes.shape[1] - 1}")
@@ -356,6 +382,11 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
     Returns
     -------
     CampbellData
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a rotor, fewer than 2 increasing speeds, a bad count, a speed outside a bearing table.
     """
     _check_rotor(rotor)
     grid = as_si_array(speeds, "speeds", "speed", "nonnegative")
@@ -431,6 +462,16 @@ def critical_speeds(
         Excitation orders (1 for unbalance).
     whirl : {"forward", "backward"} or None
         Only branches of this whirl direction (all when None).
+
+    Returns
+    -------
+    list of CriticalSpeed
+        By speed.
+
+    Raises
+    ------
+    InputValueError
+        An order that is not > 0.
     """
     out = []
     extra = data.frequency.shape[1] + 4
@@ -483,6 +524,24 @@ def critical_speed_map(rotor: Rotor, stiffness: Sequence[float] | np.ndarray, co
     (no damping, no cross-coupling; pedestals kept). For synchronous forward
     whirl the gyroscopic moment acts as a negative inertia, so the criticals
     solve ``K(k) phi = w^2 (M - P) phi`` in one plane (``P``: polar inertia).
+
+    Parameters
+    ----------
+    rotor : Rotor
+        The rotor (its shaft, discs and pedestals).
+    stiffness : array_like or pint.Quantity
+        Isotropic support stiffnesses [N/m] (> 0).
+    count : int
+        Critical speeds per stiffness.
+
+    Returns
+    -------
+    CriticalSpeedMap
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a rotor, bad stiffnesses or count.
 
     References
     ----------

@@ -30,6 +30,23 @@ def shear_coefficient(outer_diameter: float, inner_diameter: float, poisson_rati
     """Cowper's shear coefficient of a circular tube (solid when ``inner_diameter = 0``).
 
     ``kappa = 6 (1 + nu) (1 + m^2)^2 / ((7 + 6 nu) (1 + m^2)^2 + (20 + 12 nu) m^2)``, ``m = di / do``.
+
+    Parameters
+    ----------
+    outer_diameter, inner_diameter : float
+        [m].
+    poisson_ratio : float
+        [-].
+
+    Returns
+    -------
+    float
+        kappa [-].
+
+    Raises
+    ------
+    ZeroDivisionError
+        A zero outer diameter (the model layer refuses it first).
     """
     m2 = (inner_diameter / outer_diameter) ** 2
     nu = poisson_ratio
@@ -37,7 +54,27 @@ def shear_coefficient(outer_diameter: float, inner_diameter: float, poisson_rati
 
 
 def beam_stiffness(ei: float, length: float, phi: float) -> np.ndarray:
-    """Bending stiffness of a Timoshenko element in one plane [N/m, N, N m]."""
+    """Bending stiffness of a Timoshenko element in one plane [N/m, N, N m].
+
+    Parameters
+    ----------
+    ei : float
+        Bending stiffness E I [N m^2].
+    length : float
+        [m].
+    phi : float
+        Shear parameter ``12 E I / (kappa G A L^2)`` [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        4 x 4 over (translation, slope, translation, slope).
+
+    Raises
+    ------
+    ZeroDivisionError
+        A zero length (the model layer refuses it first).
+    """
     L = length
     return (ei / ((1.0 + phi) * L**3)) * np.array(
         [
@@ -50,7 +87,27 @@ def beam_stiffness(ei: float, length: float, phi: float) -> np.ndarray:
 
 
 def beam_translational_mass(mass_per_length: float, length: float, phi: float) -> np.ndarray:
-    """Consistent translational mass of a Timoshenko element in one plane [kg, kg m, kg m^2]."""
+    """Consistent translational mass of a Timoshenko element in one plane [kg, kg m, kg m^2].
+
+    Parameters
+    ----------
+    mass_per_length : float
+        [kg/m].
+    length : float
+        [m].
+    phi : float
+        Shear parameter [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        4 x 4.
+
+    Raises
+    ------
+    Nothing
+        Pure arithmetic.
+    """
     L, p = length, phi
     a = 13.0 / 35.0 + 7.0 * p / 10.0 + p**2 / 3.0
     b = (11.0 / 210.0 + 11.0 * p / 120.0 + p**2 / 24.0) * L
@@ -69,6 +126,25 @@ def beam_rotary_mass(rotary_inertia_per_length: float, length: float, phi: float
     ``rotary_inertia_per_length`` is ``rho I`` [kg m]; the polar inertia of a
     shaft is twice that, so the element's gyroscopic matrix is twice this
     matrix, placed between the planes.
+
+    Parameters
+    ----------
+    rotary_inertia_per_length : float
+        rho I [kg m].
+    length : float
+        [m].
+    phi : float
+        Shear parameter [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        4 x 4.
+
+    Raises
+    ------
+    ZeroDivisionError
+        A zero length (the model layer refuses it first).
     """
     L, p = length, phi
     a = 6.0 / 5.0

@@ -276,6 +276,19 @@ def _positive(value: float, name: str, kind: QuantityKind) -> float:
 def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearings: Sequence[Bearing]) -> Rotor:
     """Assemble a rotor from shaft sections, discs and bearings.
 
+    Parameters
+    ----------
+    sections : sequence of ShaftSection
+        Shaft sections, station 0 at the left end.
+    discs : sequence of Disc
+        Rigid discs at stations.
+    bearings : sequence of Bearing
+        Bearings (and pedestals) at stations.
+
+    Returns
+    -------
+    Rotor
+
     Raises
     ------
     InputValueError

@@ -48,7 +48,24 @@ def _assumptions(result: RotorStudyResult) -> list[str]:
 
 
 def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = None) -> Record:
-    """Build the record of a rotor study result."""
+    """Build the record of a rotor study result.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The study to record.
+    created : datetime, optional
+        Time stamp (now, UTC, if omitted).
+
+    Returns
+    -------
+    Record
+
+    Raises
+    ------
+    Nothing
+        The result is already validated.
+    """
     created = created or _dt.datetime.now(_dt.timezone.utc)
     s = result.scenario
     d_unit, d_factor = display_unit("displacement", s.units)

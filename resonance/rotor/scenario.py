@@ -214,6 +214,17 @@ def _bearing(r: TableReader, item: Any, field: str) -> Bearing:
 def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario>") -> RotorScenario:
     """Validate a rotor scenario given as nested tables (as read from TOML).
 
+    Parameters
+    ----------
+    data : mapping
+        The scenario's tables.
+    source : str
+        The file name errors start with.
+
+    Returns
+    -------
+    RotorScenario
+
     Raises
     ------
     ScenarioError
@@ -347,7 +358,23 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
 
 
 def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
-    """The rotor scenario as nested tables in the package convention (round-trips through the parser)."""
+    """The rotor scenario as nested tables in the package convention (round-trips through the parser).
+
+    Parameters
+    ----------
+    scenario : RotorScenario
+        The scenario.
+
+    Returns
+    -------
+    dict
+        Its tables (round-trips through :func:`parse_rotor_scenario`).
+
+    Raises
+    ------
+    InputTypeError
+        A margin rule with no scenario spelling.
+    """
 
     def values(raw: Any, unit: str) -> Any:
         if isinstance(raw, (tuple, list, np.ndarray)):
@@ -431,6 +458,22 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
 
 
 def load_rotor_scenario(path: str | os.PathLike[str]) -> RotorScenario:
-    """Read and validate a rotor scenario file (TOML). The file is only read."""
+    """Read and validate a rotor scenario file (TOML). The file is only read.
+
+    Parameters
+    ----------
+    path : path-like
+        The scenario file.
+
+    Returns
+    -------
+    RotorScenario
+        With the file's SHA-256.
+
+    Raises
+    ------
+    ScenarioError
+        The file cannot be read, is not TOML, or has an invalid field.
+    """
     data, sha256 = read_scenario_bytes(path)
     return parse_rotor_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
