@@ -157,6 +157,12 @@ class FindingsTable:
     """Findings sorted worst first (largest shortfall of margin first).
 
     Iterating gives the findings; ``len`` counts them.
+
+    Attributes
+    ----------
+    findings : tuple of Finding
+        Sorted on construction: failures (largest shortfall first), exemptions (inside the range first),
+        passes.
     """
 
     findings: tuple[Finding, ...]

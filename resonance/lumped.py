@@ -18,7 +18,15 @@ __all__ = ["MassSpec", "ModelSpec", "SpringSpec"]
 
 @dataclass(frozen=True)
 class MassSpec:
-    """A lumped mass: ``name`` and ``mass`` [kg]."""
+    """A lumped mass: ``name`` and ``mass`` [kg].
+
+    Attributes
+    ----------
+    name : str
+        The mass's name.
+    mass : float
+        [kg].
+    """
 
     name: str
     mass: float
@@ -29,6 +37,17 @@ class SpringSpec:
     """A spring (with optional dashpot) between two masses or a mass and ground.
 
     ``stiffness`` [N/m], ``damping`` [N s/m]; ``label`` names it in what-if studies.
+
+    Attributes
+    ----------
+    node_a, node_b : str
+        The joined masses (``"ground"`` for a fixed point).
+    stiffness : float
+        [N/m].
+    damping : float
+        Dashpot [N s/m].
+    label : str
+        Name in what-if studies and tuning.
     """
 
     node_a: str

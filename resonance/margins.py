@@ -407,7 +407,15 @@ class MarginRule(Protocol):
 
 @dataclass(frozen=True)
 class ApiLateralRule:
-    """The AF-based lateral rule of API 617 / API 684 (from memory)."""
+    """The AF-based lateral rule of API 617 / API 684 (from memory).
+
+    Attributes
+    ----------
+    name : str
+        Shown in findings.
+    source : str
+        The standards it comes from.
+    """
 
     name: str = "API lateral"
     source: str = "API Std 617 8th ed. / API RP 684 2nd ed. (from memory)"

@@ -110,7 +110,15 @@ def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> 
 
 @dataclass(frozen=True)
 class Record:
-    """A calculation record: JSON-ready ``data`` and the readable ``text`` (which ends with the caution)."""
+    """A calculation record: JSON-ready ``data`` and the readable ``text`` (which ends with the caution).
+
+    Attributes
+    ----------
+    data : dict
+        JSON-ready values (SI; speeds in rpm), with the record's head.
+    text : str
+        The readable record in the scenario's units, ending with the caution.
+    """
 
     data: dict[str, Any]
     text: str

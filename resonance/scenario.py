@@ -175,7 +175,15 @@ class ResponseSpec:
 
 @dataclass(frozen=True)
 class VibrationSpec:
-    """ISO 10816-3 class for the casing-velocity zones: group 1 or 2, rigid or flexible."""
+    """ISO 10816-3 class for the casing-velocity zones: group 1 or 2, rigid or flexible.
+
+    Attributes
+    ----------
+    group : {1, 2}
+        ISO 10816-3 machine group.
+    support : {"rigid", "flexible"}
+        The declared support class.
+    """
 
     group: int
     support: str
@@ -183,7 +191,17 @@ class VibrationSpec:
 
 @dataclass(frozen=True)
 class WhatIfSpec:
-    """What a what-if study varies: spring labels, mass names, and the stiffness tolerance [-]."""
+    """What a what-if study varies: spring labels, mass names, and the stiffness tolerance [-].
+
+    Attributes
+    ----------
+    vary_springs : tuple of str
+        Spring labels a what-if study scales.
+    vary_masses : tuple of str
+        Mass names it scales.
+    tolerance : float
+        Relative stiffness band [-] (0.3 is +/- 30 %).
+    """
 
     vary_springs: tuple[str, ...]
     vary_masses: tuple[str, ...]
@@ -196,6 +214,37 @@ class Scenario:
 
     ``sha256`` is the SHA-256 of the scenario file's bytes when it was loaded
     from a file (None for a scenario built or edited in memory).
+
+    Attributes
+    ----------
+    title, description : str
+        As written.
+    units : {"SI", "US"}
+        Display units.
+    speed : OperatingRange
+        Speeds of continuous operation [rpm].
+    excitations : tuple of Excitation
+        Orders, electrical and fixed sources.
+    rules : RuleSet
+        Margin rules by scope.
+    model : ModelSpec
+        The lumped model.
+    response : ResponseSpec
+        What drives the forced response and where it is read.
+    vibration : VibrationSpec
+        ISO zone class.
+    whatif : WhatIfSpec
+        What a what-if study varies.
+    source : str
+        The file name.
+    field : mapping or None
+        The ``[field]`` table, validated by :func:`resonance.field.study.field_spec`.
+    motor : MotorSpec or None
+        The driving motor.
+    record : RecordSpec
+        Revision fields.
+    sha256 : str or None
+        SHA-256 of the file's bytes.
     """
 
     title: str

@@ -98,7 +98,13 @@ class MotorSpec:
 
 @dataclass(frozen=True)
 class RecordSpec:
-    """Revision control of the record: who prepared and checked it, which revision, when (text as given)."""
+    """Revision control of the record: who prepared and checked it, which revision, when (text as given).
+
+    Attributes
+    ----------
+    preparer, checker, revision, date : str
+        As written (a TOML date as its ISO text).
+    """
 
     preparer: str = ""
     checker: str = ""

@@ -160,7 +160,19 @@ def find_resonances(
 
 @dataclass(frozen=True)
 class FittedMode:
-    """A mode from the least-squares fit, with standard errors."""
+    """A mode from the least-squares fit, with standard errors.
+
+    Attributes
+    ----------
+    frequency : float
+        Natural frequency [Hz].
+    damping_ratio : float
+        [-].
+    frequency_std, damping_ratio_std : float
+        Standard errors (sandwich estimator) [Hz], [-].
+    residue : complex
+        Modal constant of the response [m].
+    """
 
     frequency: float
     damping_ratio: float
@@ -181,7 +193,23 @@ class FittedMode:
 
 @dataclass(frozen=True)
 class ModalFit:
-    """Result of :func:`fit_modes`: the modes, the offset and the fitted curve."""
+    """Result of :func:`fit_modes`: the modes, the offset and the fitted curve.
+
+    Attributes
+    ----------
+    modes : tuple of FittedMode
+        By frequency.
+    offset : complex
+        Constant term (runout) [m].
+    residual_term : complex
+        Coefficient of the W^2 term standing for modes above the band [m].
+    speed : numpy.ndarray
+        Speeds fitted [rpm].
+    fitted : numpy.ndarray
+        The fitted complex response there [m].
+    relative_residual : float
+        ``||fitted - measured|| / ||measured||`` [-].
+    """
 
     modes: tuple[FittedMode, ...]
     offset: complex

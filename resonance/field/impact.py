@@ -41,6 +41,21 @@ class Frf:
 
     ``quantity`` says what the response is (displacement, velocity or acceleration);
     ``exponential_tau`` is the exponential window's time constant [s] (inf: none).
+
+    Attributes
+    ----------
+    frequency : numpy.ndarray
+        [Hz].
+    h : numpy.ndarray
+        H1 estimate [response unit / N] (of the windowed records).
+    coherence : numpy.ndarray
+        [-].
+    averages : int
+        Number of hits averaged.
+    quantity : {"displacement", "velocity", "acceleration"}
+        What the response channel measures.
+    exponential_tau : float
+        Time constant of the exponential window [s]; ``inf`` without one.
     """
 
     frequency: np.ndarray
@@ -204,7 +219,15 @@ def impact_frf(
 
 @dataclass(frozen=True)
 class Pole:
-    """An identified mode: natural frequency [Hz] and damping ratio [-] (window damping removed)."""
+    """An identified mode: natural frequency [Hz] and damping ratio [-] (window damping removed).
+
+    Attributes
+    ----------
+    frequency : float
+        Natural frequency [Hz].
+    damping_ratio : float
+        [-].
+    """
 
     frequency: float
     damping_ratio: float

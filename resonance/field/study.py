@@ -47,7 +47,29 @@ T = TypeVar("T")
 
 @dataclass(frozen=True)
 class FieldSpec:
-    """The validated ``[field]`` table (paths resolved against the scenario's folder)."""
+    """The validated ``[field]`` table (paths resolved against the scenario's folder).
+
+    Attributes
+    ----------
+    coastdown : pathlib.Path
+        The coast-down file.
+    channel : str
+        Its channel analysed.
+    band : (float, float) or None
+        Speeds searched and fitted [rpm].
+    impact : pathlib.Path or None
+        The impact-test file.
+    impact_channel : str or None
+        Its response channel.
+    record_length : float
+        Length of each hit's record [s].
+    impact_band : (float, float)
+        Frequencies fitted [Hz].
+    impact_modes : int
+        Modes in the impact band.
+    tune : tuple of TuningParameter
+        What the tuning may change.
+    """
 
     coastdown: Path
     channel: str
@@ -158,7 +180,29 @@ def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> Fi
 
 @dataclass(frozen=True)
 class FieldStudyResult:
-    """What the measurements say, next to what the model said."""
+    """What the measurements say, next to what the model said.
+
+    Attributes
+    ----------
+    spec : FieldSpec
+        The validated table.
+    coastdown : CoastDown
+        The measurement read.
+    resonances : tuple of Resonance
+        Amplitude peaks, confirmed or not by the phase.
+    fit : ModalFit or None
+        The coast-down modal fit.
+    findings : FindingsTable or None
+        Measured modes against the scenario's rules.
+    frf : Frf or None
+        The impact test's H1.
+    impact_poles, stable_poles : tuple of Pole
+        Identified modes, and those stable across model orders.
+    tuned : TunedModel or None
+        The model tuned to the measured frequencies.
+    tuned_study : StudyResult or None
+        The checks re-run on the tuned model.
+    """
 
     spec: FieldSpec
     coastdown: CoastDown

@@ -33,7 +33,17 @@ __all__ = ["TuningParameter", "TunedModel", "apply_factors", "tune_model"]
 
 @dataclass(frozen=True)
 class TuningParameter:
-    """A spring (by label) or mass (by name) to adjust, with the allowed factor range."""
+    """A spring (by label) or mass (by name) to adjust, with the allowed factor range.
+
+    Attributes
+    ----------
+    kind : {"spring", "mass"}
+        What is adjusted.
+    name : str
+        The spring's label or the mass's name.
+    low, high : float
+        Allowed factor range [-] (``0 < low < 1 < high``).
+    """
 
     kind: Literal["spring", "mass"]
     name: str

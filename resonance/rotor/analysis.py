@@ -421,7 +421,23 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
 
 @dataclass(frozen=True)
 class CriticalSpeed:
-    """Where an order line meets a whirl branch."""
+    """Where an order line meets a whirl branch.
+
+    Attributes
+    ----------
+    order : float
+        Excitation order [-].
+    branch : int
+        Campbell branch (0-based).
+    speed : float
+        Critical speed [rpm].
+    frequency : float
+        Whirl frequency there [Hz].
+    damping_ratio : float
+        [-].
+    whirl : {"forward", "backward"}
+        Whirl direction.
+    """
 
     order: float
     branch: int
@@ -589,6 +605,15 @@ class Unbalance:
 
     ``amount`` may be a quantity (``ureg("500 g*mm")``, ``ureg("0.7 oz*in")``); ``phase_deg`` a plain
     number of degrees or an angle quantity.
+
+    Attributes
+    ----------
+    station : int
+        Where it acts.
+    amount : float
+        [kg m].
+    phase_deg : float
+        Angular position [deg].
     """
 
     station: int

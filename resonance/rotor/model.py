@@ -45,7 +45,19 @@ def _convert(obj: object, name: str, kind: QuantityKind, sign: Sign = "any", lab
 
 @dataclass(frozen=True)
 class Material:
-    """Density [kg/m^3], Young's modulus [Pa] and Poisson's ratio [-] (shear modulus from them)."""
+    """Density [kg/m^3], Young's modulus [Pa] and Poisson's ratio [-] (shear modulus from them).
+
+    Attributes
+    ----------
+    density : float
+        [kg/m^3].
+    youngs_modulus : float
+        [Pa].
+    poisson_ratio : float
+        [-], in (-1, 0.5).
+    name : str
+        Shown in records.
+    """
 
     density: float
     youngs_modulus: float
@@ -71,7 +83,19 @@ STEEL = Material(7850.0, 2.05e11, 0.29, "steel")
 
 @dataclass(frozen=True)
 class ShaftSection:
-    """A uniform shaft section: length and diameters [m], material, elements to split it into."""
+    """A uniform shaft section: length and diameters [m], material, elements to split it into.
+
+    Attributes
+    ----------
+    length : float
+        [m].
+    outer_diameter, inner_diameter : float
+        [m] (inner 0 for a solid shaft).
+    material : Material
+        Steel unless given.
+    elements : int
+        Finite elements the section is split into.
+    """
 
     length: float
     outer_diameter: float
@@ -89,7 +113,19 @@ class ShaftSection:
 
 @dataclass(frozen=True)
 class Disc:
-    """A rigid disc at a station: mass [kg], polar and diametral inertia [kg m^2]."""
+    """A rigid disc at a station: mass [kg], polar and diametral inertia [kg m^2].
+
+    Attributes
+    ----------
+    station : int
+        Where it sits.
+    mass : float
+        [kg].
+    polar_inertia, diametral_inertia : float
+        [kg m^2].
+    label : str
+        Shown in records.
+    """
 
     station: int
     mass: float
@@ -105,7 +141,17 @@ class Disc:
 
 @dataclass(frozen=True)
 class Pedestal:
-    """A support mass [kg] between a bearing and the ground, with stiffness [N/m] and damping [N s/m]."""
+    """A support mass [kg] between a bearing and the ground, with stiffness [N/m] and damping [N s/m].
+
+    Attributes
+    ----------
+    mass : float
+        [kg].
+    kxx, kyy : float
+        Stiffness to ground [N/m].
+    cxx, cyy : float
+        Damping to ground [N s/m].
+    """
 
     mass: float
     kxx: float
@@ -129,6 +175,23 @@ class Bearing:
     (linear interpolation; a speed outside the table is an error).
     ``tilt_stiffness`` [N m/rad] resists the slope in both planes (a clamped
     end, or a long bearing or pair of bearings treated as one).
+
+    Attributes
+    ----------
+    station : int
+        Where it sits.
+    kxx, kyy, kxy, kyx : float or sequence of float
+        Stiffness coefficients [N/m] (one per table speed when ``speeds`` is given).
+    cxx, cyy, cxy, cyx : float or sequence of float
+        Damping coefficients [N s/m].
+    speeds : sequence of float or None
+        Table speeds [rpm].
+    pedestal : Pedestal or None
+        A support mass between the bearing and the ground.
+    label : str
+        Shown in records and errors.
+    tilt_stiffness : float
+        [N m/rad].
     """
 
     station: int

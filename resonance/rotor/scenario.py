@@ -81,7 +81,19 @@ _COEFFICIENTS = ("kxx", "kyy", "kxy", "kyx", "cxx", "cyy", "cxy", "cyx")
 
 @dataclass(frozen=True)
 class UnbalanceSpec:
-    """An unbalance as given: a station, an amount [kg m] or a balance grade [mm/s], a phase [deg]."""
+    """An unbalance as given: a station, an amount [kg m] or a balance grade [mm/s], a phase [deg].
+
+    Attributes
+    ----------
+    station : int
+        Where it acts.
+    amount : float or None
+        [kg m], when given as an amount.
+    balance_grade : float or None
+        ISO 21940-11 grade [mm/s], when given as a grade.
+    phase_deg : float
+        Angular position [deg].
+    """
 
     station: int
     amount: float | None
@@ -91,7 +103,39 @@ class UnbalanceSpec:
 
 @dataclass(frozen=True)
 class RotorScenario:
-    """A validated rotor scenario."""
+    """A validated rotor scenario.
+
+    Attributes
+    ----------
+    title, description : str
+        As written.
+    units : {"SI", "US"}
+        Display units.
+    speed : OperatingRange
+        Speeds of continuous operation [rpm].
+    excitations : tuple of Excitation
+        Sources that follow the speed.
+    rules : RuleSet
+        Margin rules by scope.
+    sections, discs, bearings : tuple
+        The rotor as given.
+    unbalance : tuple of UnbalanceSpec
+        The unbalances driving the response.
+    probes : tuple of int
+        Stations where the vibration is read.
+    sweep_max : float
+        Top of the Campbell and response sweeps [rpm].
+    modes : int
+        Branches tracked.
+    source : str
+        The file name.
+    motor : MotorSpec or None
+        The driving motor.
+    record : RecordSpec
+        Revision fields.
+    sha256 : str or None
+        SHA-256 of the file's bytes (None when edited in memory).
+    """
 
     title: str
     description: str

@@ -28,6 +28,13 @@ class FieldPanel(Panel):
 
     Controls: the operating speed range, the coast-down channel, the fitting band and the units.
     Views: verdict, Bode and polar plots with the fitted model, measured findings, tuned model.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        A support scenario with a ``[field]`` table.
+    base_dir : path-like
+        Folder its measurement files are relative to.
     """
 
     def __init__(self, scenario: Scenario, base_dir: str | os.PathLike[str] = "."):

@@ -35,7 +35,31 @@ def _curves(
 def bode_figure(
     result: FieldStudyResult, scenario: Scenario, channel: str, system: UnitSystem = "SI", widget: bool = False
 ) -> go.Figure:
-    """Measured amplitude (pk-pk) and phase lag against speed, the fitted model overlaid, resonances marked."""
+    """Measured amplitude (pk-pk) and phase lag against speed, the fitted model overlaid, resonances marked.
+
+    Parameters
+    ----------
+    result : FieldStudyResult
+        The field verification to draw.
+    scenario : Scenario
+        The scenario: its operating range is shaded (and, for a panel, what it runs).
+    channel : str
+        The coast-down channel drawn.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.6, 0.4])
     fig.add_trace(go.Scatter(name="measured", mode="markers", marker={"size": 4, "color": "#1f4e9c"}), row=1, col=1)
     fig.add_trace(go.Scatter(name="fitted model", mode="lines", line={"color": "#c2410c"}), row=1, col=1)
@@ -64,7 +88,26 @@ def bode_figure(
 def update_bode_figure(
     fig: go.Figure, result: FieldStudyResult, scenario: Scenario, channel: str, system: UnitSystem = "SI"
 ) -> None:
-    """Fill a :func:`bode_figure` in place."""
+    """Fill a :func:`bode_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : FieldStudyResult
+        The field verification to draw.
+    scenario : Scenario
+        The scenario: its operating range is shaded (and, for a panel, what it runs).
+    channel : str
+        The coast-down channel drawn.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     unit, factor = display_unit("displacement", system)
     speed, x, fine, fitted = _curves(result, channel)
     verdicts = [f.passed for f in result.findings] if result.findings is not None else []
@@ -95,7 +138,29 @@ def update_bode_figure(
 
 
 def polar_figure(result: FieldStudyResult, channel: str, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """The response in the complex plane (Nyquist / polar view), measured and fitted."""
+    """The response in the complex plane (Nyquist / polar view), measured and fitted.
+
+    Parameters
+    ----------
+    result : FieldStudyResult
+        The field verification to draw.
+    channel : str
+        The coast-down channel drawn.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = go.Figure()
     fig.add_trace(go.Scatter(name="measured", mode="markers", marker={"size": 4, "color": "#1f4e9c"}))
     fig.add_trace(go.Scatter(name="fitted model", mode="lines", line={"color": "#c2410c"}))
@@ -112,7 +177,24 @@ def polar_figure(result: FieldStudyResult, channel: str, system: UnitSystem = "S
 
 
 def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`polar_figure` in place."""
+    """Fill a :func:`polar_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : FieldStudyResult
+        The field verification to draw.
+    channel : str
+        The coast-down channel drawn.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     unit, factor = display_unit("displacement", system)
     speed, x, _, fitted = _curves(result, channel)
     with fig.batch_update():
@@ -130,7 +212,25 @@ def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, 
 
 
 def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
-    """Impact test: ``|receptance|`` (H1) and coherence against frequency, the identified modes marked."""
+    """Impact test: ``|receptance|`` (H1) and coherence against frequency, the identified modes marked.
+
+    Parameters
+    ----------
+    result : FieldStudyResult
+        The field verification to draw.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.7, 0.3])
     fig.add_trace(go.Scatter(name="|H1| (receptance)", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
     fig.add_trace(
@@ -154,7 +254,20 @@ def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
 
 
 def update_impact_figure(fig: go.Figure, result: FieldStudyResult) -> None:
-    """Fill an :func:`impact_figure` in place (empty when the scenario has no impact test)."""
+    """Fill an :func:`impact_figure` in place (empty when the scenario has no impact test).
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : FieldStudyResult
+        The field verification to draw.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     frf = result.frf
     with fig.batch_update():
         if frf is None:

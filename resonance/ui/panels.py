@@ -195,12 +195,42 @@ class DesignPanel(Panel):
 
 
 def single_mode_panel(scenario: Scenario) -> DesignPanel:
-    """A one-mode check: response and phase against speed, AF, margins, verdict."""
+    """A one-mode check: response and phase against speed, AF, margins, verdict.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario: its operating range is shaded (and, for a panel, what it runs).
+
+    Returns
+    -------
+    DesignPanel
+
+    Raises
+    ------
+    InputValueError
+        A scenario whose study cannot run.
+    """
     return DesignPanel(scenario, views=("response", "findings"))
 
 
 def multi_mode_panel(scenario: Scenario) -> DesignPanel:
-    """A machine-on-support check: modes, receptance, interference diagram, findings, ISO zone."""
+    """A machine-on-support check: modes, receptance, interference diagram, findings, ISO zone.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario: its operating range is shaded (and, for a panel, what it runs).
+
+    Returns
+    -------
+    DesignPanel
+
+    Raises
+    ------
+    InputValueError
+        A scenario whose study cannot run.
+    """
     return DesignPanel(scenario, views=("response", "modes", "interference", "findings"))
 
 
@@ -209,6 +239,11 @@ class WhatIfPanel(Panel):
 
     Also finds the smallest stiffness or mass change that makes every check
     pass, and evaluates the checks over the stiffness tolerance band.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The support scenario studied.
     """
 
     def __init__(self, scenario: Scenario):
@@ -376,6 +411,13 @@ class RecordPanel(Panel):
     After loading, the speed range and damping can be changed for a
     sensitivity look; the record then states the edited scenario it was made
     from, so the exported JSON re-runs with the ``check`` command.
+
+    Parameters
+    ----------
+    scenario : Scenario or path-like
+        A loaded scenario, or the path of a scenario file (empty: enter it in the panel).
+    output_dir : path-like
+        Folder the export writes to.
     """
 
     def __init__(

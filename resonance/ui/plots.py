@@ -41,7 +41,27 @@ FAIL = "#d62828"
 
 
 def vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
-    """Rectangles spanning the full height of the given subplot rows, one per speed span."""
+    """Rectangles spanning the full height of the given subplot rows, one per speed span.
+
+    Parameters
+    ----------
+    spans : sequence of (float, float)
+        Speed spans [rpm].
+    colour : str
+        Fill colour.
+    rows : sequence of int
+        Subplot rows the rectangles span.
+
+    Returns
+    -------
+    list of dict
+        plotly shape dictionaries.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     shapes = []
     for low, high in spans:
         for row in rows:
@@ -70,6 +90,25 @@ def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool
     pk-pk), response per unit harmonic force (receptance magnitude), and
     phase lag; the operating speeds shaded, the speeds the range must keep
     clear of around each 1x coincidence shaded, and the half-power peak marked.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
     """
     fig = make_subplots(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.06, row_heights=[0.42, 0.3, 0.28])
     fig.add_trace(go.Scatter(name="unbalance response", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
@@ -90,7 +129,22 @@ def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool
 
 
 def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`response_figure` from a result, in place."""
+    """Fill a :func:`response_figure` from a result, in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     d_unit, d_factor = display_unit("displacement", system)
     h_unit, h_factor = display_unit("receptance", system)
     pk_pk = 2.0 * result.displacement * d_factor
@@ -129,6 +183,27 @@ def interference_figure(
     clear around each coincidence shaded on its frequency, coincidences marked
     green (pass) or red (fail), and the tolerance band of each mode (when given)
     shaded grey.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    tolerance : ToleranceResult, optional
+        A what-if tolerance band, drawn as grey bands around each mode.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
     """
     fig = go.Figure()
     for excitation in result.scenario.excitations:
@@ -152,7 +227,24 @@ def interference_figure(
 def update_interference_figure(
     fig: go.Figure, result: StudyResult, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None
 ) -> None:
-    """Fill an :func:`interference_figure` from a result, in place."""
+    """Fill an :func:`interference_figure` from a result, in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    tolerance : ToleranceResult, optional
+        A what-if tolerance band, drawn as grey bands around each mode.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     f_unit, f_factor = display_unit("frequency", system)
     speed_max = result.scenario.speed.speed_max
     x_max = 1.4 * speed_max
@@ -226,7 +318,25 @@ def update_interference_figure(
 
 
 def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
-    """Modes as an HTML table: frequency, damping ratio, log decrement, AF."""
+    """Modes as an HTML table: frequency, damping ratio, log decrement, AF.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     f_unit, f_factor = display_unit("frequency", system)
     rows = "".join(
         f"<tr><td>{html.escape(m.label)}</td><td>{m.frequency * f_factor:.2f}</td><td>{m.speed:.0f}</td>"
@@ -241,5 +351,23 @@ def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
 
 
 def findings_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
-    """The findings table, worst first, as HTML."""
+    """The findings table, worst first, as HTML.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     return result.findings.to_html(system=system)

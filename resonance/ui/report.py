@@ -91,7 +91,27 @@ def _page(
 
 
 def render_html(result: StudyResult, record: Record, field: FieldStudyResult | None = None) -> str:
-    """The HTML record of a support study as text (figures with plotly.js inline), with its field verification."""
+    """The HTML record of a support study as text (figures with plotly.js inline), with its field verification.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    record : Record
+        The record the page shows in full.
+    field : FieldStudyResult, optional
+        The field verification, whose tables and figures are added.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     system = result.scenario.units
     tables = [("Modes", modes_table_html(result, system))]
     figures = [response_figure(result, system), interference_figure(result, system)]
@@ -117,7 +137,25 @@ def render_html(result: StudyResult, record: Record, field: FieldStudyResult | N
 
 
 def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
-    """The HTML record of a rotor study as text."""
+    """The HTML record of a rotor study as text.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study to draw.
+    record : Record
+        The record the page shows in full.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     system = result.scenario.units
     return _page(
         result.scenario.title,
@@ -162,7 +200,23 @@ FIGURES: dict[str, Callable[[StudyOutcome], list]] = {"support": _support_figure
 
 
 def render_outcome_html(outcome: StudyOutcome) -> str:
-    """The HTML record of any kind of study, from its outcome (figures from :data:`FIGURES`)."""
+    """The HTML record of any kind of study, from its outcome (figures from :data:`FIGURES`).
+
+    Parameters
+    ----------
+    outcome : StudyOutcome
+        Any kind of study's outcome.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     system = outcome.units
     return _page(
         outcome.title,
@@ -176,5 +230,25 @@ def render_outcome_html(outcome: StudyOutcome) -> str:
 
 
 def write_html(result: StudyResult, record: Record, path: str | os.PathLike[str]) -> Path:
-    """Write the HTML record (through a temporary file: never a partial record)."""
+    """Write the HTML record (through a temporary file: never a partial record).
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study to draw.
+    record : Record
+        The record the page shows in full.
+    path : path-like
+        The file to write.
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+
+    Raises
+    ------
+    OSError
+        The file cannot be written (no partial file is left).
+    """
     return atomic_write(path, render_html(result, record))

@@ -46,6 +46,11 @@ class RotorPanel(Panel):
     Controls: the operating speed range, factors on every bearing's stiffness
     and damping, and the unit system. Views: verdict, Campbell diagram,
     unbalance response, findings, critical speed map, mode shapes.
+
+    Parameters
+    ----------
+    scenario : RotorScenario
+        The rotor scenario studied.
     """
 
     def __init__(self, scenario: RotorScenario):

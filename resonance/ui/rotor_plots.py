@@ -29,7 +29,27 @@ _PROBE_COLOURS = ("#1f4e9c", "#c2410c", "#2a9d4b", "#6a4c93", "#8a6d00")
 
 
 def campbell_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Whirl frequencies against speed: forward branches solid, backward dotted, order lines, criticals marked."""
+    """Whirl frequencies against speed: forward branches solid, backward dotted, order lines, criticals marked.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = go.Figure()
     for b, whirl in enumerate(result.campbell.whirl):
         dash = "solid" if whirl == "forward" else "dot"
@@ -54,7 +74,22 @@ def campbell_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget:
 
 
 def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`campbell_figure` in place."""
+    """Fill a :func:`campbell_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     f_unit, f_factor = display_unit("frequency", system)
     data = result.campbell
     x_max = float(data.speed[-1])
@@ -84,7 +119,27 @@ def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: Uni
 
 
 def rotor_response_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Unbalance response at the probes: orbit major axis (pk-pk) and x phase lag against speed."""
+    """Unbalance response at the probes: orbit major axis (pk-pk) and x phase lag against speed.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.62, 0.38])
     for j, station in enumerate(result.scenario.probes):
         colour = _PROBE_COLOURS[j % len(_PROBE_COLOURS)]
@@ -111,7 +166,22 @@ def rotor_response_figure(result: RotorStudyResult, system: UnitSystem = "SI", w
 
 
 def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`rotor_response_figure` in place."""
+    """Fill a :func:`rotor_response_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     d_unit, d_factor = display_unit("displacement", system)
     response = result.response
     n = len(result.scenario.probes)
@@ -133,7 +203,27 @@ def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, syste
 
 
 def speed_map_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Undamped critical speed map: criticals against support stiffness, bearing stiffness curves overlaid."""
+    """Undamped critical speed map: criticals against support stiffness, bearing stiffness curves overlaid.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = go.Figure()
     for i in range(result.speed_map.speed.shape[1]):
         fig.add_trace(go.Scatter(name=f"critical {i + 1}", mode="lines", line={"color": "#1f4e9c", "width": 1.5}))
@@ -155,7 +245,22 @@ def speed_map_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget
 
 
 def update_speed_map_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`speed_map_figure` in place."""
+    """Fill a :func:`speed_map_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : RotorStudyResult
+        The rotor study to draw.
+    system : {"SI", "US"}
+        Unit system of the axes and labels.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     k_unit, k_factor = display_unit("stiffness", system)
     m = result.speed_map
     with fig.batch_update():
@@ -183,7 +288,25 @@ def update_speed_map_figure(fig: go.Figure, result: RotorStudyResult, system: Un
 
 
 def mode_shape_figure(result: RotorStudyResult, widget: bool = False) -> go.Figure:
-    """Deflected shapes (orbit semi-major axis along the shaft) of the lowest modes at the chosen speed."""
+    """Deflected shapes (orbit semi-major axis along the shaft) of the lowest modes at the chosen speed.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study to draw.
+    widget : bool
+        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        A ``go.FigureWidget`` when ``widget`` is True.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     fig = go.Figure()
     for b in range(min(6, len(result.shapes_at_max))):
         fig.add_trace(go.Scatter(name=f"mode {b + 1}", mode="lines+markers", marker={"size": 3}))
@@ -200,7 +323,20 @@ def mode_shape_figure(result: RotorStudyResult, widget: bool = False) -> go.Figu
 
 
 def update_mode_shape_figure(fig: go.Figure, result: RotorStudyResult) -> None:
-    """Fill a :func:`mode_shape_figure` in place."""
+    """Fill a :func:`mode_shape_figure` in place.
+
+    Parameters
+    ----------
+    fig : plotly.graph_objects.Figure
+        A figure made by the matching builder; updated in place.
+    result : RotorStudyResult
+        The rotor study to draw.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     with fig.batch_update():
         for b in range(len(fig.data)):
             z, shape = result.shapes_at_max[b]

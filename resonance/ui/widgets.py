@@ -22,19 +22,62 @@ _BANNER_STYLE = "background:#fff4e0;border-left:6px solid #e08a00;padding:8px 12
 
 
 def caution_banner() -> w.HTML:
-    """The caution every notebook shows first."""
+    """The caution every notebook shows first.
+
+    Returns
+    -------
+    ipywidgets.HTML
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     return w.HTML(f"<div style='{_BANNER_STYLE}'><b>Caution.</b> {html.escape(CAUTION)}</div>")
 
 
 def verdict_html(text: str, passed: bool) -> str:
-    """The verdict lines as an HTML box, green when passed and red otherwise."""
+    """The verdict lines as an HTML box, green when passed and red otherwise.
+
+    Parameters
+    ----------
+    text : str
+        The verdict lines.
+    passed : bool
+        Green when True, red otherwise.
+
+    Returns
+    -------
+    str
+        HTML.
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     colour = "#2a9d4b" if passed else "#d62828"
     lines = "<br>".join(html.escape(line) for line in text.splitlines())
     return f"<div class='verdict' style='border-left:6px solid {colour};padding:6px 10px'>{lines}</div>"
 
 
 def speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
-    """A range slider [rpm] around an operating range (0.4 to 1.6 times its ends)."""
+    """A range slider [rpm] around an operating range (0.4 to 1.6 times its ends).
+
+    Parameters
+    ----------
+    speed : OperatingRange
+        The operating range the slider starts at [rpm].
+
+    Returns
+    -------
+    ipywidgets.IntRangeSlider
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     low, high = speed.speed_min, speed.speed_max
     step = 10 if high < 6000 else 50
     return w.IntRangeSlider(
@@ -50,14 +93,49 @@ def speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
 
 
 def slider_range(slider: w.IntRangeSlider, original: OperatingRange) -> OperatingRange:
-    """The range a speed slider shows, keeping the original skip bands that still lie inside it."""
+    """The range a speed slider shows, keeping the original skip bands that still lie inside it.
+
+    Parameters
+    ----------
+    slider : ipywidgets.IntRangeSlider
+        A speed slider.
+    original : OperatingRange
+        The range whose skip bands are kept where they fit.
+
+    Returns
+    -------
+    OperatingRange
+        Speeds [rpm].
+
+    Raises
+    ------
+    InputValueError
+        A range the operating-range rules refuse.
+    """
     low, high = slider.value
     bands = tuple(b for b in original.skip_bands if low <= b[0] and b[1] <= high)
     return operating_range(float(low), float(high), bands)
 
 
 def units_toggle(value: str, label_width: str) -> w.ToggleButtons:
-    """The SI / US customary switch."""
+    """The SI / US customary switch.
+
+    Parameters
+    ----------
+    value : {"SI", "US"}
+        The initial unit system.
+    label_width : str
+        CSS width of the description.
+
+    Returns
+    -------
+    ipywidgets.ToggleButtons
+
+    Raises
+    ------
+    Nothing
+        Drawing only: the result is already validated.
+    """
     return w.ToggleButtons(
         options=["SI", "US"],
         value=value,
