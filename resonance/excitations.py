@@ -76,7 +76,7 @@ class Excitation:
     label: str
     order: float | None = None
     frequency: float | None = None
-    kind: ExcitationKind | None = None  # type: ignore[assignment]
+    kind: ExcitationKind | None = None
 
     def __post_init__(self) -> None:
         if (self.order is None) == (self.frequency is None):

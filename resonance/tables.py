@@ -171,7 +171,7 @@ class TableReader:
         try:
             if isinstance(raw, str):
                 raw = parse_quantity(raw, "value")  # exactly one number and a unit, or refused
-            return as_si(raw, "value", kind, sign)  # type: ignore[arg-type]
+            return as_si(raw, "value", kind, sign)
         except (InputTypeError, InputValueError) as error:
             raise self.fail(field, str(error).removeprefix("value: ")) from None
 
@@ -223,7 +223,7 @@ def parse_head(r: TableReader, data: Mapping[str, Any]) -> tuple[str, str, UnitS
     units = r.text(head, "units", "scenario.units", "SI")
     if units not in UNIT_SYSTEMS:
         raise r.fail("scenario.units", f"got {units!r}; expected 'SI' or 'US'")
-    return r.text(head, "title", "scenario.title"), r.text(head, "description", "scenario.description", ""), units  # type: ignore[return-value]
+    return r.text(head, "title", "scenario.title"), r.text(head, "description", "scenario.description", ""), units
 
 
 def parse_speed(r: TableReader, speed: Mapping[str, Any]) -> OperatingRange:
@@ -496,7 +496,7 @@ def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
             raise r.fail(f"{field}.rule", str(error).removeprefix("rule: ")) from None
         overrides.append((mode, excitation, rule))
     try:
-        return RuleSet(lateral, flat, torsional, tuple(overrides))  # type: ignore[arg-type]
+        return RuleSet(lateral, flat, torsional, tuple(overrides))
     except InputValueError as error:
         raise r.fail("margin.pairs", str(error).split(": ", 1)[1]) from None
 

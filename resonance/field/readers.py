@@ -336,7 +336,7 @@ def read_impact(
     for kind in ("acceleration", "velocity", "displacement"):
         try:
             r_factor = as_si(ureg.Quantity(1.0, parsed), "response_unit", kind)
-            quantity = kind  # type: ignore[assignment]
+            quantity = kind
             break
         except InputTypeError:
             continue

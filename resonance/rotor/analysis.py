@@ -28,7 +28,7 @@ References
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import Literal
 
@@ -508,7 +508,11 @@ def critical_speeds(
                     j = int(np.argmax(_mac(reference, modes.shapes)[0]))
                     return float(modes.frequency[j]), float(modes.damping_ratio[j])
 
-                def residual(speed: float, order: float = order, branch_mode=branch_mode) -> float:
+                def residual(
+                    speed: float,
+                    order: float = order,
+                    branch_mode: Callable[[float], tuple[float, float]] = branch_mode,
+                ) -> float:
                     return branch_mode(speed)[0] - order * speed / 60.0
 
                 speed = scipy.optimize.brentq(residual, data.speed[i], data.speed[i + 1], xtol=1e-9, rtol=1e-12)

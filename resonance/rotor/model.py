@@ -40,7 +40,7 @@ MAX_ROTOR_ELEMENTS = 200
 def _convert(obj: object, name: str, kind: QuantityKind, sign: Sign = "any", label: str = "") -> None:
     """Convert a frozen dataclass field through the input layer, in place (errors name the field)."""
     where = f"{label}: {name}" if label else name
-    object.__setattr__(obj, name, as_si(getattr(obj, name), where, kind, sign))  # type: ignore[arg-type]
+    object.__setattr__(obj, name, as_si(getattr(obj, name), where, kind, sign))
 
 
 @dataclass(frozen=True)

@@ -154,7 +154,7 @@ class Panel:
     @property
     def system(self) -> UnitSystem:
         """The unit system shown."""
-        return self.units.value if self.units is not None else "SI"  # type: ignore[no-any-return]
+        return self.units.value if self.units is not None else "SI"
 
     def update(self) -> None:
         """Recompute and refresh the views (each panel defines it)."""
@@ -171,4 +171,4 @@ class Panel:
         self.message.value = f"<span style='color:#d62828'>{html.escape(text)}</span>"
 
     def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
-        return self.widget._repr_mimebundle_(**kwargs)  # type: ignore[no-any-return]
+        return self.widget._repr_mimebundle_(**kwargs)
