@@ -85,11 +85,17 @@ class _Basis:
 
 
 def _ritz_basis(rotor: Rotor, speed: float, count: int, loads: np.ndarray | None = None) -> _Basis:
+    # Small dense algebra: one BLAS thread (two threads on these sizes cost ten times more on a busy machine).
+    with blas_threads_for(rotor.size):
+        return _build_ritz_basis(rotor, speed, count, loads)
+
+
+def _build_ritz_basis(rotor: Rotor, speed: float, count: int, loads: np.ndarray | None) -> _Basis:
     k_bearing, _ = rotor.bearing_matrices(speed)
     k = rotor.shaft_stiffness + 0.5 * (k_bearing + k_bearing.T)
     m = rotor.mass
     extra = loads
-    modes = min(rotor.size, max(2 * count + 8, 16))
+    modes = min(rotor.size, max(count + 16, 16))
     _, low = scipy.linalg.eigh(k, m, subset_by_index=[0, modes - 1])
     # Static shapes of unit loads at the bearings make the basis follow bearing changes.
     shift = k + (TWO_PI * 1.0) ** 2 * m  # a small shift keeps a zero-stiffness bearing solvable

@@ -48,7 +48,7 @@ from .scenario import RotorScenario
 
 __all__ = ["RotorStudyResult", "run_rotor_study"]
 
-CAMPBELL_POINTS = 61
+CAMPBELL_POINTS = 41
 RESPONSE_POINTS = 240
 
 
