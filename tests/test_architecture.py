@@ -24,6 +24,7 @@ LAYERS = {
         "lumped",
         "modes",
         "frf",
+        "torsion",
         "rotor.elements",
         "rotor.model",
         "rotor.analysis",

@@ -1,0 +1,161 @@
+"""Torsional trains against closed forms and an independent Holzer table.
+
+Sources: two-inertia f = sqrt(k (J1 + J2) / (J1 J2)) / 2 pi and the three-inertia frequency equation
+(Rao, Mechanical Vibrations, 6th ed., sec. 6.10, from memory); referral of a geared train by the square of
+the speed ratio and Holzer's method (W. Ker Wilson, Practical Solution of Torsional Vibration Problems, from
+memory); J_p = pi (D^4 - d^4) / 32 (Roark's Formulas, table 10.1, from memory); WR^2 1 lbm ft^2 =
+0.0421401 kg m^2 and 1 lbf in = 0.1129848 N m (NIST SP 811). Trains are invented demo values.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+import scipy.optimize
+from numpy.testing import assert_allclose
+
+import resonance as R
+from resonance.torsion import (
+    Coupling,
+    GearMesh,
+    Station,
+    TorsionalShaft,
+    hollow_shaft_stiffness,
+    torsional_modes,
+    torsional_train,
+)
+
+
+def _elastic(train):
+    modes = torsional_modes(train)
+    return modes.frequency[modes.frequency > 1e-6]
+
+
+def test_two_inertias():
+    j1, j2, k = 3.2, 0.8, 2.5e5
+    train = torsional_train([Station("motor", j1), Station("fan", j2)], [Coupling(("motor", "fan"), k)])
+    (f,) = _elastic(train)
+    assert_allclose(f, math.sqrt(k * (j1 + j2) / (j1 * j2)) / (2 * math.pi), rtol=1e-12)
+
+
+def test_three_inertia_chain_frequency_equation():
+    j1, j2, j3, k1, k2 = 4.0, 1.5, 2.5, 3e5, 1.2e5
+    train = torsional_train(
+        [Station("a", j1), Station("b", j2), Station("c", j3)],
+        [TorsionalShaft(("a", "b"), k1), TorsionalShaft(("b", "c"), k2)],
+    )
+    # J1 J2 J3 w^4 - [k1 J3 (J1 + J2) + k2 J1 (J2 + J3)] w^2 + k1 k2 (J1 + J2 + J3) = 0
+    a = j1 * j2 * j3
+    b = k1 * j3 * (j1 + j2) + k2 * j1 * (j2 + j3)
+    c = k1 * k2 * (j1 + j2 + j3)
+    w2 = np.sort(np.roots([a, -b, c]).real)
+    assert_allclose(_elastic(train), np.sqrt(w2) / (2 * math.pi), rtol=1e-10)
+
+
+def test_geared_train_equals_the_train_referred_by_hand():
+    # Motor --coupling-- gear ==(x3.2 increaser)== pinion --shaft-- compressor, rigid mesh.
+    n, jm, jg, jp, jc, kc, ks = 3.2, 6.0, 1.1, 0.05, 0.4, 4e5, 6e4
+    train = torsional_train(
+        [Station("motor", jm), Station("gear", jg), Station("pinion", jp, "hs"), Station("compressor", jc, "hs")],
+        [Coupling(("motor", "gear"), kc), TorsionalShaft(("pinion", "compressor"), ks)],
+        [GearMesh("gear", "pinion", n)],
+    )
+    assert train.speed_ratio == {"driver": 1.0, "hs": n}
+    mass = np.diag([jm, jg + jp * n**2, jc * n**2])
+    stiffness = np.array([[kc, -kc, 0.0], [-kc, kc + ks * n**2, -ks * n**2], [0.0, -ks * n**2, ks * n**2]])
+    by_hand = R.modes(mass, stiffness).frequency
+    assert_allclose(torsional_modes(train).frequency, by_hand, rtol=1e-10, atol=1e-9)
+    # A compliant mesh tends to the rigid one as its stiffness grows.
+    stiff = torsional_train(
+        train.stations,
+        [Coupling(("motor", "gear"), kc), TorsionalShaft(("pinion", "compressor"), ks)],
+        [GearMesh("gear", "pinion", n, stiffness=1e11)],
+    )
+    assert_allclose(_elastic(stiff)[:2], _elastic(train), rtol=1e-4)
+
+
+def _holzer_frequencies(inertias, stiffnesses, f_max, points=4000):
+    # Holzer's table for a free-free chain: unit twist at the first station, carry the inertia torque along;
+    # natural frequencies make the torque left over at the free end zero.
+    def remainder(w):
+        theta, torque = 1.0, 0.0
+        for i, j in enumerate(inertias):
+            torque += j * w * w * theta
+            if i < len(stiffnesses):
+                theta -= torque / stiffnesses[i]
+        return torque
+
+    grid = np.linspace(1.0, 2 * math.pi * f_max, points)
+    values = [remainder(w) for w in grid]
+    roots = [
+        scipy.optimize.brentq(remainder, grid[i], grid[i + 1], xtol=1e-12)
+        for i in range(points - 1)
+        if values[i] * values[i + 1] < 0
+    ]
+    return np.array(roots) / (2 * math.pi)
+
+
+def test_five_inertia_chain_against_holzer():
+    inertias = [5.0, 0.6, 1.4, 0.3, 2.2]
+    stiffnesses = [2.0e5, 8.0e4, 1.5e5, 5.0e4]
+    names = "abcde"
+    train = torsional_train(
+        [Station(n, j) for n, j in zip(names, inertias, strict=True)],
+        [TorsionalShaft((names[i], names[i + 1]), k) for i, k in enumerate(stiffnesses)],
+    )
+    model = _elastic(train)
+    holzer = _holzer_frequencies(inertias, stiffnesses, 1.2 * model.max())
+    assert_allclose(model, holzer, rtol=1e-9)
+
+
+def test_hollow_shaft_stiffness():
+    # G J_p / L with J_p = pi (D^4 - d^4) / 32 (Roark, from memory): D 100 mm, d 60 mm, L 1.5 m, G 80 GPa.
+    jp = math.pi * (0.1**4 - 0.06**4) / 32
+    assert_allclose(hollow_shaft_stiffness(80e9, 1.5, 0.1, 0.06), 80e9 * jp / 1.5, rtol=1e-14)
+    assert_allclose(
+        hollow_shaft_stiffness(R.ureg("80 GPa"), R.ureg("1500 mm"), R.ureg("100 mm"), R.ureg("60 mm")),
+        80e9 * jp / 1.5,
+        rtol=1e-12,
+    )
+
+
+def test_us_and_si_inputs_agree():
+    # WR^2 in lb ft^2 and stiffness in lbf in/rad (NIST SP 811 factors).
+    si = torsional_train([Station("m", 2.0), Station("f", 0.5)], [Coupling(("m", "f"), 1.0e5)])
+    us = torsional_train(
+        [
+            Station("m", R.ureg.Quantity(2.0 / 0.0421401, "lbm*ft**2")),
+            Station("f", R.ureg.Quantity(0.5 / 0.0421401, "lbm*ft**2")),
+        ],
+        [Coupling(("m", "f"), R.ureg.Quantity(1.0e5 / 0.1129848, "lbf*in/rad"))],
+    )
+    assert_allclose(_elastic(us), _elastic(si), rtol=1e-6)
+
+
+@pytest.mark.parametrize(
+    ("build", "message"),
+    [
+        (lambda: Station("m", 0.0), r"m: inertia: got 0 kg\*m\*\*2; expected a value > 0"),
+        (lambda: GearMesh("g", "p", 0.0), r"g-p: ratio: got 0; expected a value > 0"),
+        (
+            lambda: torsional_train([Station("m", 1.0), Station("f", 1.0, "other")], [], []),
+            r"shaft 'other' is not geared to the reference shaft 'driver'",
+        ),
+        (
+            lambda: torsional_train([Station("m", 1.0)], [Coupling(("m", "nowhere"), 1e5)]),
+            r"springs\[0\] \(m-nowhere\): names 'nowhere', which is not a station",
+        ),
+        (
+            lambda: torsional_train(
+                [Station("m", 1.0), Station("f", 1.0, "hs")], [Coupling(("m", "f"), 1e5)], [GearMesh("m", "f", 2.0)]
+            ),
+            r"springs\[0\] \(m-f\): joins two shafts",
+        ),
+        (lambda: torsional_train([], []), r"stations: got none"),
+    ],
+)
+def test_bad_trains_are_refused(build, message):
+    with pytest.raises(R.InputValueError, match=message):
+        build()
