@@ -26,18 +26,23 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputTypeError, InputValueError
+from .excitations import Excitation
 from .inputs import as_si
 from .model import MatrixModel, matrix_model
-from .modes import ModeSet, model_modes
+from .modes import Mode, ModeSet, model_modes
 
 __all__ = [
     "Coupling",
     "GearMesh",
     "Station",
     "TorsionalShaft",
+    "TorsionalShape",
     "TorsionalTrain",
     "hollow_shaft_stiffness",
+    "shaft_order",
+    "torsional_mode_list",
     "torsional_modes",
+    "torsional_shapes",
     "torsional_train",
 ]
 
@@ -196,8 +201,9 @@ class TorsionalTrain:
         Each station's referred degree of freedom (rigidly meshed wheels share one).
     model : MatrixModel
         Referred inertia [kg m^2], stiffness [N m/rad] and damping [N m s/rad] matrices.
-    elements : tuple of (str, str, str)
-        Label and the two stations of every spring (shafts, couplings, compliant meshes).
+    elements : tuple of (str, str, str, float)
+        Label, the two stations and the stiffness referred to the reference shaft [N m/rad] of every spring
+        (shafts, couplings, compliant meshes).
     reference : str
         The reference shaft (that of the first station).
     """
@@ -206,7 +212,7 @@ class TorsionalTrain:
     speed_ratio: dict[str, float]
     dof: dict[str, int]
     model: MatrixModel
-    elements: tuple[tuple[str, str, str], ...]
+    elements: tuple[tuple[str, str, str, float], ...]
     reference: str
 
     def ratio(self, station: str) -> float:
@@ -337,13 +343,14 @@ def torsional_train(
         n2 = ratio[shaft_of[a]] ** 2
         _add(stiffness, dof[a], dof[b], k.stiffness * n2)
         _add(damping, dof[a], dof[b], k.damping * n2)
-        elements.append((k.label, a, b))
+        elements.append((k.label, a, b, k.stiffness * n2))
     for m in meshes:
         if m.stiffness is not None:
             # Referred to the reference shaft through the pinion's ratio; the wheels turn in opposite senses,
             # which does not change frequencies (each shaft's angle is taken in its own sense).
-            _add(stiffness, dof[m.gear], dof[m.pinion], m.stiffness * ratio[shaft_of[m.pinion]] ** 2)
-            elements.append((f"mesh {m.gear}-{m.pinion}", m.gear, m.pinion))
+            referred = m.stiffness * ratio[shaft_of[m.pinion]] ** 2
+            _add(stiffness, dof[m.gear], dof[m.pinion], referred)
+            elements.append((f"mesh {m.gear}-{m.pinion}", m.gear, m.pinion, referred))
     labels = tuple("+".join(n for n in names if dof[n] == j) for j in range(size))
     try:
         model = matrix_model(mass, stiffness, damping, labels)
@@ -383,3 +390,137 @@ def torsional_modes(train: TorsionalTrain) -> ModeSet:
     if not isinstance(train, TorsionalTrain):
         raise InputTypeError(f"train: got {type(train).__name__}; expected a TorsionalTrain")
     return model_modes(train.model)
+
+
+@dataclass(frozen=True)
+class TorsionalShape:
+    """One torsional mode in words and numbers.
+
+    Attributes
+    ----------
+    frequency : float
+        Natural frequency [Hz].
+    angles : dict of str to float
+        Each station's angle in its own shaft's rotation, scaled so the largest is 1 [-].
+    twist_share : dict of str to float
+        Each element's share of the mode's strain energy [-] (the shares add up to 1).
+    twists_most : str
+        The element that takes most of the twist, and its share, in words.
+    """
+
+    frequency: float
+    angles: dict[str, float]
+    twist_share: dict[str, float]
+    twists_most: str
+
+
+def torsional_shapes(train: TorsionalTrain, modes: ModeSet | None = None) -> list[TorsionalShape]:
+    """The elastic modes' shapes: angle per station, twist per element, the element that twists most.
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        From :func:`torsional_train`.
+    modes : ModeSet, optional
+        Its modes (:func:`torsional_modes` if omitted).
+
+    Returns
+    -------
+    list of TorsionalShape
+        One per elastic mode (the free rotation at 0 Hz left out), by frequency.
+
+    Raises
+    ------
+    InputTypeError
+        Not a train.
+    """
+    modes = modes if modes is not None else torsional_modes(train)
+    out = []
+    for i, f in enumerate(modes.frequency):
+        if f <= 1e-6:
+            continue
+        phi = np.real(modes.shapes[:, i])
+        own = {s.name: phi[train.dof[s.name]] * train.speed_ratio[s.shaft] for s in train.stations}
+        scale = max(abs(v) for v in own.values()) or 1.0
+        energy = {label: kr * (phi[train.dof[a]] - phi[train.dof[b]]) ** 2 for label, a, b, kr in train.elements}
+        total = sum(energy.values()) or 1.0
+        share = {label: e / total for label, e in energy.items()}
+        top = max(share, key=share.__getitem__) if share else "-"
+        words = f"{top} takes {100 * share[top]:.0f} % of the twist" if share else "no element twists"
+        out.append(TorsionalShape(float(f), {n: v / scale for n, v in own.items()}, share, words))
+    return out
+
+
+def torsional_mode_list(train: TorsionalTrain, damping_ratio: float | None = None) -> list[Mode]:
+    """The elastic modes as :class:`~resonance.modes.Mode` of kind ``"torsional"`` for the interference check.
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        From :func:`torsional_train`.
+    damping_ratio : float, optional
+        A modal damping ratio for every mode [-]; the element dampers' if omitted.
+
+    Returns
+    -------
+    list of Mode
+        Labelled by number and the element that twists most; the AF source says which damping was used.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a train, or a damping ratio that is not finite and >= 0.
+    """
+    modes = torsional_modes(train)
+    zeta_given = None if damping_ratio is None else as_si(damping_ratio, "damping_ratio", "ratio", "nonnegative")
+    out = []
+    shapes = torsional_shapes(train, modes)
+    elastic = [i for i, f in enumerate(modes.frequency) if f > 1e-6]
+    for n, (i, shape) in enumerate(zip(elastic, shapes, strict=True)):
+        zeta = float(modes.damping_ratio[i]) if zeta_given is None else zeta_given
+        source = "1/(2 zeta) of the element dampers" if zeta_given is None else "1/(2 zeta) of the given modal damping"
+        out.append(
+            Mode(
+                shape.frequency,
+                zeta,
+                f"torsional mode {n + 1} ({shape.twists_most.split(' takes')[0]} twists most)",
+                "model",
+                modes.shapes[:, i],
+                kind="torsional",
+                af_source=source,
+            )
+        )
+    return out
+
+
+def shaft_order(train: TorsionalTrain, shaft: str, order: float = 1.0, label: str | None = None) -> Excitation:
+    """An order of one shaft's speed as an excitation of the train, referred to the reference shaft's speed.
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        The train.
+    shaft : str
+        The shaft whose speed excites (its 1x, 2x, or a gear mesh: teeth x that shaft's speed).
+    order : float
+        Multiple of that shaft's speed [-] (> 0).
+    label : str, optional
+        Name in tables.
+
+    Returns
+    -------
+    Excitation
+        Order ``order x n`` of the reference shaft's speed (``n`` the shaft's speed ratio); kind
+        ``"synchronous"`` only for 1x of the reference shaft.
+
+    Raises
+    ------
+    InputValueError
+        An unknown shaft or an order that is not > 0.
+    """
+    if shaft not in train.speed_ratio:
+        raise InputValueError(f"shaft: got {shaft!r}; expected one of {sorted(train.speed_ratio)}")
+    n = as_si(order, "order", "ratio", "positive")
+    referred = n * train.speed_ratio[shaft]
+    text = label if label is not None else f"{n:g}x {shaft}"
+    return Excitation(text, order=referred, kind="synchronous" if referred == 1.0 else "order")

@@ -159,3 +159,48 @@ def test_us_and_si_inputs_agree():
 def test_bad_trains_are_refused(build, message):
     with pytest.raises(R.InputValueError, match=message):
         build()
+
+
+def _geared():
+    # Motor --soft coupling-- gear ==(x3.2)== pinion --stiff shaft-- compressor (invented).
+    return torsional_train(
+        [Station("motor", 6.0), Station("gear", 1.1), Station("pinion", 0.05, "hs"), Station("compressor", 0.4, "hs")],
+        [
+            Coupling(("motor", "gear"), 4e4, label="coupling"),
+            TorsionalShaft(("pinion", "compressor"), 6e6, label="hs shaft"),
+        ],
+        [GearMesh("gear", "pinion", 3.2)],
+    )
+
+
+def test_shapes_name_the_element_that_twists_most():
+    from resonance.torsion import torsional_shapes
+
+    (shape,) = torsional_shapes(_geared())[:1]
+    assert_allclose(sum(shape.twist_share.values()), 1.0, rtol=1e-12)
+    # The soft coupling takes nearly all the strain energy of the first mode (a two-mass-like mode).
+    assert shape.twists_most.startswith("coupling takes")
+    assert shape.twist_share["coupling"] > 0.95
+    assert max(abs(v) for v in shape.angles.values()) == pytest.approx(1.0)
+    # Angles in each shaft's own rotation: the compressor turns 3.2 times the referred angle.
+    train = _geared()
+    assert train.ratio("compressor") == pytest.approx(3.2)
+
+
+def test_torsional_modes_meet_the_torsional_rule_through_the_interference_check():
+    from resonance.torsion import shaft_order, torsional_mode_list
+
+    train = _geared()
+    modes = torsional_mode_list(train, damping_ratio=0.02)
+    assert all(m.kind == "torsional" for m in modes)
+    assert modes[0].label == "torsional mode 1 (coupling twists most)"
+    hs_1x = shaft_order(train, "hs", 1.0)
+    assert hs_1x.order == pytest.approx(3.2)  # 1x of the high-speed shaft, in driver orders
+    assert shaft_order(train, "driver", 1.0).kind == "synchronous"
+    table = R.interference_check(
+        modes, [shaft_order(train, "driver"), hs_1x], R.operating_range(1200, 1500), R.RuleSet()
+    )
+    assert {f.rule for f in table} == {"torsional 10 %"}  # API 617 / RP 684, from memory
+    first = next(f for f in table if f.excitation is hs_1x and f.mode is modes[0])
+    # The coincidence in driver rpm: f_n = 3.2 N / 60 -> N = 60 f_n / 3.2.
+    assert_allclose(first.coincidence_speed, 60 * modes[0].frequency / 3.2, rtol=1e-12)
