@@ -32,6 +32,7 @@ import numpy as np
 
 from .errors import InputValueError
 from .inputs import as_si, as_si_array
+from .torsion import TorsionalTrain
 
 __all__ = [
     "EXCITATION_KINDS",
@@ -46,6 +47,7 @@ __all__ = [
     "line_frequency",
     "permissible_unbalance",
     "running_speed_order",
+    "shaft_order",
     "twice_line_frequency",
     "unbalance_force",
 ]
@@ -473,3 +475,36 @@ def unbalance_force(unbalance: object, speed: object) -> np.ndarray:
     u = as_si(unbalance, "unbalance", "unbalance", "nonnegative")
     w = 2.0 * math.pi * as_si_array(speed, "speed", "speed", "nonnegative") / 60.0
     return u * w**2
+
+
+def shaft_order(train: TorsionalTrain, shaft: str, order: float = 1.0, label: str | None = None) -> Excitation:
+    """An order of one shaft's speed as an excitation of the train, referred to the reference shaft's speed.
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        The train.
+    shaft : str
+        The shaft whose speed excites (its 1x, 2x, or a gear mesh: teeth x that shaft's speed).
+    order : float
+        Multiple of that shaft's speed [-] (> 0).
+    label : str, optional
+        Name in tables.
+
+    Returns
+    -------
+    Excitation
+        Order ``order x n`` of the reference shaft's speed (``n`` the shaft's speed ratio); kind
+        ``"synchronous"`` only for 1x of the reference shaft.
+
+    Raises
+    ------
+    InputValueError
+        An unknown shaft or an order that is not > 0.
+    """
+    if shaft not in train.speed_ratio:
+        raise InputValueError(f"shaft: got {shaft!r}; expected one of {sorted(train.speed_ratio)}")
+    n = as_si(order, "order", "ratio", "positive")
+    referred = n * train.speed_ratio[shaft]
+    text = label if label is not None else f"{n:g}x {shaft}"
+    return Excitation(text, order=referred, kind="synchronous" if referred == 1.0 else "order")

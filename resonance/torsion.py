@@ -26,7 +26,6 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputTypeError, InputValueError
-from .excitations import Excitation
 from .inputs import as_si
 from .model import MatrixModel, matrix_model
 from .modes import Mode, ModeSet, model_modes
@@ -39,7 +38,6 @@ __all__ = [
     "TorsionalShape",
     "TorsionalTrain",
     "hollow_shaft_stiffness",
-    "shaft_order",
     "torsional_mode_list",
     "torsional_modes",
     "torsional_shapes",
@@ -491,36 +489,3 @@ def torsional_mode_list(train: TorsionalTrain, damping_ratio: float | None = Non
             )
         )
     return out
-
-
-def shaft_order(train: TorsionalTrain, shaft: str, order: float = 1.0, label: str | None = None) -> Excitation:
-    """An order of one shaft's speed as an excitation of the train, referred to the reference shaft's speed.
-
-    Parameters
-    ----------
-    train : TorsionalTrain
-        The train.
-    shaft : str
-        The shaft whose speed excites (its 1x, 2x, or a gear mesh: teeth x that shaft's speed).
-    order : float
-        Multiple of that shaft's speed [-] (> 0).
-    label : str, optional
-        Name in tables.
-
-    Returns
-    -------
-    Excitation
-        Order ``order x n`` of the reference shaft's speed (``n`` the shaft's speed ratio); kind
-        ``"synchronous"`` only for 1x of the reference shaft.
-
-    Raises
-    ------
-    InputValueError
-        An unknown shaft or an order that is not > 0.
-    """
-    if shaft not in train.speed_ratio:
-        raise InputValueError(f"shaft: got {shaft!r}; expected one of {sorted(train.speed_ratio)}")
-    n = as_si(order, "order", "ratio", "positive")
-    referred = n * train.speed_ratio[shaft]
-    text = label if label is not None else f"{n:g}x {shaft}"
-    return Excitation(text, order=referred, kind="synchronous" if referred == 1.0 else "order")

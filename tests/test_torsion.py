@@ -188,7 +188,8 @@ def test_shapes_name_the_element_that_twists_most():
 
 
 def test_torsional_modes_meet_the_torsional_rule_through_the_interference_check():
-    from resonance.torsion import shaft_order, torsional_mode_list
+    from resonance.excitations import shaft_order
+    from resonance.torsion import torsional_mode_list
 
     train = _geared()
     modes = torsional_mode_list(train, damping_ratio=0.02)
