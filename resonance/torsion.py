@@ -26,7 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputTypeError, InputValueError
-from .inputs import as_si
+from .inputs import as_si, as_si_array
 from .model import MatrixModel, matrix_model
 from .modes import Mode, ModeSet, model_modes
 
@@ -37,7 +37,9 @@ __all__ = [
     "TorsionalShaft",
     "TorsionalShape",
     "TorsionalTrain",
+    "TorqueResponse",
     "hollow_shaft_stiffness",
+    "torque_response",
     "torsional_mode_list",
     "torsional_modes",
     "torsional_shapes",
@@ -124,12 +126,16 @@ class TorsionalShaft:
         [N m s/rad] (>= 0).
     label : str
         Name in tables (the element that twists most is named by it).
+    outer_diameter, inner_diameter : float
+        The section's diameters [m], when shear stresses are wanted (see :func:`torque_response`).
     """
 
     between: tuple[str, str]
     stiffness: float
     damping: float = 0.0
     label: str = ""
+    outer_diameter: float | None = None
+    inner_diameter: float = 0.0
 
     def __post_init__(self) -> None:
         where = self.label or "-".join(self.between)
@@ -139,6 +145,21 @@ class TorsionalShaft:
         object.__setattr__(self, "damping", as_si(self.damping, f"{where}: damping", "ratio", "nonnegative"))
         if not self.label:
             object.__setattr__(self, "label", where)
+        if self.outer_diameter is not None:
+            d_out = as_si(self.outer_diameter, f"{where}: outer_diameter", "length", "positive")
+            d_in = as_si(self.inner_diameter, f"{where}: inner_diameter", "length", "nonnegative")
+            if not d_in < d_out:
+                raise InputValueError(f"{where}: inner_diameter: got {d_in:g} m, not below the outer {d_out:g} m")
+            object.__setattr__(self, "outer_diameter", d_out)
+            object.__setattr__(self, "inner_diameter", d_in)
+
+    @property
+    def section_modulus(self) -> float | None:
+        """Polar section modulus ``Z_p = pi (D^4 - d^4) / (16 D)`` [m^3], or None without diameters."""
+        if self.outer_diameter is None:
+            return None
+        d_out, d_in = float(self.outer_diameter), float(self.inner_diameter)
+        return math.pi * (d_out**4 - d_in**4) / (16.0 * d_out)
 
 
 class Coupling(TorsionalShaft):
@@ -204,6 +225,8 @@ class TorsionalTrain:
         (shafts, couplings, compliant meshes).
     reference : str
         The reference shaft (that of the first station).
+    springs : tuple of TorsionalShaft
+        The shafts and couplings as given (for torques and stresses).
     """
 
     stations: tuple[Station, ...]
@@ -212,6 +235,7 @@ class TorsionalTrain:
     model: MatrixModel
     elements: tuple[tuple[str, str, str, float], ...]
     reference: str
+    springs: tuple[TorsionalShaft, ...] = ()
 
     def ratio(self, station: str) -> float:
         """The speed ratio of a station's shaft to the reference shaft [-].
@@ -354,7 +378,7 @@ def torsional_train(
         model = matrix_model(mass, stiffness, damping, labels)
     except InputValueError as error:
         raise InputValueError(f"train: {error}") from None
-    return TorsionalTrain(tuple(stations), ratio, dof, model, tuple(elements), reference)
+    return TorsionalTrain(tuple(stations), ratio, dof, model, tuple(elements), reference, tuple(springs))
 
 
 def _add(matrix: np.ndarray, i: int, j: int, value: float) -> None:
@@ -489,3 +513,92 @@ def torsional_mode_list(train: TorsionalTrain, damping_ratio: float | None = Non
             )
         )
     return out
+
+
+@dataclass(frozen=True)
+class TorqueResponse:
+    """Steady response of a train to harmonic torques.
+
+    Attributes
+    ----------
+    frequency : numpy.ndarray
+        Excitation frequencies [Hz].
+    element_torque : dict of str to numpy.ndarray
+        Dynamic torque amplitude in each shaft and coupling, on its own shaft [N m] (spring and damper).
+    shear_stress : dict of str to numpy.ndarray
+        Shear stress amplitude ``T / Z_p`` [Pa] in each shaft section given with its diameters.
+    station_angle : dict of str to numpy.ndarray
+        Angle amplitude of each station in its own shaft's rotation [rad].
+    """
+
+    frequency: np.ndarray
+    element_torque: dict[str, np.ndarray]
+    shear_stress: dict[str, np.ndarray]
+    station_angle: dict[str, np.ndarray]
+
+
+def torque_response(train: TorsionalTrain, torques: dict[str, object], frequency: object) -> TorqueResponse:
+    """Steady dynamic torques and stresses under harmonic torques at stations (one frequency at a time).
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        From :func:`torsional_train`.
+    torques : dict of str to float or pint.Quantity
+        Torque amplitude at each excited station, on its own shaft [N m] (a pulsating air-gap torque, a gear
+        mesh torque), all in phase at one frequency.
+    frequency : array_like or pint.Quantity
+        Excitation frequencies [Hz] (>= 0).
+
+    Returns
+    -------
+    TorqueResponse
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a train, an unknown station, a torque or frequency that is not finite.
+
+    Notes
+    -----
+    The referred equations ``(K - w^2 J + i w C) theta = T_ref`` are solved at each frequency; a torque on a
+    shaft turning ``n`` times the reference speed is referred as ``n T`` (virtual work) and an element's
+    referred torque is taken back to its own shaft as ``T_ref / n``. Fatigue design belongs to the governing
+    code and a qualified engineer: compare the stresses with an allowable you are given, not with a guess.
+
+    References
+    ----------
+    Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 6.10 and 5.6; Roark's Formulas, table 10.1 (``Z_p``)
+    (from memory).
+    """
+    if not isinstance(train, TorsionalTrain):
+        raise InputTypeError(f"train: got {type(train).__name__}; expected a TorsionalTrain")
+    f = as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    shaft_of = {s.name: s.shaft for s in train.stations}
+    load = np.zeros(train.model.size, dtype=complex)
+    for name, torque in torques.items():
+        if name not in shaft_of:
+            raise InputValueError(
+                f"torques: names {name!r}, which is not a station; expected one of {sorted(shaft_of)}"
+            )
+        load[train.dof[name]] += as_si(torque, f"torques[{name!r}]", "torque") * train.speed_ratio[shaft_of[name]]
+    w = 2.0 * math.pi * f
+    m, k, c = train.model.mass, train.model.stiffness, train.model.damping
+    dynamic = k[None, :, :] - (w**2)[:, None, None] * m[None, :, :] + 1j * w[:, None, None] * c[None, :, :]
+    theta = np.linalg.solve(dynamic, np.broadcast_to(load, (f.size, load.size))[:, :, None])[:, :, 0]
+    angles = {s.name: np.abs(theta[:, train.dof[s.name]]) * train.speed_ratio[s.shaft] for s in train.stations}
+    torque_out: dict[str, np.ndarray] = {}
+    stress: dict[str, np.ndarray] = {}
+    for spring in train.springs:
+        a, b = spring.between
+        n = train.speed_ratio[shaft_of[a]]
+        twist = theta[:, train.dof[a]] - theta[:, train.dof[b]]
+        referred = (spring.stiffness + 1j * w * spring.damping) * n**2 * twist
+        torque_out[spring.label] = np.abs(referred) / n
+        if spring.section_modulus is not None:
+            stress[spring.label] = torque_out[spring.label] / spring.section_modulus
+    for label, a, b, kr in train.elements:
+        if label not in torque_out:  # compliant meshes: the torque on the pinion's shaft
+            n = train.speed_ratio[shaft_of[b]]
+            torque_out[label] = np.abs(kr * (theta[:, train.dof[a]] - theta[:, train.dof[b]])) / n
+    return TorqueResponse(f, torque_out, stress, angles)

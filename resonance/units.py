@@ -118,6 +118,7 @@ QuantityKind = Literal[
     "density",
     "pressure",
     "moment_stiffness",
+    "torque",
     "time",
 ]
 
@@ -142,6 +143,7 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "density": ("kg/m**3", "kg/m**3", "lbm/in**3"),
     "pressure": ("Pa", "GPa", "psi"),
     "moment_stiffness": ("N*m/rad", "kN*m/rad", "lbf*in/rad"),
+    "torque": ("N*m", "N*m", "lbf*ft"),
     "time": ("s", "s", "s"),
 }
 

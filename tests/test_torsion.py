@@ -205,3 +205,46 @@ def test_torsional_modes_meet_the_torsional_rule_through_the_interference_check(
     first = next(f for f in table if f.excitation is hs_1x and f.mode is modes[0])
     # The coincidence in driver rpm: f_n = 3.2 N / 60 -> N = 60 f_n / 3.2.
     assert_allclose(first.coincidence_speed, 60 * modes[0].frequency / 3.2, rtol=1e-12)
+
+
+def test_torque_response_against_a_direct_solve_of_the_hand_referred_train():
+    from resonance.torsion import torque_response
+
+    n, jm, jg, jp, jc = 3.2, 6.0, 1.1, 0.05, 0.4
+    kc, cc, ks = 4e4, 30.0, 6e6
+    shaft = TorsionalShaft(("pinion", "compressor"), ks, label="hs shaft", outer_diameter=0.06, inner_diameter=0.02)
+    train = torsional_train(
+        [Station("motor", jm), Station("gear", jg), Station("pinion", jp, "hs"), Station("compressor", jc, "hs")],
+        [Coupling(("motor", "gear"), kc, damping=cc, label="coupling"), shaft],
+        [GearMesh("gear", "pinion", n)],
+    )
+    f = np.array([1.0, 5.0, 12.0, 40.0])
+    out = torque_response(train, {"motor": 500.0, "compressor": R.ureg("20 N*m")}, f)
+    # The same train referred by hand (Wilson/Rao): J n^2, k n^2, c n^2; a torque on the fast shaft n T.
+    mass = np.diag([jm, jg + jp * n**2, jc * n**2])
+    k = np.array([[kc, -kc, 0.0], [-kc, kc + ks * n**2, -ks * n**2], [0.0, -ks * n**2, ks * n**2]])
+    c = np.array([[cc, -cc, 0.0], [-cc, cc, 0.0], [0.0, 0.0, 0.0]])
+    load = np.array([500.0, 0.0, 20.0 * n])
+    for i, fi in enumerate(f):
+        w = 2 * math.pi * fi
+        theta = np.linalg.solve(k - w**2 * mass + 1j * w * c, load)
+        assert_allclose(out.element_torque["coupling"][i], abs((kc + 1j * w * cc) * (theta[0] - theta[1])), rtol=1e-9)
+        hs = abs(ks * n**2 * (theta[1] - theta[2])) / n  # back on the high-speed shaft
+        assert_allclose(out.element_torque["hs shaft"][i], hs, rtol=1e-9)
+        assert_allclose(out.station_angle["compressor"][i], abs(theta[2]) * n, rtol=1e-9)
+    # Shear stress T / Z_p, Z_p = pi (D^4 - d^4) / (16 D) (Roark, from memory).
+    zp = math.pi * (0.06**4 - 0.02**4) / (16 * 0.06)
+    assert_allclose(out.shear_stress["hs shaft"], out.element_torque["hs shaft"] / zp, rtol=1e-12)
+    assert "coupling" not in out.shear_stress  # no diameters given: no stress claimed
+
+
+def test_torque_response_quasi_static_limit():
+    # Far below the first mode a torque T0 on J1 accelerates both inertias together: the coupling passes the
+    # share J2 / (J1 + J2) of it (rigid-body dynamics).
+    from resonance.torsion import torque_response
+
+    train = torsional_train([Station("a", 3.0), Station("b", 1.0)], [Coupling(("a", "b"), 1e6, label="c")])
+    out = torque_response(train, {"a": 100.0}, [0.01])
+    assert_allclose(out.element_torque["c"][0], 100.0 * 1.0 / 4.0, rtol=1e-6)
+    with pytest.raises(R.InputValueError, match=r"torques: names 'z', which is not a station"):
+        torque_response(train, {"z": 1.0}, [1.0])
