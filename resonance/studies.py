@@ -12,7 +12,8 @@ Kinds today:
 
 * ``support``: a machine on its support (``[model]``), with its field verification when the scenario
   has a ``[field]`` table (:mod:`resonance.study`, :mod:`resonance.field.study`);
-* ``rotor``: a rotor on its bearings (``[rotor]``; :mod:`resonance.rotor.study`).
+* ``rotor``: a rotor on its bearings (``[rotor]``; :mod:`resonance.rotor.study`);
+* ``torsion``: a drive train's torsional modes (``[torsion]``; :mod:`resonance.torsion_study`).
 """
 
 from __future__ import annotations
@@ -34,6 +35,7 @@ __all__ = [
     "StudyKind",
     "StudyOutcome",
     "SupportStudy",
+    "TorsionStudy",
     "register_study_kind",
     "run_scenario_file",
     "study_kind_for",
@@ -206,8 +208,45 @@ class RotorStudy:
         )
 
 
+class TorsionStudy:
+    """A drive train: torsional modes against every shaft's orders, gear meshes and electrical sources."""
+
+    name = "torsion"
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """Scenarios with a ``[torsion]`` table."""
+        return "torsion" in tables
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """See :func:`resonance.torsion_study.parse_torsion_scenario`."""
+        from .torsion_study import parse_torsion_scenario
+
+        return parse_torsion_scenario(tables, source)
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """None: a torsional study reads no measurement file."""
+        return []
+
+    def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
+        """See :func:`resonance.torsion_study.run_torsion_study`."""
+        from .torsion_study import build_torsion_record, run_torsion_study
+
+        result = run_torsion_study(scenario)
+        return StudyOutcome(
+            self.name,
+            scenario.title,
+            scenario.units,
+            result,
+            result.passed,
+            result.summary(scenario.units),
+            result.findings,
+            (),
+            build_torsion_record(result),
+        )
+
+
 #: The registry of kinds, asked in order; the first that claims a scenario runs it.
-STUDY_KINDS: list[StudyKind] = [RotorStudy(), SupportStudy()]
+STUDY_KINDS: list[StudyKind] = [TorsionStudy(), RotorStudy(), SupportStudy()]
 
 
 def register_study_kind(kind: StudyKind, first: bool = True) -> None:
@@ -254,7 +293,8 @@ def study_kind_for(tables: Mapping[str, Any], source: str) -> StudyKind:
         if kind.claims(tables):
             return kind
     raise ScenarioError(
-        f"{source}: no [model] or [rotor] table; expected one of the study kinds {[k.name for k in STUDY_KINDS]}"
+        f"{source}: no [model], [rotor] or [torsion] table; expected one of the study kinds "
+        f"{[k.name for k in STUDY_KINDS]}"
     )
 
 

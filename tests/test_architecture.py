@@ -36,6 +36,7 @@ LAYERS = {
         "scenario",
         "study",
         "studies",
+        "torsion_study",
         "whatif",
         "record",
         "compare",

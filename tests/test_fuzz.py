@@ -142,3 +142,16 @@ def test_mutated_field_tables_give_a_record_or_a_named_error(data):
         return build_record(run_study(scenario), field=run_field_study(scenario, SCENARIOS))
 
     _run(flow, "fan_on_pedestal.toml")
+
+
+TORSION = read_scenario_file(SCENARIOS / "compressor_train.toml")
+
+
+@given(data=st.data())
+@settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+def test_mutated_torsion_scenarios_give_a_record_or_a_named_error(data):
+    from resonance.torsion_study import build_torsion_record, parse_torsion_scenario, run_torsion_study
+
+    table = _mutate(TORSION, data)
+    name = "compressor_train.toml"
+    _run(lambda: build_torsion_record(run_torsion_study(parse_torsion_scenario(table, name))), name)

@@ -248,3 +248,64 @@ def test_torque_response_quasi_static_limit():
     assert_allclose(out.element_torque["c"][0], 100.0 * 1.0 / 4.0, rtol=1e-6)
     with pytest.raises(R.InputValueError, match=r"torques: names 'z', which is not a station"):
         torque_response(train, {"z": 1.0}, [1.0])
+
+
+# --- the torsional flow: scenario, study, record, check ------------------------------------------------------
+
+
+def _train_tables():
+    from pathlib import Path
+
+    from resonance.tables import read_scenario_file
+
+    return read_scenario_file(
+        Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
+    )
+
+
+def test_demo_train_runs_through_check(tmp_path, capsys):
+    import json
+    from pathlib import Path
+
+    from resonance.cli import main
+
+    path = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
+    out = tmp_path / "train.json"
+    assert main(["check", str(path), "--json", str(out), "--html", str(tmp_path / "train.html")]) == 1
+    text = capsys.readouterr().out
+    assert "TORSIONAL MODES" in text
+    assert "flexible coupling takes" in text
+    data = json.loads(out.read_text())
+    assert data["format"] == "resonance-torsion-record/1"
+    assert {f["rule"] for f in data["findings"]} == {"torsional 10 %"}
+    # The coupling mode lies below the range against the driver's 1x: SM = 100 (N_min - N_c) / N_min (API 684).
+    worst = data["findings"][0]
+    assert worst["verdict"] == "FAIL"
+    assert_allclose(worst["margin_percent"], 100 * (1200 - worst["coincidence_speed_rpm"]) / 1200, rtol=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("edit", "message"),
+    [
+        (lambda t: t["torsion"]["stations"][0].update(inertia="0 kg*m**2"), r"torsion\.stations\[0\]\.inertia: got 0"),
+        (lambda t: t["torsion"]["meshes"][0].update(ratio=0), r"torsion\.meshes\[0\]\.ratio: got 0"),
+        (
+            lambda t: t["torsion"]["stations"][4].update(shaft="island"),
+            r"torsion\.(shafts/couplings|meshes): .*(joins two shafts|not geared)",
+        ),
+        (
+            lambda t: t["torsion"]["couplings"][0].update(between=["hub", "nowhere"]),
+            r"torsion\.shafts/couplings: springs\[2\] \(flexible coupling\): names 'nowhere'",
+        ),
+        (lambda t: t["torsion"].update(damping_ratio=1.5), r"torsion\.damping_ratio: got 1\.5"),
+        (lambda t: t["torsion"]["meshes"][0].update(gear_teeth=0), r"torsion\.meshes\[0\]\.gear_teeth: got 0"),
+    ],
+)
+def test_bad_trains_name_the_file_and_field(edit, message):
+    from resonance.tables import ScenarioError
+    from resonance.torsion_study import parse_torsion_scenario
+
+    tables = _train_tables()
+    edit(tables)
+    with pytest.raises(ScenarioError, match=rf"^train\.toml: {message}"):
+        parse_torsion_scenario(tables, "train.toml")
