@@ -25,9 +25,8 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from .errors import InputTypeError, InputValueError
-from .record import atomic_write
 from .studies import study_kind_for
-from .tables import read_scenario_bytes
+from .tables import atomic_write, read_scenario_bytes
 
 __all__ = ["main"]
 

@@ -438,7 +438,7 @@ def verdict_of(passed: bool, findings: FindingsTable) -> str:
     return findings.verdict if passed else "FAIL"
 
 
-def verdict_line(verdict: str, findings: FindingsTable) -> str:
+def verdict_line(verdict: str, findings: FindingsTable, heading: str = "Verdict") -> str:
     """``Verdict: ...``, naming every exempt coincidence inside the operating range.
 
     Parameters
@@ -447,11 +447,13 @@ def verdict_line(verdict: str, findings: FindingsTable) -> str:
         The study's verdict.
     findings : FindingsTable
         The margin findings (their exempt coincidences inside the range are named).
+    heading : str
+        The word before the colon (``"VERDICT"`` in the text records).
 
     Returns
     -------
     str
-        One line starting ``Verdict:``.
+        One line starting ``Verdict:`` (or the ``heading`` given).
 
     Raises
     ------
@@ -460,8 +462,8 @@ def verdict_line(verdict: str, findings: FindingsTable) -> str:
     """
     exempt = findings.exempt_inside
     if not exempt:
-        return f"Verdict: {verdict}"
+        return f"{heading}: {verdict}"
     names = "; ".join(
         f"{f.mode.label} x {f.excitation.label} inside the operating range, exempt: {f.exemption}" for f in exempt
     )
-    return f"Verdict: {verdict} ({names})"
+    return f"{heading}: {verdict} ({names})"

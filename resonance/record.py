@@ -23,6 +23,7 @@ from ._version import __version__
 from .interference import FindingsTable, verdict_line
 from .scenario import RecordSpec, scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
+from .tables import atomic_write
 
 if TYPE_CHECKING:
     from .field.study import FieldStudyResult
@@ -32,7 +33,6 @@ __all__ = [
     "CAUTION",
     "METHODS",
     "Record",
-    "atomic_write",
     "basis_lines",
     "build_record",
     "header_lines",
@@ -333,7 +333,7 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
             if "field" in data
             else []
         ),
-        "VERDICT:" + verdict_line(data["verdict"], result.findings).removeprefix("Verdict:"),
+        verdict_line(data["verdict"], result.findings, heading="VERDICT"),
         "",
         "CAUTION",
         f"  {CAUTION}",
@@ -429,36 +429,6 @@ def build_record(
         if not field.passed:
             data["verdict"] = "FAIL"
     return Record(data, _text(result, data))
-
-
-def atomic_write(path: str | os.PathLike[str], text: str) -> Path:
-    """Write text through a temporary file and a rename, so no partial file is left.
-
-    Parameters
-    ----------
-    path : path-like
-        The file to write.
-    text : str
-        Its content (UTF-8).
-
-    Returns
-    -------
-    pathlib.Path
-        The file written.
-
-    Raises
-    ------
-    OSError
-        The folder cannot be written (no temporary file is left behind).
-    """
-    target = Path(path)
-    temporary = target.with_name(f".{target.name}.partial")
-    try:
-        temporary.write_text(text, encoding="utf-8")
-        os.replace(temporary, target)
-    finally:
-        temporary.unlink(missing_ok=True)  # never a partial file, whatever failed
-    return target
 
 
 def write_json(record: Record, path: str | os.PathLike[str]) -> Path:

@@ -37,8 +37,10 @@ __all__ = [
     "SupportStudy",
     "TorsionStudy",
     "register_study_kind",
+    "rotor_outcome",
     "run_scenario_file",
     "study_kind_for",
+    "support_outcome",
 ]
 
 
@@ -135,39 +137,12 @@ class SupportStudy:
         """See :func:`resonance.study.run_study` and :func:`resonance.field.study.run_field_study`."""
         from .study import run_study
 
-        result = run_study(scenario)
         field = None
-        tables: list[tuple[str, FindingsTable]] = []
-        summary = result.summary(scenario.units)
         if scenario.field:
             from .field.study import run_field_study
 
             field = run_field_study(scenario, base_dir)
-            summary += "\n\n" + field.summary()
-            if field.findings is not None:
-                tables.append(("Field verification: measured modes against the rules", field.findings))
-            if field.tuned_study is not None:
-                tables.append(("Field verification: tuned model", field.tuned_study.findings))
-        record = build_record(result, field=field)
-        passed = result.passed and (field is None or field.passed)
-        if field is not None:
-            verdict = record.data["verdict"]
-            summary = (
-                f"Verdict: {verdict} (the design model and its field verification together)\n\n"
-                f"Design model:\n{result.summary(scenario.units)}\n\n{field.summary()}"
-            )
-        return StudyOutcome(
-            self.name,
-            scenario.title,
-            scenario.units,
-            result,
-            passed,
-            summary,
-            result.findings,
-            tuple(tables),
-            record,
-            field,
-        )
+        return support_outcome(run_study(scenario), field)
 
 
 class RotorStudy:
@@ -191,21 +166,9 @@ class RotorStudy:
 
     def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
         """See :func:`resonance.rotor.study.run_rotor_study`."""
-        from .rotor.record import build_rotor_record
         from .rotor.study import run_rotor_study
 
-        result = run_rotor_study(scenario)
-        return StudyOutcome(
-            self.name,
-            scenario.title,
-            scenario.units,
-            result,
-            result.passed,
-            result.summary(scenario.units),
-            result.findings,
-            (),
-            build_rotor_record(result),
-        )
+        return rotor_outcome(run_rotor_study(scenario))
 
 
 class TorsionStudy:
@@ -243,6 +206,74 @@ class TorsionStudy:
             (),
             build_torsion_record(result),
         )
+
+
+def support_outcome(result: Any, field: Any = None, record: Record | None = None) -> StudyOutcome:
+    """The outcome of a support study and, when given, its field verification.
+
+    Parameters
+    ----------
+    result : StudyResult
+        The support study.
+    field : FieldStudyResult, optional
+        Its field verification; the verdict then needs both to pass.
+    record : Record, optional
+        The record, when already built (built from ``result`` and ``field`` otherwise).
+
+    Returns
+    -------
+    StudyOutcome
+
+    Raises
+    ------
+    Nothing
+        The results are already validated.
+    """
+    units = result.scenario.units
+    record = record if record is not None else build_record(result, field=field)
+    summary = result.summary(units)
+    tables: list[tuple[str, FindingsTable]] = []
+    if field is not None:
+        if field.findings is not None:
+            tables.append(("Field verification: measured modes against the rules", field.findings))
+        if field.tuned_study is not None:
+            tables.append(("Field verification: tuned model", field.tuned_study.findings))
+        summary = (
+            f"Verdict: {record.data['verdict']} (the design model and its field verification together)\n\n"
+            f"Design model:\n{summary}\n\n{field.summary()}"
+        )
+    passed = result.passed and (field is None or field.passed)
+    return StudyOutcome(
+        "support", result.scenario.title, units, result, passed, summary, result.findings, tuple(tables), record, field
+    )
+
+
+def rotor_outcome(result: Any, record: Record | None = None) -> StudyOutcome:
+    """The outcome of a rotor study.
+
+    Parameters
+    ----------
+    result : RotorStudyResult
+        The rotor study.
+    record : Record, optional
+        The record, when already built.
+
+    Returns
+    -------
+    StudyOutcome
+
+    Raises
+    ------
+    Nothing
+        The result is already validated.
+    """
+    from .rotor.record import build_rotor_record
+
+    units = result.scenario.units
+    record = record if record is not None else build_rotor_record(result)
+    summary = result.summary(units)
+    title = result.scenario.title
+    return StudyOutcome("rotor", title, units, result, result.passed, summary, result.findings, (), record)
 
 
 #: The registry of kinds, asked in order; the first that claims a scenario runs it.

@@ -6,7 +6,8 @@ reads its own tables with a :class:`TableReader`, whose errors name the file and
 excitations and the motor (``[[excitations]]``, ``[motor]``), the margin rules (``[margin]``) and the
 revision fields (``[record]``) through the functions here. Values are numbers in the package convention
 or text with a unit (:func:`resonance.inputs.parse_quantity`); files are only read, and written only
-through :func:`write_scenario_table`, which never overwrites unless told to.
+through :func:`write_scenario_table`, which never overwrites unless told to. Every file the package writes
+(scenarios and records) goes through :func:`atomic_write`, so no partial file is ever left.
 """
 
 from __future__ import annotations
@@ -41,6 +42,7 @@ __all__ = [
     "RecordSpec",
     "ScenarioError",
     "TableReader",
+    "atomic_write",
     "excitation_table",
     "motor_table",
     "parse_excitations",
@@ -743,10 +745,34 @@ def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str],
     target = Path(path)
     if target.exists() and not overwrite:
         raise FileExistsError(f"{target}: exists; pass overwrite=True or choose another name")
-    temporary = target.with_name(f".{target.name}.tmp")
+    return atomic_write(target, tomli_w.dumps(table))
+
+
+def atomic_write(path: str | os.PathLike[str], text: str) -> Path:
+    """Write text through a temporary file and a rename, so no partial file is left.
+
+    Parameters
+    ----------
+    path : path-like
+        The file to write.
+    text : str
+        Its content (UTF-8).
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+
+    Raises
+    ------
+    OSError
+        The folder cannot be written (no temporary file is left behind).
+    """
+    target = Path(path)
+    temporary = target.with_name(f".{target.name}.partial")
     try:
-        temporary.write_text(tomli_w.dumps(table), encoding="utf-8")
+        temporary.write_text(text, encoding="utf-8")
         os.replace(temporary, target)
     finally:
-        temporary.unlink(missing_ok=True)  # never leave a partial file behind
+        temporary.unlink(missing_ok=True)  # never a partial file, whatever failed
     return target

@@ -493,7 +493,7 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
         "FINDINGS (worst first)",
         result.findings.to_text(system=s.units) if len(result.findings) else "  no mode to check",
         "",
-        "VERDICT:" + verdict_line(result.verdict, result.findings).removeprefix("Verdict:"),
+        verdict_line(result.verdict, result.findings, heading="VERDICT"),
         "",
         "CAUTION",
         f"  {CAUTION}",

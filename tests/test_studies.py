@@ -20,7 +20,7 @@ from resonance.interference import FindingsTable
 from resonance.record import Record, record_head
 from resonance.studies import STUDY_KINDS, StudyOutcome, register_study_kind, run_scenario_file, study_kind_for
 from resonance.tables import RecordSpec, ScenarioError, TableReader, parse_head
-from resonance.ui.report import FIGURES, render_outcome_html
+from resonance.ui.report import VIEWS, render_outcome_html
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 
@@ -44,7 +44,9 @@ def test_every_demo_runs_through_the_registry(name, kind, verdict):
     assert outcome.record.data["scenario_sha256"] is not None
     page = render_outcome_html(outcome)
     assert f"Verdict: {verdict}" in page
-    assert page.count("plotly-graph-div") >= len(FIGURES.get(kind, lambda _: [])(outcome))  # torsion: none yet
+    assert page.count("plotly-graph-div") >= len(VIEWS.get(kind, lambda _: ([], []))(outcome)[1])  # torsion: none yet
+    if kind == "support":  # the check command's HTML record keeps the modes table
+        assert "<h2>Modes</h2>" in page
     if name == "fan_on_pedestal.toml":  # the field verification is part of the support kind's outcome
         assert outcome.field is not None
         assert next(heading for heading, _ in outcome.tables).startswith("Field verification")

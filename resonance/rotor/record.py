@@ -132,7 +132,7 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         f"  {result.peak_vibration * d_factor:.{digits}f} {d_unit} pk-pk at {result.peak_vibration_speed:.0f} rpm; "
         f"API limit {result.vibration_limit * d_factor:.{digits}f} {d_unit}",
         "",
-        "VERDICT:" + verdict_line(result.verdict, result.findings).removeprefix("Verdict:"),
+        verdict_line(result.verdict, result.findings, heading="VERDICT"),
         "",
         "CAUTION",
         f"  {CAUTION}",

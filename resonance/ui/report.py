@@ -11,15 +11,16 @@ from collections.abc import Callable
 from pathlib import Path
 
 from ..field.study import FieldStudyResult
-from ..record import CAUTION, Record, atomic_write
+from ..record import CAUTION, Record
 from ..rotor.study import RotorStudyResult
-from ..studies import StudyOutcome
+from ..studies import StudyOutcome, rotor_outcome, support_outcome
 from ..study import StudyResult
+from ..tables import atomic_write
 from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 
-__all__ = ["FIGURES", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
+__all__ = ["VIEWS", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
 
 _STYLE = """
 body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:0 16px;color:#222}
@@ -91,7 +92,7 @@ def _page(
 
 
 def render_html(result: StudyResult, record: Record, field: FieldStudyResult | None = None) -> str:
-    """The HTML record of a support study as text (figures with plotly.js inline), with its field verification.
+    """The HTML record of a support study (figures with plotly.js inline), with its field verification.
 
     Parameters
     ----------
@@ -112,32 +113,11 @@ def render_html(result: StudyResult, record: Record, field: FieldStudyResult | N
     Nothing
         Drawing only: the result is already validated.
     """
-    system = result.scenario.units
-    tables = [("Modes", modes_table_html(result, system))]
-    figures = [response_figure(result, system), interference_figure(result, system)]
-    summary = result.summary(system)
-    passed = result.passed
-    if field is not None:
-        summary += "\n\n" + field.summary()
-        passed = passed and field.passed
-        if field.findings is not None:
-            tables.append(
-                ("Field verification: measured modes against the rules", field.findings.to_html(system=system))
-            )
-        if field.tuned_study is not None:
-            tables.append(("Field verification: tuned model", field.tuned_study.findings.to_html(system=system)))
-        figures += [
-            bode_figure(field, result.scenario, field.spec.channel, system),
-            polar_figure(field, field.spec.channel, system),
-            impact_figure(field),
-        ]
-    return _page(
-        result.scenario.title, passed, summary, result.findings.to_html(system=system), tables, figures, record
-    )
+    return render_outcome_html(support_outcome(result, field, record))
 
 
 def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
-    """The HTML record of a rotor study as text.
+    """The HTML record of a rotor study.
 
     Parameters
     ----------
@@ -156,24 +136,10 @@ def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
     Nothing
         Drawing only: the result is already validated.
     """
-    system = result.scenario.units
-    return _page(
-        result.scenario.title,
-        result.passed,
-        result.summary(system),
-        result.findings.to_html(system=system),
-        [],
-        [
-            campbell_figure(result, system),
-            rotor_response_figure(result, system),
-            speed_map_figure(result, system),
-            mode_shape_figure(result),
-        ],
-        record,
-    )
+    return render_outcome_html(rotor_outcome(result, record))
 
 
-def _support_figures(outcome: StudyOutcome) -> list:
+def _support_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     result, field, system = outcome.result, outcome.field, outcome.units
     figures = [response_figure(result, system), interference_figure(result, system)]
     if field is not None:
@@ -182,25 +148,30 @@ def _support_figures(outcome: StudyOutcome) -> list:
             polar_figure(field, field.spec.channel, system),
             impact_figure(field),
         ]
-    return figures
+    return [("Modes", modes_table_html(result, system))], figures
 
 
-def _rotor_figures(outcome: StudyOutcome) -> list:
+def _rotor_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     result, system = outcome.result, outcome.units
-    return [
+    figures = [
         campbell_figure(result, system),
         rotor_response_figure(result, system),
         speed_map_figure(result, system),
         mode_shape_figure(result),
     ]
+    return [], figures
 
 
-#: The figures of each kind of study's HTML record (the presentation half of the study registry).
-FIGURES: dict[str, Callable[[StudyOutcome], list]] = {"support": _support_figures, "rotor": _rotor_figures}
+#: Each kind of study's own tables (HTML, with a heading) and figures in its record (the presentation half of
+#: the study registry); a kind without an entry shows its findings and record only.
+VIEWS: dict[str, Callable[[StudyOutcome], tuple[list[tuple[str, str]], list]]] = {
+    "support": _support_view,
+    "rotor": _rotor_view,
+}
 
 
 def render_outcome_html(outcome: StudyOutcome) -> str:
-    """The HTML record of any kind of study, from its outcome (figures from :data:`FIGURES`).
+    """The HTML record of any kind of study, from its outcome (its own tables and figures from :data:`VIEWS`).
 
     Parameters
     ----------
@@ -218,13 +189,15 @@ def render_outcome_html(outcome: StudyOutcome) -> str:
         Drawing only: the result is already validated.
     """
     system = outcome.units
+    tables, figures = VIEWS.get(outcome.kind, lambda _: ([], []))(outcome)
+    tables += [(heading, table.to_html(system=system)) for heading, table in outcome.tables]
     return _page(
         outcome.title,
         outcome.passed,
         outcome.summary,
         outcome.findings.to_html(system=system),
-        [(heading, table.to_html(system=system)) for heading, table in outcome.tables],
-        FIGURES.get(outcome.kind, lambda _: [])(outcome),
+        tables,
+        figures,
         outcome.record,
     )
 
