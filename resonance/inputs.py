@@ -53,6 +53,7 @@ PLAUSIBLE: dict[str, tuple[float, float]] = {
     "inertia": (1e-12, 1e12),
     "density": (1e-9, 1e6),
     "pressure": (1.0, 1e13),
+    "stress": (1e-3, 1e13),
     "moment_stiffness": (1e-6, 1e14),
     "force": (1e-12, 1e12),
 }

@@ -19,16 +19,19 @@ References
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
+import scipy.linalg
 
 from .errors import InputTypeError, InputValueError
 from .inputs import as_si, as_si_array
 from .model import MatrixModel, matrix_model
-from .modes import Mode, ModeSet, model_modes
+from .modes import Mode, ModeSet, model_modes, undamped_modes
+from .threads import blas_threads_for
 
 __all__ = [
     "Coupling",
@@ -39,6 +42,7 @@ __all__ = [
     "TorsionalTrain",
     "TorqueResponse",
     "hollow_shaft_stiffness",
+    "scale_couplings",
     "torque_response",
     "torsional_mode_list",
     "torsional_modes",
@@ -227,6 +231,8 @@ class TorsionalTrain:
         The reference shaft (that of the first station).
     springs : tuple of TorsionalShaft
         The shafts and couplings as given (for torques and stresses).
+    meshes : tuple of GearMesh
+        The gear meshes as given.
     """
 
     stations: tuple[Station, ...]
@@ -236,6 +242,7 @@ class TorsionalTrain:
     elements: tuple[tuple[str, str, str, float], ...]
     reference: str
     springs: tuple[TorsionalShaft, ...] = ()
+    meshes: tuple[GearMesh, ...] = ()
 
     def ratio(self, station: str) -> float:
         """The speed ratio of a station's shaft to the reference shaft [-].
@@ -378,7 +385,35 @@ def torsional_train(
         model = matrix_model(mass, stiffness, damping, labels)
     except InputValueError as error:
         raise InputValueError(f"train: {error}") from None
-    return TorsionalTrain(tuple(stations), ratio, dof, model, tuple(elements), reference, tuple(springs))
+    return TorsionalTrain(tuple(stations), ratio, dof, model, tuple(elements), reference, tuple(springs), tuple(meshes))
+
+
+def scale_couplings(train: TorsionalTrain, factor: object) -> TorsionalTrain:
+    """The same train with every coupling's stiffness multiplied by a factor (a what-if on the maker's data).
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        From :func:`torsional_train`.
+    factor : float
+        Multiplier of each :class:`Coupling`'s stiffness [-] (> 0); shafts and meshes unchanged.
+
+    Returns
+    -------
+    TorsionalTrain
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a train, or a factor that is not finite and > 0.
+    """
+    if not isinstance(train, TorsionalTrain):
+        raise InputTypeError(f"train: got {type(train).__name__}; expected a TorsionalTrain")
+    k = as_si(factor, "factor", "ratio", "positive")
+    springs = [
+        dataclasses.replace(s, stiffness=s.stiffness * k) if isinstance(s, Coupling) else s for s in train.springs
+    ]
+    return torsional_train(train.stations, springs, train.meshes)
 
 
 def _add(matrix: np.ndarray, i: int, j: int, value: float) -> None:
@@ -537,8 +572,10 @@ class TorqueResponse:
     station_angle: dict[str, np.ndarray]
 
 
-def torque_response(train: TorsionalTrain, torques: dict[str, object], frequency: object) -> TorqueResponse:
-    """Steady dynamic torques and stresses under harmonic torques at stations (one frequency at a time).
+def torque_response(
+    train: TorsionalTrain, torques: dict[str, object], frequency: object, damping_ratio: object | None = None
+) -> TorqueResponse:
+    """Steady dynamic torques and stresses under harmonic torques at stations, at many frequencies at once.
 
     Parameters
     ----------
@@ -548,7 +585,11 @@ def torque_response(train: TorsionalTrain, torques: dict[str, object], frequency
         Torque amplitude at each excited station, on its own shaft [N m] (a pulsating air-gap torque, a gear
         mesh torque), all in phase at one frequency.
     frequency : array_like or pint.Quantity
-        Excitation frequencies [Hz] (>= 0).
+        Excitation frequencies [Hz] (> 0: a free train has no steady response to a static torque).
+    damping_ratio : float, optional
+        A modal damping ratio for every mode [-], replacing the element dampers (as in
+        :func:`torsional_mode_list`); element torques are then the springs' torques. The element dampers if
+        omitted (their torque included).
 
     Returns
     -------
@@ -557,25 +598,30 @@ def torque_response(train: TorsionalTrain, torques: dict[str, object], frequency
     Raises
     ------
     InputValueError, InputTypeError
-        Not a train, an unknown station, a torque or frequency that is not finite.
+        Not a train, an unknown station, a torque or frequency that is not finite, a frequency <= 0, a damping
+        ratio that is not finite and >= 0.
 
     Notes
     -----
-    The referred equations ``(K - w^2 J + i w C) theta = T_ref`` are solved at each frequency; a torque on a
-    shaft turning ``n`` times the reference speed is referred as ``n T`` (virtual work) and an element's
-    referred torque is taken back to its own shaft as ``T_ref / n``. Fatigue design belongs to the governing
-    code and a qualified engineer: compare the stresses with an allowable you are given, not with a guess.
+    The referred equations ``(K - w^2 J + i w C) theta = T_ref`` are solved by modal superposition: the
+    undamped modes once, then each elastic mode's coordinate at every frequency (real modes for modal or
+    proportional damping, complex modes of the first-order form for element dampers; both exact). The free
+    rotation carries no twist, so it enters the station angles only. A torque on a shaft turning ``n``
+    times the reference speed is referred as ``n T`` (virtual work) and an element's referred torque is
+    taken back to its own shaft as ``T_ref / n``. Fatigue design belongs to the governing code and a
+    qualified engineer: compare the stresses with an allowable you are given, not with a guess.
 
     References
     ----------
-    Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 6.10 and 5.6; Roark's Formulas, table 10.1 (``Z_p``)
-    (from memory).
+    Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 6.10 and 5.6; Ewins, *Modal Testing*, 2nd ed., 2000,
+    sec. 2.3-2.6 (modal superposition); Roark's Formulas, table 10.1 (``Z_p``) (from memory).
     """
     if not isinstance(train, TorsionalTrain):
         raise InputTypeError(f"train: got {type(train).__name__}; expected a TorsionalTrain")
-    f = as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    f = as_si_array(frequency, "frequency", "frequency", "positive")
+    zeta = None if damping_ratio is None else as_si(damping_ratio, "damping_ratio", "ratio", "nonnegative")
     shaft_of = {s.name: s.shaft for s in train.stations}
-    load = np.zeros(train.model.size, dtype=complex)
+    load = np.zeros(train.model.size)
     for name, torque in torques.items():
         if name not in shaft_of:
             raise InputValueError(
@@ -583,22 +629,69 @@ def torque_response(train: TorsionalTrain, torques: dict[str, object], frequency
             )
         load[train.dof[name]] += as_si(torque, f"torques[{name!r}]", "torque") * train.speed_ratio[shaft_of[name]]
     w = 2.0 * math.pi * f
-    m, k, c = train.model.mass, train.model.stiffness, train.model.damping
-    dynamic = k[None, :, :] - (w**2)[:, None, None] * m[None, :, :] + 1j * w[:, None, None] * c[None, :, :]
-    theta = np.linalg.solve(dynamic, np.broadcast_to(load, (f.size, load.size))[:, :, None])[:, :, 0]
+    with blas_threads_for(2 * train.model.size):
+        parts = _modal_parts(train, zeta)
+        q = parts.coordinates(load, w)
+    theta = q @ parts.pe.T + (w[:, None] ** -2) * -(parts.p0 @ (parts.p0.T @ load))[None, :]
     angles = {s.name: np.abs(theta[:, train.dof[s.name]]) * train.speed_ratio[s.shaft] for s in train.stations}
+    # Every element's twist from the elastic coordinates (the free rotation does not twist).
+    incidence = np.zeros((len(train.elements), train.model.size))
+    for row, (_label, a, b, _kr) in enumerate(train.elements):
+        incidence[row, train.dof[a]] += 1.0
+        incidence[row, train.dof[b]] -= 1.0
+    twist = q @ (incidence @ parts.pe).T
+    dampers = {s.label: s.damping for s in train.springs}
     torque_out: dict[str, np.ndarray] = {}
     stress: dict[str, np.ndarray] = {}
-    for spring in train.springs:
-        a, b = spring.between
-        n = train.speed_ratio[shaft_of[a]]
-        twist = theta[:, train.dof[a]] - theta[:, train.dof[b]]
-        referred = (spring.stiffness + 1j * w * spring.damping) * n**2 * twist
-        torque_out[spring.label] = np.abs(referred) / n
-        if spring.section_modulus is not None:
-            stress[spring.label] = torque_out[spring.label] / spring.section_modulus
-    for label, a, b, kr in train.elements:
-        if label not in torque_out:  # compliant meshes: the torque on the pinion's shaft
-            n = train.speed_ratio[shaft_of[b]]
-            torque_out[label] = np.abs(kr * (theta[:, train.dof[a]] - theta[:, train.dof[b]])) / n
+    sections = {s.label: s.section_modulus for s in train.springs}
+    for row, (label, a, b, kr) in enumerate(train.elements):
+        # Springs on their own shaft; compliant meshes on the pinion's shaft.
+        n = train.speed_ratio[shaft_of[a] if label in dampers else shaft_of[b]]
+        c = dampers.get(label, 0.0) * n**2 if zeta is None else 0.0
+        torque_out[label] = np.abs((kr + 1j * w * c) * twist[:, row]) / n
+        z_p = sections.get(label)
+        if z_p is not None:
+            stress[label] = torque_out[label] / z_p
     return TorqueResponse(f, torque_out, stress, angles)
+
+
+def _modal_parts(train: TorsionalTrain, damping_ratio: float | None) -> _ModalParts:
+    # The undamped modes once; the free rotation (0 Hz) kept apart: it carries no twist and no damping, so the
+    # elastic modes alone give every element's torque, exactly, at every frequency (Ewins sec. 2.3-2.6).
+    wr, phi = undamped_modes(train.model)
+    rigid = wr <= 2.0 * math.pi * 1e-6
+    we, pe, p0 = wr[~rigid], phi[:, ~rigid], phi[:, rigid]
+    if damping_ratio is not None:
+        return _ModalParts(we, pe, p0, None, 2.0 * damping_ratio * we)
+    if we.size == 0:
+        return _ModalParts(we, pe, p0, None, np.zeros(0))
+    d = pe.T @ train.model.damping @ pe  # 2 zeta_r w_r on the diagonal when proportional
+    off = d - np.diag(np.diag(d))
+    if not np.any(np.abs(off) > 1e-9 * max(float(np.abs(d).max()), 1e-300)):
+        return _ModalParts(we, pe, p0, None, np.diag(d).copy())
+    # General (element) damping: complex modes of the balanced first-order form in elastic modal
+    # coordinates, state z = [W q; q'], A = [[0, W], [-W, -D]] (as in resonance.frf).
+    m = we.size
+    a = np.block([[np.zeros((m, m)), np.diag(we)], [-np.diag(we), -d]])
+    lam, vectors = scipy.linalg.eig(a)
+    return _ModalParts(we, pe, p0, (lam, vectors), None)
+
+
+@dataclass(frozen=True)
+class _ModalParts:
+    we: np.ndarray  # elastic natural frequencies [rad/s]
+    pe: np.ndarray  # their mass-normalized shapes (n x m)
+    p0: np.ndarray  # the free rotation's shape(s) (n x r)
+    state: tuple[np.ndarray, np.ndarray] | None  # complex modes of the first-order form (general damping)
+    cr: np.ndarray | None  # 2 zeta_r w_r (proportional or given modal damping)
+
+    def coordinates(self, load: np.ndarray, w: np.ndarray) -> np.ndarray:
+        # Elastic modal coordinates q (len(w) x m) under a load vector.
+        p = self.pe.T @ load
+        if self.cr is not None:
+            return p[None, :] / (self.we[None, :] ** 2 - w[:, None] ** 2 + 1j * w[:, None] * self.cr[None, :])
+        lam, vectors = self.state  # type: ignore[misc]
+        m = self.we.size
+        participation = scipy.linalg.solve(vectors, np.concatenate([np.zeros(m), p]))
+        rows = vectors[:m] / self.we[:, None]
+        return (participation[None, :] / (1j * w[:, None] - lam[None, :])) @ rows.T

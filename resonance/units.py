@@ -117,6 +117,7 @@ QuantityKind = Literal[
     "inertia",
     "density",
     "pressure",
+    "stress",
     "moment_stiffness",
     "torque",
     "time",
@@ -142,6 +143,7 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "inertia": ("kg*m**2", "kg*m**2", "lbm*in**2"),
     "density": ("kg/m**3", "kg/m**3", "lbm/in**3"),
     "pressure": ("Pa", "GPa", "psi"),
+    "stress": ("Pa", "MPa", "psi"),
     "moment_stiffness": ("N*m/rad", "kN*m/rad", "lbf*in/rad"),
     "torque": ("N*m", "N*m", "lbf*ft"),
     "time": ("s", "s", "s"),
@@ -197,9 +199,8 @@ def display_unit(kind: QuantityKind, system: UnitSystem = "SI") -> tuple[str, fl
     Parameters
     ----------
     kind : str
-        One of ``mass``, ``stiffness``, ``damping``, ``force``, ``frequency``,
-        ``speed``, ``displacement``, ``velocity``, ``acceleration``,
-        ``unbalance``, ``length``, ``receptance``.
+        Any :data:`QuantityKind` (``mass``, ``stiffness``, ``frequency``,
+        ``stress``, ``torque``...).
     system : {"SI", "US"}
         SI (metric) or US customary display.
 

@@ -13,6 +13,7 @@ import math
 
 import numpy as np
 import pytest
+import scipy.linalg
 import scipy.optimize
 from numpy.testing import assert_allclose
 
@@ -250,6 +251,41 @@ def test_torque_response_quasi_static_limit():
         torque_response(train, {"z": 1.0}, [1.0])
 
 
+def test_torque_response_with_modal_damping_against_a_direct_solve():
+    # A modal damping ratio on every mode is the damping matrix C = J Phi diag(2 zeta w_r) Phi^T J
+    # (mass-normalized Phi; Ewins, Modal Testing, 2nd ed., sec. 2.3); a direct complex solve with that matrix
+    # is the reference, and the element torque is then the spring's torque.
+    from resonance.torsion import torque_response
+
+    train = torsional_train(
+        [Station("a", 2.0), Station("b", 0.5), Station("c", 1.5)],
+        [Coupling(("a", "b"), 2e5, damping=80.0, label="ab"), TorsionalShaft(("b", "c"), 5e5, label="bc")],
+    )
+    zeta = 0.03
+    mass, k = train.model.mass, train.model.stiffness
+    lam, phi = scipy.linalg.eigh(k, mass)
+    wr = np.sqrt(np.clip(lam, 0.0, None))
+    c = mass @ phi @ np.diag(2 * zeta * wr) @ phi.T @ mass
+    f = np.linspace(5.0, 200.0, 57)
+    out = torque_response(train, {"b": 300.0}, f, damping_ratio=zeta)
+    for i, fi in enumerate(f):
+        w = 2 * math.pi * fi
+        theta = np.linalg.solve(k - w**2 * mass + 1j * w * c, np.array([0.0, 300.0, 0.0]))
+        assert_allclose(out.element_torque["ab"][i], abs(2e5 * (theta[0] - theta[1])), rtol=1e-8)
+        assert_allclose(out.element_torque["bc"][i], abs(5e5 * (theta[1] - theta[2])), rtol=1e-8)
+        assert_allclose(out.station_angle["c"][i], abs(theta[2]), rtol=1e-8)
+
+
+def test_torque_response_refuses_a_static_torque_and_bad_damping():
+    from resonance.torsion import torque_response
+
+    train = torsional_train([Station("a", 3.0), Station("b", 1.0)], [Coupling(("a", "b"), 1e6, label="c")])
+    with pytest.raises(R.InputValueError, match="frequency"):
+        torque_response(train, {"a": 1.0}, [0.0, 1.0])
+    with pytest.raises(R.InputValueError, match="damping_ratio"):
+        torque_response(train, {"a": 1.0}, [1.0], damping_ratio=-0.1)
+
+
 # --- the torsional flow: scenario, study, record, check ------------------------------------------------------
 
 
@@ -299,6 +335,43 @@ def test_demo_train_runs_through_check(tmp_path, capsys):
         ),
         (lambda t: t["torsion"].update(damping_ratio=1.5), r"torsion\.damping_ratio: got 1\.5"),
         (lambda t: t["torsion"]["meshes"][0].update(gear_teeth=0), r"torsion\.meshes\[0\]\.gear_teeth: got 0"),
+        (
+            lambda t: t["torsion"]["forcing"][0].update(excitation="3x"),
+            r"torsion\.forcing\[0\]\.excitation: got '3x'; expected the label of a checked excitation",
+        ),
+        (
+            lambda t: t["torsion"]["forcing"][0].update(station="rotor"),
+            r"torsion\.forcing\[0\]\.station: got 'rotor'",
+        ),
+        (
+            lambda t: t["torsion"]["forcing"][1].update(fraction_of_rated=0.1),
+            r"torsion\.forcing\[1\]: expected exactly one of torque or fraction_of_rated",
+        ),
+        (
+            lambda t: t["torsion"].pop("rated_torque"),
+            r"torsion\.forcing\[0\]\.fraction_of_rated: needs torsion\.rated_torque",
+        ),
+        (
+            lambda t: t["torsion"]["couplings"][0].update(allowable_stress="40 MPa"),
+            r"torsion\.couplings\[0\]\.allowable_stress: unknown field",
+        ),
+        (
+            lambda t: (
+                t["torsion"]["shafts"][0].update(outer_diameter=None) or t["torsion"]["shafts"][0].pop("outer_diameter")
+            ),
+            r"torsion\.shafts\[0\]\.stiffness: missing",
+        ),
+        (
+            lambda t: (
+                t["torsion"]["shafts"][1].update(stiffness="170 kN*m/rad")
+                or [t["torsion"]["shafts"][1].pop(k) for k in ("outer_diameter", "inner_diameter")]
+            ),
+            r"torsion\.shafts\[1\]\.allowable_stress: needs the section's outer_diameter",
+        ),
+        (
+            lambda t: t["torsion"]["couplings"][0].update(allowable_torque="-1 kN*m"),
+            r"torsion\.couplings\[0\]\.allowable_torque: got -1",
+        ),
     ],
 )
 def test_bad_trains_name_the_file_and_field(edit, message):
@@ -309,3 +382,96 @@ def test_bad_trains_name_the_file_and_field(edit, message):
     edit(tables)
     with pytest.raises(ScenarioError, match=rf"^train\.toml: {message}"):
         parse_torsion_scenario(tables, "train.toml")
+
+
+def _forced_train(allowable: str) -> dict:
+    # Two inertias and a coupling, a torque on the first following 1x (test data, not a machine).
+    return {
+        "scenario": {"title": "two-inertia forced"},
+        "speed": {"min": "900 rpm", "max": "1100 rpm"},
+        "margin": {"torsional": 10},
+        "torsion": {
+            "damping_ratio": 0.05,
+            "shaft_orders": [1],
+            "stations": [{"name": "a", "inertia": "3 kg*m**2"}, {"name": "b", "inertia": "1 kg*m**2"}],
+            "couplings": [
+                {"between": ["a", "b"], "stiffness": "8.2 kN*m/rad", "label": "c", "allowable_torque": allowable}
+            ],
+            "forcing": [{"station": "a", "excitation": "1x driver shaft", "torque": "100 N*m"}],
+        },
+    }
+
+
+def test_forced_torque_peak_against_the_two_inertia_closed_form():
+    # Two inertias J1, J2, coupling k, modal damping zeta, torque T on J1 at w: the coupling torque is
+    # T J2 w_n^2 / |w_n^2 - w^2 + 2 i zeta w_n w| (modal superposition of the one elastic mode; Rao, Mechanical
+    # Vibrations, 6th ed., sec. 6.10: w_n^2 = k (J1 + J2) / (J1 J2)); at 1x through 900-1100 rpm.
+    from resonance.torsion_study import parse_torsion_scenario, run_torsion_study
+
+    result = run_torsion_study(parse_torsion_scenario(_forced_train("1 kN*m"), "t.toml"))
+    sweep = result.torque
+    j1, j2, k, zeta = 3.0, 1.0, 8.2e3, 0.05
+    wn = math.sqrt(k * (j1 + j2) / (j1 * j2))
+    w = 2 * math.pi * sweep.speed / 60
+    expected = 100.0 * j2 / (j1 + j2) * wn**2 / np.abs(wn**2 - w**2 + 2j * zeta * wn * w)
+    assert_allclose(sweep.element_torque["c"][0], expected, rtol=1e-9)
+    # f_n = 16.64 Hz, 998 rpm at 1x: inside the range, so it is on the grid and the peak is near it.
+    row = sweep.rows[0]
+    assert row.speed == pytest.approx(60 * wn / (2 * math.pi) * math.sqrt(1 - 2 * zeta**2), rel=5e-3)
+    assert row.peak_torque == pytest.approx(expected.max(), rel=1e-12)
+    assert row.status == "within allowable"
+    assert result.verdict == "FAIL"  # the separation rule still fails: a coincidence inside the range
+
+
+def test_an_exceeded_allowable_fails_the_study_and_is_named():
+    from resonance.torsion_study import build_torsion_record, parse_torsion_scenario, run_torsion_study
+
+    result = run_torsion_study(parse_torsion_scenario(_forced_train("100 N*m"), "t.toml"))
+    assert result.torque.rows[0].status == "EXCEEDS ALLOWABLE"
+    assert not result.torque.passed
+    assert not result.passed
+    assert "an element EXCEEDS its allowable; largest: c" in result.summary()
+    record = build_torsion_record(result)
+    assert record.data["forced_response"]["elements"][0]["status"] == "EXCEEDS ALLOWABLE"
+    assert "FORCED TORQUE" in record.text
+    assert "EXCEEDS ALLOWABLE" in record.text
+
+
+def test_allowable_exceeded_fails_even_when_every_margin_passes():
+    # Separation passes (the mode sits far above 1x), yet a large torque exceeds the allowable: FAIL.
+    from resonance.torsion_study import parse_torsion_scenario, run_torsion_study
+
+    tables = _forced_train("50 N*m")
+    tables["torsion"]["couplings"][0]["stiffness"] = "3000 kN*m/rad"
+    tables["torsion"]["forcing"][0]["torque"] = "1000 N*m"
+    result = run_torsion_study(parse_torsion_scenario(tables, "t.toml"))
+    assert result.findings.passed
+    assert result.verdict == "FAIL"
+    # Quasi-static: the coupling passes J2 / (J1 + J2) of the torque = 250 N m (rigid-body dynamics).
+    assert result.torque.rows[0].peak_torque == pytest.approx(250.0, rel=0.01)
+
+
+def test_fraction_of_rated_torque_is_taken_to_the_stations_shaft():
+    # A fraction of the driver's rated torque at a station on a shaft n times faster is fraction * rated / n
+    # (the same power on every shaft; common practice).
+    from resonance.torsion_study import parse_torsion_scenario
+
+    tables = _train_tables()
+    tables["torsion"]["forcing"] = [
+        {"station": "compressor", "excitation": "1x high speed shaft", "fraction_of_rated": 0.02}
+    ]
+    scenario = parse_torsion_scenario(tables, "train.toml")
+    assert_allclose(scenario.forcing[0].torque, 0.02 * 7600.0 / 3.2, rtol=1e-12)
+
+
+def test_scaled_couplings_move_the_coupling_mode_by_the_square_root():
+    # A train whose first mode is almost all coupling: scaling the coupling stiffness by 2 raises it by about
+    # sqrt(2) (Rayleigh quotient; exact for the two-inertia train).
+    from resonance.torsion import scale_couplings
+
+    train = torsional_train([Station("a", 3.0), Station("b", 1.0)], [Coupling(("a", "b"), 1e5, label="c")])
+    f1 = torsional_modes(train).frequency[1]
+    f2 = torsional_modes(scale_couplings(train, 2.0)).frequency[1]
+    assert_allclose(f2 / f1, math.sqrt(2.0), rtol=1e-12)
+    with pytest.raises(R.InputValueError, match="factor"):
+        scale_couplings(train, 0.0)
