@@ -22,22 +22,26 @@ from _load import one_core_busy
 
 from resonance.rotor.scenario import load_rotor_scenario
 from resonance.scenario import load_scenario
-from resonance.ui import RotorPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
+from resonance.torsion_study import load_torsion_scenario
+from resonance.ui import RotorPanel, TorsionPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
-TARGET_MS = {"01": 50.0, "02": 50.0, "05": 80.0}  # single-mode, multi-mode and rotor panels
+TARGET_MS = {"01": 50.0, "02": 50.0, "05": 80.0, "07": 50.0}  # single-mode, multi-mode, rotor, torsion panels
 
 
 def _cases():
     pump = load_scenario(SCENARIOS / "cooling_water_pump.toml")
     foundation = load_scenario(SCENARIOS / "feed_pump_foundation.toml")
     fan = load_rotor_scenario(SCENARIOS / "fan_rotor.toml")
+    train = load_torsion_scenario(SCENARIOS / "compressor_train.toml")
     return [
         ("01 single mode", single_mode_panel(pump), "damping", (0.04, 0.05)),
         ("02 machine on support", multi_mode_panel(foundation), "damping", (0.03, 0.04)),
         ("03 what-if (with +/-30 % band)", WhatIfPanel(foundation), "stiffness", (1.0, 1.05)),
         ("05 rotor: speed range", RotorPanel(fan), "speed", ((900, 1800), (900, 2000))),
         ("05 rotor: bearing stiffness", RotorPanel(fan), "stiffness", (1.0, 1.05)),
+        ("07 torsion: coupling stiffness", TorsionPanel(train), "coupling", (1.0, 1.2)),
+        ("07 torsion: damping", TorsionPanel(train), "damping", (0.02, 0.03)),
     ]
 
 

@@ -21,7 +21,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -43,6 +43,7 @@ __all__ = [
     "TorqueResponse",
     "hollow_shaft_stiffness",
     "scale_couplings",
+    "scale_dampers",
     "torque_response",
     "torsional_mode_list",
     "torsional_modes",
@@ -407,13 +408,43 @@ def scale_couplings(train: TorsionalTrain, factor: object) -> TorsionalTrain:
     InputValueError, InputTypeError
         Not a train, or a factor that is not finite and > 0.
     """
+    k = _factor(train, factor)
+    return _rebuilt(
+        train, lambda s: dataclasses.replace(s, stiffness=s.stiffness * k) if isinstance(s, Coupling) else s
+    )
+
+
+def scale_dampers(train: TorsionalTrain, factor: object) -> TorsionalTrain:
+    """The same train with every shaft's and coupling's damper multiplied by a factor.
+
+    Parameters
+    ----------
+    train : TorsionalTrain
+        From :func:`torsional_train`.
+    factor : float
+        Multiplier of each element damper [-] (> 0).
+
+    Returns
+    -------
+    TorsionalTrain
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Not a train, or a factor that is not finite and > 0.
+    """
+    c = _factor(train, factor)
+    return _rebuilt(train, lambda s: dataclasses.replace(s, damping=s.damping * c))
+
+
+def _factor(train: object, factor: object) -> float:
     if not isinstance(train, TorsionalTrain):
         raise InputTypeError(f"train: got {type(train).__name__}; expected a TorsionalTrain")
-    k = as_si(factor, "factor", "ratio", "positive")
-    springs = [
-        dataclasses.replace(s, stiffness=s.stiffness * k) if isinstance(s, Coupling) else s for s in train.springs
-    ]
-    return torsional_train(train.stations, springs, train.meshes)
+    return as_si(factor, "factor", "ratio", "positive")
+
+
+def _rebuilt(train: TorsionalTrain, change: Callable[[TorsionalShaft], TorsionalShaft]) -> TorsionalTrain:
+    return torsional_train(train.stations, [change(s) for s in train.springs], train.meshes)
 
 
 def _add(matrix: np.ndarray, i: int, j: int, value: float) -> None:

@@ -50,10 +50,12 @@ LAYERS = {
         "ui.plots",
         "ui.rotor_plots",
         "ui.field_plots",
+        "ui.torsion_plots",
         "ui.widgets",
         "ui.panels",
         "ui.rotor_panel",
         "ui.field_panel",
+        "ui.torsion_panel",
         "ui.report",
     ),
 }

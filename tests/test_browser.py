@@ -127,6 +127,7 @@ EXPECTED_TEXT = {
     "04_calculation_record.ipynb": "VERDICT: FAIL",
     "05_rotor_critical_speeds.ipynb": "Forward critical speeds:",
     "06_field_verification.ipynb": "Field verdict:",
+    "07_torsional_train.ipynb": "Forced torque:",
 }
 
 

@@ -475,3 +475,82 @@ def test_scaled_couplings_move_the_coupling_mode_by_the_square_root():
     assert_allclose(f2 / f1, math.sqrt(2.0), rtol=1e-12)
     with pytest.raises(R.InputValueError, match="factor"):
         scale_couplings(train, 0.0)
+
+
+# --- the torsional panel and the HTML record ------------------------------------------------------------------
+
+
+def _demo():
+    from pathlib import Path
+
+    from resonance.torsion_study import load_torsion_scenario
+
+    return load_torsion_scenario(
+        Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
+    )
+
+
+def test_panel_coupling_slider_moves_the_coupling_mode_and_the_verdict():
+    from resonance.ui import TorsionPanel
+
+    panel = TorsionPanel(_demo())
+    assert "Caution." in panel.widget.children[0].value
+    assert panel.result.verdict == "FAIL"
+    f0 = panel.result.modes[0].frequency
+    panel.coupling.value = 0.8
+    # The coupling takes 97 % of the first mode's twist: its frequency moves by nearly sqrt(0.8) (Rayleigh).
+    assert panel.result.modes[0].frequency / f0 == pytest.approx(math.sqrt(0.8), rel=0.02)
+    assert panel.result.verdict == "PASS"
+    assert "Verdict: PASS" in panel.verdict.value
+    # The interference diagram's mode line and the torque traces follow in place.
+    line = next(t for t in panel.interference_fig.data if t.name == panel.result.modes[0].label)
+    assert line.y[0] == pytest.approx(panel.result.modes[0].frequency)
+    # A log frequency axis (15 Hz to 2 kHz on one diagram): order lines drawn through positive speeds only.
+    assert panel.interference_fig.layout.yaxis.type == "log"
+    order = next(t for t in panel.interference_fig.data if t.name == "1x driver shaft")
+    assert min(order.x) > 0
+    assert_allclose(order.y, np.asarray(order.x) / 60.0, rtol=1e-12)
+    coupling = next(t for t in panel.torque_fig.data if t.name == "flexible coupling")
+    assert max(coupling.y) == pytest.approx(panel.result.torque.rows[2].peak_torque)
+
+
+def test_panel_damping_slider_sets_the_modal_ratio_and_units_switch():
+    from resonance.ui import TorsionPanel
+
+    panel = TorsionPanel(_demo())
+    peak = panel.result.torque.rows[2].peak_torque
+    panel.damping.value = 0.1
+    assert panel.result.modes[0].amplification_factor == pytest.approx(1 / (2 * 0.1))  # AF = 1/(2 zeta)
+    assert panel.result.torque.rows[2].peak_torque < peak
+    panel.units.value = "US"
+    assert "cpm" in panel.summary()
+    assert "lbf*ft" in panel.torque_html.value
+
+
+def test_panel_with_element_dampers_scales_them():
+    from resonance.ui import TorsionPanel
+
+    scenario = _demo().replace(damping_ratio=None)
+    panel = TorsionPanel(scenario)
+    assert panel.damping.description == "element dampers x"
+    zeta = panel.result.modes[0].damping_ratio
+    panel.damping.value = 2.0
+    # The coupling's damper dominates the first mode's damping: doubling the dampers nearly doubles zeta.
+    assert panel.result.modes[0].damping_ratio / zeta == pytest.approx(2.0, rel=0.05)
+
+
+def test_html_record_of_a_train_has_its_tables_and_figures():
+    from pathlib import Path
+
+    from resonance.studies import run_scenario_file
+    from resonance.ui.report import render_outcome_html
+
+    outcome = run_scenario_file(
+        Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
+    )
+    page = render_outcome_html(outcome)
+    for heading in ("Torsional modes", "Forced torque", "Natural frequencies against excitations"):
+        assert heading in page
+    assert "Torsional mode shapes" in page
+    assert "Dynamic torque per element" in page
+    assert page.count("within allowable") >= 3

@@ -1,13 +1,13 @@
 """Presentation: plotly figures from results and ipywidgets panels.
 
-Nothing here computes physics: figures are drawn from :class:`StudyResult`
-and the what-if results, and panels edit a scenario and re-run
-:func:`resonance.study.run_study`.
+Nothing here computes physics: figures are drawn from the studies' results
+and panels edit a scenario and re-run its study.
 """
 
 from .field_panel import FieldPanel
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
+from .torsion_panel import TorsionPanel
 from .widgets import caution_banner
 
 __all__ = [
@@ -15,6 +15,7 @@ __all__ = [
     "FieldPanel",
     "RecordPanel",
     "RotorPanel",
+    "TorsionPanel",
     "WhatIfPanel",
     "caution_banner",
     "multi_mode_panel",

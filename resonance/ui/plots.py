@@ -11,17 +11,23 @@ from __future__ import annotations
 import html
 import math
 from collections.abc import Sequence
+from typing import Protocol
 
 import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
+from ..excitations import Excitation
+from ..interference import FindingsTable
 from ..margins import clear_band
+from ..modes import Mode
+from ..speed_range import OperatingRange
 from ..study import StudyResult
 from ..units import UnitSystem, display_unit
 from ..whatif import ToleranceResult
 
 __all__ = [
+    "CheckedStudy",
     "vertical_bands",
     "response_figure",
     "update_response_figure",
@@ -38,6 +44,40 @@ CLEAR_BAND = "rgba(230, 140, 20, 0.22)"
 TOLERANCE = "rgba(120, 120, 120, 0.18)"
 PASS = "#2a9d4b"
 FAIL = "#d62828"
+
+
+class _CheckedScenario(Protocol):
+    @property
+    def speed(self) -> OperatingRange: ...
+
+    @property
+    def excitations(self) -> Sequence[Excitation]: ...
+
+
+class CheckedStudy(Protocol):
+    """What the interference diagram and the findings table read from any kind of study's result.
+
+    Attributes
+    ----------
+    scenario : object
+        With ``speed`` (an OperatingRange) and ``excitations``.
+    modes : sequence of Mode
+        The modes checked.
+    findings : FindingsTable
+        Their findings.
+    """
+
+    @property
+    def scenario(self) -> _CheckedScenario:
+        """The scenario checked."""
+
+    @property
+    def modes(self) -> Sequence[Mode]:
+        """The modes checked."""
+
+    @property
+    def findings(self) -> FindingsTable:
+        """Their findings."""
 
 
 def vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
@@ -174,7 +214,11 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
 
 
 def interference_figure(
-    result: StudyResult, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None, widget: bool = False
+    result: CheckedStudy,
+    system: UnitSystem = "SI",
+    tolerance: ToleranceResult | None = None,
+    widget: bool = False,
+    log_frequency: bool = False,
 ) -> go.Figure:
     """Natural frequencies against speed with the excitation lines (an interference diagram).
 
@@ -186,14 +230,17 @@ def interference_figure(
 
     Parameters
     ----------
-    result : StudyResult
-        The support study to draw.
+    result : CheckedStudy
+        Any study's result with modes, excitations and findings (support, rotor, torsion).
     system : {"SI", "US"}
         Unit system of the axes and labels.
     tolerance : ToleranceResult, optional
         A what-if tolerance band, drawn as grey bands around each mode.
     widget : bool
         Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
+    log_frequency : bool
+        A logarithmic frequency axis (drive trains: a coupling mode at 15 Hz and a gear mesh at 2 kHz on one
+        diagram).
 
     Returns
     -------
@@ -206,6 +253,8 @@ def interference_figure(
         Drawing only: the result is already validated.
     """
     fig = go.Figure()
+    if log_frequency:
+        fig.update_layout(yaxis_type="log")
     for excitation in result.scenario.excitations:
         fig.add_trace(go.Scatter(name=excitation.label, mode="lines", line={"width": 1.5}))
     for mode in result.modes:
@@ -225,7 +274,7 @@ def interference_figure(
 
 
 def update_interference_figure(
-    fig: go.Figure, result: StudyResult, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None
+    fig: go.Figure, result: CheckedStudy, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None
 ) -> None:
     """Fill an :func:`interference_figure` from a result, in place.
 
@@ -233,8 +282,8 @@ def update_interference_figure(
     ----------
     fig : plotly.graph_objects.Figure
         A figure made by the matching builder; updated in place.
-    result : StudyResult
-        The support study to draw.
+    result : CheckedStudy
+        Any study's result with modes, excitations and findings (support, rotor, torsion).
     system : {"SI", "US"}
         Unit system of the axes and labels.
     tolerance : ToleranceResult, optional
@@ -296,9 +345,12 @@ def update_interference_figure(
                     "layer": "below",
                 }
             )
+    log = fig.layout.yaxis.type == "log"
+    # On a log axis an order line is a curve and 0 Hz is off the axis: draw it through many positive speeds.
+    x_line = np.linspace(x_max / 100.0, x_max, 100) if log else np.array([0.0, x_max])
     with fig.batch_update():
         for i, excitation in enumerate(result.scenario.excitations):
-            fig.data[i].update(x=[0.0, x_max], y=excitation.frequency_at([0.0, x_max]) * f_factor)
+            fig.data[i].update(x=x_line, y=excitation.frequency_at(x_line) * f_factor)
         offset = len(result.scenario.excitations)
         for i, mode in enumerate(result.modes):
             fig.data[offset + i].update(x=[0.0, x_max], y=[mode.frequency * f_factor] * 2)
@@ -311,7 +363,12 @@ def update_interference_figure(
             hovertemplate="%{text}<extra></extra>",
         )
         fig.layout.shapes = shapes
-        fig.layout.yaxis.range = [0.0, y_max]
+        positive = [f * f_factor for f in [*frequencies, *fixed] if f > 0.0]
+        if log:
+            y_min = 0.5 * min(positive) if positive else y_max / 1000.0
+            fig.layout.yaxis.range = [math.log10(y_min), math.log10(y_max)]
+        else:
+            fig.layout.yaxis.range = [0.0, y_max]
         fig.layout.xaxis.range = [0.0, x_max]
         fig.layout.yaxis.title.text = f"frequency [{f_unit}]"
         fig.layout.title.text = "Natural frequencies against excitations"
@@ -350,13 +407,13 @@ def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
     )
 
 
-def findings_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
+def findings_table_html(result: CheckedStudy, system: UnitSystem = "SI") -> str:
     """The findings table, worst first, as HTML.
 
     Parameters
     ----------
-    result : StudyResult
-        The support study to draw.
+    result : CheckedStudy
+        Any study's result with modes, excitations and findings (support, rotor, torsion).
     system : {"SI", "US"}
         Unit system of the axes and labels.
 

@@ -19,6 +19,7 @@ from ..tables import atomic_write
 from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
+from .torsion_plots import torque_figure, torque_table_html, torsion_modes_html, torsion_shape_figure
 
 __all__ = ["VIEWS", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
 
@@ -162,11 +163,22 @@ def _rotor_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     return [], figures
 
 
+def _torsion_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
+    result, system = outcome.result, outcome.units
+    tables = [("Torsional modes", torsion_modes_html(result, system))]
+    figures = [interference_figure(result, system, log_frequency=True), torsion_shape_figure(result)]
+    if result.torque is not None:
+        tables.append(("Forced torque", torque_table_html(result, system)))
+        figures.append(torque_figure(result, system))
+    return tables, figures
+
+
 #: Each kind of study's own tables (HTML, with a heading) and figures in its record (the presentation half of
 #: the study registry); a kind without an entry shows its findings and record only.
 VIEWS: dict[str, Callable[[StudyOutcome], tuple[list[tuple[str, str]], list]]] = {
     "support": _support_view,
     "rotor": _rotor_view,
+    "torsion": _torsion_view,
 }
 
 

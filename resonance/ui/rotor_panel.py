@@ -133,4 +133,4 @@ class RotorPanel(Panel):
 
     def _render_text(self) -> None:
         self.verdict.value = verdict_html(self.summary(), self.result.passed)
-        self.findings_html.value = findings_table_html(self.result, self.system)  # type: ignore[arg-type]
+        self.findings_html.value = findings_table_html(self.result, self.system)

@@ -1,0 +1,148 @@
+"""The torsional panel: speed range, coupling stiffness and damping; live interference, shapes and torques."""
+
+from __future__ import annotations
+
+import html
+
+import ipywidgets as w
+
+from ..torsion import scale_couplings, scale_dampers
+from ..torsion_study import TorsionScenario, TorsionStudyResult, run_torsion_study
+from .plots import findings_table_html, interference_figure, update_interference_figure
+from .torsion_plots import (
+    torque_figure,
+    torque_table_html,
+    torsion_modes_html,
+    torsion_shape_figure,
+    update_torque_figure,
+    update_torsion_shape_figure,
+)
+from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+
+__all__ = ["TorsionPanel"]
+
+_STYLE = {"description_width": "170px"}
+_LAYOUT = w.Layout(width="560px")
+
+
+class TorsionPanel(Panel):
+    """Live torsional check of a drive train.
+
+    Controls: the driver's operating speed range, a factor on every coupling's stiffness (the maker's data
+    carry a tolerance, and a change of coupling is the usual fix), the damping (the modal ratio when the
+    scenario gives one, else a factor on the element dampers) and the unit system. Views: verdict, interference
+    diagram, findings, modes, mode shapes, dynamic torque against speed and the torque table.
+
+    Parameters
+    ----------
+    scenario : TorsionScenario
+        The torsional scenario studied.
+    """
+
+    def __init__(self, scenario: TorsionScenario):
+        self.original = scenario
+        self.scenario = scenario
+        self.speed = speed_slider(scenario.speed)
+        self.coupling = w.FloatLogSlider(
+            value=1.0,
+            base=10,
+            min=-1.0,
+            max=1.0,
+            step=0.01,
+            readout_format=".2f",
+            description="coupling stiffness x",
+            continuous_update=False,
+            style=_STYLE,
+            layout=_LAYOUT,
+        )
+        if scenario.damping_ratio is not None:
+            self.damping: w.FloatSlider | w.FloatLogSlider = w.FloatSlider(
+                value=scenario.damping_ratio,
+                min=0.0,
+                max=0.2,
+                step=0.0025,
+                readout_format=".4f",
+                description="modal damping ratio",
+                continuous_update=False,
+                style=_STYLE,
+                layout=_LAYOUT,
+            )
+        else:
+            self.damping = w.FloatLogSlider(
+                value=1.0,
+                base=10,
+                min=-1.0,
+                max=1.0,
+                step=0.01,
+                readout_format=".2f",
+                description="element dampers x",
+                continuous_update=False,
+                style=_STYLE,
+                layout=_LAYOUT,
+            )
+        self.units = units_toggle(scenario.units, "170px")
+        self.verdict = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+        self.modes_html = w.HTML()
+        self.torque_html = w.HTML()
+        self.result: TorsionStudyResult = self.compute()
+        self.interference_fig = interference_figure(self.result, self.system, widget=True, log_frequency=True)
+        self.shape_fig = torsion_shape_figure(self.result, widget=True)
+        self.torque_fig = torque_figure(self.result, self.system, widget=True)
+        self._render_text()
+        for control in (self.speed, self.coupling, self.damping, self.units):
+            control.observe(self._changed, names="value")
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
+                self.speed,
+                self.coupling,
+                self.damping,
+                self.units,
+                self.verdict,
+                self.message,
+                self.interference_fig,
+                self.findings_html,
+                self.modes_html,
+                self.shape_fig,
+                self.torque_fig,
+                self.torque_html,
+            ]
+        )
+
+    def edited_scenario(self) -> TorsionScenario:
+        """The scenario with the panel's speed range, coupling stiffness, damping and unit system."""
+        train = scale_couplings(self.original.train, float(self.coupling.value))
+        zeta = self.original.damping_ratio
+        if zeta is None:
+            train = scale_dampers(train, float(self.damping.value))
+        else:
+            zeta = float(self.damping.value)
+        return self.original.replace(
+            speed=slider_range(self.speed, self.original.speed), train=train, damping_ratio=zeta, units=self.system
+        )
+
+    def compute(self) -> TorsionStudyResult:
+        """Re-run the torsional study for the controls (no drawing)."""
+        self.scenario = self.edited_scenario()
+        return run_torsion_study(self.scenario)
+
+    def update(self) -> None:
+        """Recompute and refresh every view in place."""
+        self.result = self.compute()
+        update_interference_figure(self.interference_fig, self.result, self.system)
+        update_torsion_shape_figure(self.shape_fig, self.result)
+        update_torque_figure(self.torque_fig, self.result, self.system)
+        self._render_text()
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return self.result.summary(self.system)
+
+    def _render_text(self) -> None:
+        self.verdict.value = verdict_html(self.summary(), self.result.passed)
+        self.findings_html.value = findings_table_html(self.result, self.system)
+        self.modes_html.value = torsion_modes_html(self.result, self.system)
+        self.torque_html.value = torque_table_html(self.result, self.system)
