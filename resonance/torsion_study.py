@@ -22,7 +22,20 @@ compressor_train.toml``)::
 Every station's, shaft's and mesh's 1x and 2x (``shaft_orders``), each gear mesh (teeth x the gear's shaft
 speed), the motor's electrical frequencies and any ``[[excitations]]`` are checked against every torsional
 mode by the torsional rule (10 % unless ``margin.torsional`` says otherwise; API 617 / RP 684, from memory).
-Errors name the file and the field.
+
+Where a margin cannot be met, harmonic torques and allowables give the forced response::
+
+    [torsion]
+    rated_torque = "7.6 kN*m"    # the driver's rated torque (for fraction_of_rated)
+    forcing = [
+      { label = "air-gap pulsation", station = "motor", excitation = "2 f_e (drive, 4 poles, slip 0.01)",
+        fraction_of_rated = 0.01 },                 # or torque = "76 N*m" (on the station's own shaft)
+    ]
+    couplings = [{ ..., allowable_torque = "1.9 kN*m" }]   # shafts: allowable_torque and/or allowable_stress
+
+``excitation`` is the label of a checked excitation: the torque has its frequency at every speed. Each
+element's largest dynamic torque (and shear stress) over the operating speeds is compared with its
+allowable; one over its allowable fails the study. Errors name the file and the field.
 """
 
 from __future__ import annotations

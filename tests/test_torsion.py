@@ -554,3 +554,56 @@ def test_html_record_of_a_train_has_its_tables_and_figures():
     assert "Torsional mode shapes" in page
     assert "Dynamic torque per element" in page
     assert page.count("within allowable") >= 3
+
+
+def test_a_train_written_in_us_units_gives_the_si_answers():
+    # WR^2 in lb ft^2 and stiffness in lbf in/rad against the SI demo (NIST SP 811: 1 lb ft^2 = 0.0421401 kg m^2,
+    # 1 lbf in = 0.1129848 N m).
+    from resonance.torsion_study import parse_torsion_scenario, run_torsion_study
+
+    tables = _train_tables()
+    us = _train_tables()
+    us["scenario"]["units"] = "US"
+    for station in us["torsion"]["stations"]:
+        value = float(station["inertia"].split()[0])
+        station["inertia"] = f"{value / 0.0421401!r} lb*ft**2"
+    coupling = us["torsion"]["couplings"][0]
+    coupling["stiffness"] = f"{40e3 / 0.1129848!r} lbf*in/rad"
+    coupling["allowable_torque"] = f"{1900 / 1.3558179!r} lbf*ft"
+    si_result = run_torsion_study(parse_torsion_scenario(tables, "si.toml"))
+    us_result = run_torsion_study(parse_torsion_scenario(us, "us.toml"))
+    assert_allclose([m.frequency for m in us_result.modes], [m.frequency for m in si_result.modes], rtol=1e-6)
+    assert us_result.verdict == si_result.verdict
+    assert_allclose(
+        [r.peak_torque for r in us_result.torque.rows], [r.peak_torque for r in si_result.torque.rows], rtol=1e-6
+    )
+    assert "lbf*ft" in us_result.summary("US")
+
+
+@pytest.mark.parametrize(
+    ("edit", "field"),
+    [
+        (lambda t: t.replace('inertia = "6.0 kg*m**2"', 'inertia = "0 kg*m**2"'), "torsion.stations[0].inertia"),
+        (lambda t: t.replace("ratio = 3.2", "ratio = 0"), "torsion.meshes[0].ratio"),
+        (lambda t: t.replace('shaft = "high speed" },\n]', 'shaft = "island" },\n]'), "torsion."),
+        (
+            lambda t: t.replace('between = ["hub", "bull gear"]', 'between = ["hub", "gone"]'),
+            "torsion.shafts/couplings",
+        ),
+    ],
+)
+def test_check_exits_2_on_a_bad_train_naming_file_and_field(tmp_path, capsys, edit, field):
+    from pathlib import Path
+
+    from resonance.cli import main
+
+    demo = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
+    text = demo.read_text()
+    bad = edit(text)
+    assert bad != text  # the edit applied
+    path = tmp_path / "bad_train.toml"
+    path.write_text(bad)
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "bad_train.toml" in err
+    assert field in err
