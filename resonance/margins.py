@@ -32,6 +32,7 @@ from .inputs import as_si, as_si_array
 from .speed_range import OperatingRange, operating_range
 
 __all__ = [
+    "range_margins",
     "RULE_NAMES",
     "ApiLateralRule",
     "FlatRule",
@@ -251,6 +252,48 @@ def amplification_factor(frequency: object, amplitude: object, near: object | No
     return half_power_points(frequency, amplitude, near).amplification_factor
 
 
+def range_margins(
+    critical_speed: np.ndarray, lows: np.ndarray, highs: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Separation margins of many critical speeds from many ranges at once (vectorized :func:`range_margin`).
+
+    Parameters
+    ----------
+    critical_speed : numpy.ndarray
+        Critical speeds [rpm] (> 0), any shape ``S``.
+    lows, highs : numpy.ndarray
+        The allowed intervals' edges [rpm], shape broadcastable to ``S + (k,)`` (``k`` intervals, ascending).
+
+    Returns
+    -------
+    margin : numpy.ndarray
+        Percent, shape ``S`` (as :func:`range_margin`).
+    location : numpy.ndarray of int
+        -1 below, 0 inside, 1 above the allowed speeds.
+    above : numpy.ndarray of bool
+        True where the side whose requirement applies is ``"above"``.
+
+    Raises
+    ------
+    Nothing
+        Plain arithmetic (NaN critical speeds give NaN margins).
+    """
+    c = np.asarray(critical_speed, dtype=float)[..., None]
+    below = 100.0 * (lows - c) / lows  # > 0 when the critical is below an interval
+    above = 100.0 * (c - highs) / highs  # > 0 when above
+    inside = (below <= 0.0) & (above <= 0.0)
+    candidate = np.where(inside, np.maximum(below, above), np.where(below > 0.0, below, above))
+    side_above = np.where(inside, -below > -above, ~(below > 0.0))
+    location = np.where(inside, 0, np.where(below > 0.0, -1, 1))
+    # The nearest interval (the first of equals, as a scan would keep it).
+    best = np.argmin(np.where(np.isnan(candidate), np.inf, candidate), axis=-1)[..., None]
+
+    def pick(a: np.ndarray) -> np.ndarray:
+        return np.take_along_axis(np.broadcast_to(a, candidate.shape), best, axis=-1)[..., 0]
+
+    return pick(candidate), pick(location), pick(side_above)
+
+
 def range_margin(critical_speed: float, speed_range: OperatingRange) -> tuple[float, Location, Side]:
     """Separation margin of a critical speed from a range with skip bands.
 
@@ -276,24 +319,13 @@ def range_margin(critical_speed: float, speed_range: OperatingRange) -> tuple[fl
 
     Raises
     ------
-    AssertionError
-        Never for an :class:`OperatingRange`, which always has an interval.
+    Nothing
+        An :class:`OperatingRange` always has an interval.
     """
-    best: tuple[float, Location, Side] | None = None
-    for low, high in speed_range.intervals:
-        below = 100.0 * (low - critical_speed) / low  # > 0 when the critical is below
-        above = 100.0 * (critical_speed - high) / high  # > 0 when above
-        if below <= 0.0 and above <= 0.0:
-            side: Side = "below" if -below <= -above else "above"
-            candidate = (max(below, above), "inside", side)
-        elif below > 0.0:
-            candidate = (below, "below", "below")
-        else:
-            candidate = (above, "above", "above")
-        if best is None or candidate[0] < best[0]:
-            best = candidate  # type: ignore[assignment]
-    assert best is not None  # an OperatingRange always has an interval
-    return best
+    lows, highs = np.array(speed_range.intervals, dtype=float).T
+    margin, location, above = range_margins(np.array(critical_speed, dtype=float), lows, highs)
+    where: Location = ("below", "inside", "above")[int(location) + 1]
+    return float(margin), where, "above" if bool(above) else "below"
 
 
 def separation_margin(critical_speed: object, speed_min: object, speed_max: object) -> float:

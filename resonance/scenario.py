@@ -245,6 +245,8 @@ class Scenario:
         Revision fields.
     sha256 : str or None
         SHA-256 of the file's bytes.
+    uncertainty : mapping or None
+        The ``[uncertainty]`` table, validated by :func:`resonance.uncertainty.uncertainty_spec`.
     """
 
     title: str
@@ -262,6 +264,7 @@ class Scenario:
     motor: MotorSpec | None = None
     record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
     sha256: str | None = dataclasses.field(default=None, compare=False)
+    uncertainty: Mapping[str, Any] | None = dataclasses.field(default=None, compare=False)
 
     def replace(self, **changes: Any) -> Scenario:
         """A copy with some fields changed (the original is untouched; the copy has no file hash)."""
@@ -394,6 +397,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
             "whatif",
             "field",
             "record",
+            "uncertainty",
         ),
         "",
     )
@@ -438,6 +442,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
             "missing; the modes of a machine on its support are kept a flat margin from every excitation: give "
             "the percentage (10 to 20 % is common practice, no single source), e.g. flat = 15",
         )
+    uncertainty = r.table(data, "uncertainty", "uncertainty", required=False)
     return Scenario(
         title=title,
         description=description,
@@ -453,6 +458,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
         field=dict(field_table) if field_table else None,
         motor=motor,
         record=parse_record(r, r.table(data, "record", "record", required=False)),
+        uncertainty=dict(uncertainty) if uncertainty else None,
     )
 
 

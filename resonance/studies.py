@@ -70,6 +70,8 @@ class StudyOutcome:
         The calculation record (JSON-ready data and text).
     field : object or None
         The field verification, where the kind has one.
+    uncertainty : object or None
+        The uncertainty study, where the scenario asks for one.
     """
 
     kind: str
@@ -82,6 +84,7 @@ class StudyOutcome:
     tables: tuple[tuple[str, FindingsTable], ...]
     record: Record
     field: Any = None
+    uncertainty: Any = None
 
     @property
     def verdict(self) -> str:
@@ -113,6 +116,9 @@ class SupportStudy:
     """A machine on its support: modes, interference, response, zones; field verification with ``[field]``."""
 
     name = "support"
+    #: Where an uncertainty study's chunks run and whether it shows progress (the check command sets them).
+    executor: Any = None
+    progress: bool = False
 
     def claims(self, tables: Mapping[str, Any]) -> bool:
         """Scenarios with a ``[model]`` table."""
@@ -122,7 +128,12 @@ class SupportStudy:
         """See :func:`resonance.scenario.parse_scenario`."""
         from .scenario import parse_scenario
 
-        return parse_scenario(tables, source)
+        scenario = parse_scenario(tables, source)
+        if scenario.uncertainty:
+            from .uncertainty import uncertainty_spec
+
+            uncertainty_spec(scenario.uncertainty, scenario, source)  # refused here, before any work
+        return scenario
 
     def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
         """The coast-down and impact files of the ``[field]`` table, if any."""
@@ -142,7 +153,13 @@ class SupportStudy:
             from .field.study import run_field_study
 
             field = run_field_study(scenario, base_dir)
-        return support_outcome(run_study(scenario), field)
+        uncertainty = None
+        if scenario.uncertainty:
+            from .uncertainty import run_uncertainty, uncertainty_spec
+
+            spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
+            uncertainty = run_uncertainty(scenario, spec, self.executor, self.progress)
+        return support_outcome(run_study(scenario), field, uncertainty=uncertainty)
 
 
 class RotorStudy:
@@ -208,7 +225,9 @@ class TorsionStudy:
         )
 
 
-def support_outcome(result: Any, field: Any = None, record: Record | None = None) -> StudyOutcome:
+def support_outcome(
+    result: Any, field: Any = None, record: Record | None = None, uncertainty: Any = None
+) -> StudyOutcome:
     """The outcome of a support study and, when given, its field verification.
 
     Parameters
@@ -219,6 +238,8 @@ def support_outcome(result: Any, field: Any = None, record: Record | None = None
         Its field verification; the verdict then needs both to pass.
     record : Record, optional
         The record, when already built (built from ``result`` and ``field`` otherwise).
+    uncertainty : UncertaintyResult, optional
+        Its uncertainty study (fails the verdict only above a given ``max_failure_probability``).
 
     Returns
     -------
@@ -230,7 +251,7 @@ def support_outcome(result: Any, field: Any = None, record: Record | None = None
         The results are already validated.
     """
     units = result.scenario.units
-    record = record if record is not None else build_record(result, field=field)
+    record = record if record is not None else build_record(result, field=field, uncertainty=uncertainty)
     summary = result.summary(units)
     tables: list[tuple[str, FindingsTable]] = []
     if field is not None:
@@ -242,9 +263,21 @@ def support_outcome(result: Any, field: Any = None, record: Record | None = None
             f"Verdict: {record.data['verdict']} (the design model and its field verification together)\n\n"
             f"Design model:\n{summary}\n\n{field.summary()}"
         )
-    passed = result.passed and (field is None or field.passed)
+    if uncertainty is not None:
+        summary += f"\n\nUncertainty:\n{uncertainty.summary()}"
+    passed = result.passed and (field is None or field.passed) and (uncertainty is None or uncertainty.passed)
     return StudyOutcome(
-        "support", result.scenario.title, units, result, passed, summary, result.findings, tuple(tables), record, field
+        "support",
+        result.scenario.title,
+        units,
+        result,
+        passed,
+        summary,
+        result.findings,
+        tuple(tables),
+        record,
+        field,
+        uncertainty,
     )
 
 

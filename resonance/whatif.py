@@ -21,8 +21,11 @@ from .model import MatrixModel
 from .modes import modal_properties
 from .scenario import Scenario
 from .study import study_modes
+from .variants import evaluate_variants
 
 __all__ = [
+    "FixMap",
+    "combined_fix_map",
     "Parameter",
     "scaled_model",
     "check_scaled",
@@ -280,3 +283,139 @@ def tolerance_check(
     f = np.asarray(frequencies)
     bands = tuple((float(lo), float(hi)) for lo, hi in zip(f.min(axis=0), f.max(axis=0), strict=True))
     return ToleranceResult(tol, scales, bands, tuple(tables))
+
+
+@dataclass(frozen=True)
+class FixMap:
+    """The worst margin over two combined changes: a stiffness factor and a mass factor.
+
+    Attributes
+    ----------
+    stiffness, mass : numpy.ndarray
+        Factors on ``whatif.vary_springs`` and ``whatif.vary_masses`` (logarithmic grids through 1).
+    worst_excess : numpy.ndarray
+        Smallest margin minus required [percent points], ``len(mass) x len(stiffness)``; >= 0 passes.
+    smallest : tuple of float or None
+        ``(stiffness factor, mass factor)`` of the smallest combined change that passes (the passing point
+        nearest to no change, distance measured in log-factors), refined along its direction; ``(1, 1)`` when
+        nothing needs to change; None when no point of the map passes.
+    """
+
+    stiffness: np.ndarray
+    mass: np.ndarray
+    worst_excess: np.ndarray
+    smallest: tuple[float, float] | None
+
+    @property
+    def passing(self) -> np.ndarray:
+        """True where every check passes, ``len(mass) x len(stiffness)``."""
+        return self.worst_excess >= 0.0
+
+    def describe(self, springs: tuple[str, ...], masses: tuple[str, ...]) -> str:
+        """One sentence for a reader.
+
+        Parameters
+        ----------
+        springs, masses : tuple of str
+            What the factors scale.
+
+        Returns
+        -------
+        str
+
+        Raises
+        ------
+        Nothing
+            Pure text.
+        """
+        if self.smallest is None:
+            return (
+                f"No combination of stiffness x{self.stiffness[0]:.2f}-x{self.stiffness[-1]:.2f} and mass "
+                f"x{self.mass[0]:.2f}-x{self.mass[-1]:.2f} passes every check."
+            )
+        ks, km = self.smallest
+        if ks == 1.0 and km == 1.0:
+            return "Every check passes without a change."
+        return (
+            f"Smallest combined fix: stiffness of {' and '.join(springs)} x{ks:.3f} with mass of "
+            f"{' and '.join(masses)} x{km:.3f}."
+        )
+
+
+def combined_fix_map(
+    scenario: Scenario,
+    stiffness_bounds: tuple[float, float] = (0.5, 2.0),
+    mass_bounds: tuple[float, float] = (0.5, 2.0),
+    points: int = 41,
+) -> FixMap:
+    """Map the worst margin over a stiffness factor and a mass factor and find the smallest combined fix.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The validated scenario (not modified).
+    stiffness_bounds, mass_bounds : tuple of float
+        Smallest and largest factor (``0 < low < 1 < high``).
+    points : int
+        Grid points per axis (odd, >= 5; the grids are logarithmic and pass through 1).
+
+    Returns
+    -------
+    FixMap
+
+    Raises
+    ------
+    InputValueError
+        Bounds that do not bracket 1, an even or too small number of points.
+
+    Notes
+    -----
+    Every grid point is one variant of one batched solve (:func:`resonance.variants.evaluate_variants`). The
+    nearest passing grid point fixes a direction in the plane of log-factors; the boundary along it is then
+    found by a scan and a bisection to 1e-4 in log-factor.
+    """
+    for name, (low, high) in (("stiffness_bounds", stiffness_bounds), ("mass_bounds", mass_bounds)):
+        if not (0.0 < low < 1.0 < high and math.isfinite(high)):
+            raise InputValueError(f"{name}: got {(low, high)!r}; expected 0 < low < 1 < high")
+    if not (isinstance(points, int) and points >= 5 and points % 2):
+        raise InputValueError(f"points: got {points!r}; expected an odd whole number >= 5")
+
+    def grid(bounds: tuple[float, float]) -> np.ndarray:
+        # Each half of the axis spaced evenly in log, 1 exactly in the middle.
+        half = points // 2
+        return np.concatenate(
+            [np.geomspace(bounds[0], 1.0, half + 1)[:-1], [1.0], np.geomspace(1.0, bounds[1], half + 1)[1:]]
+        )
+
+    ks, km = grid(stiffness_bounds), grid(mass_bounds)
+    kk, mm = np.meshgrid(ks, km)
+
+    def worst(k: np.ndarray, m: np.ndarray) -> np.ndarray:
+        found = evaluate_variants(
+            scenario,
+            k.size,
+            dict.fromkeys(scenario.whatif.vary_springs, k.ravel()),
+            dict.fromkeys(scenario.whatif.vary_masses, m.ravel()),
+        )
+        return found.worst_excess.reshape(k.shape)
+
+    excess = worst(kk, mm)
+    if not np.any(excess >= 0.0):
+        return FixMap(ks, km, excess, None)
+    if excess[points // 2, points // 2] >= 0.0:
+        return FixMap(ks, km, excess, (1.0, 1.0))
+    distance = np.where(excess >= 0.0, np.hypot(np.log(kk), np.log(mm)), np.inf)
+    i, j = np.unravel_index(np.argmin(distance), distance.shape)
+    direction = np.array([math.log(kk[i, j]), math.log(mm[i, j])])
+    # Along that direction: the first passing step of a scan, then bisection towards no change.
+    steps = np.linspace(0.0, 1.0, 65)[1:]
+    along = worst(np.exp(steps * direction[0]), np.exp(steps * direction[1]))
+    first = int(np.argmax(along >= 0.0))
+    good, bad = steps[first], (steps[first - 1] if first else 0.0)
+    while good - bad > 1e-4:
+        middle = 0.5 * (good + bad)
+        point = np.exp(middle * direction)
+        passes = worst(np.array([point[0]]), np.array([point[1]]))[0] >= 0.0
+        good, bad = (middle, bad) if passes else (good, middle)
+    best = np.exp(good * direction)
+    return FixMap(ks, km, excess, (float(best[0]), float(best[1])))

@@ -15,7 +15,7 @@ import pytest
 PACKAGE = Path(__file__).resolve().parent.parent / "resonance"
 
 LAYERS = {
-    1: ("errors", "units", "inputs", "_version", "threads"),
+    1: ("errors", "units", "inputs", "_version", "threads", "executors"),
     2: (
         "sdof",
         "harmonic",
@@ -25,6 +25,7 @@ LAYERS = {
         "modes",
         "frf",
         "torsion",
+        "batch",
         "rotor.elements",
         "rotor.model",
         "rotor.analysis",
@@ -37,6 +38,8 @@ LAYERS = {
         "study",
         "studies",
         "torsion_study",
+        "variants",
+        "uncertainty",
         "whatif",
         "record",
         "compare",
