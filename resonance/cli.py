@@ -10,6 +10,11 @@ study runs; records are built in full before anything is written, and written
 through a temporary file, so a failed run never leaves a partial record; the
 scenario and measurement files are only read.
 
+``python -m resonance check A.toml B.toml plant/ --summary out/ [--workers N | --scheduler ADDRESS]`` checks
+a fleet (see :mod:`resonance.fleet`): one summary, each machine's records, exit 0 all pass, 1 any fails, 2 any
+bad input (each bad file named; the rest still checked). ``--workers`` and ``--scheduler`` also spread an
+uncertainty study's work.
+
 ``python -m resonance compare OLD.json NEW.json`` lists the inputs and
 findings that changed between two JSON records and exits 0 when the verdict
 is the same, 1 when it changed, and 2 on bad input.
@@ -23,9 +28,10 @@ import os
 import sys
 from collections.abc import Sequence
 from pathlib import Path
+from typing import Any
 
 from .errors import InputTypeError, InputValueError
-from .studies import study_kind_for
+from .studies import SupportStudy, study_kind_for
 from .tables import atomic_write, read_scenario_bytes
 
 __all__ = ["main"]
@@ -36,10 +42,16 @@ EXIT_PASS, EXIT_FAIL, EXIT_BAD_INPUT = 0, 1, 2
 def _parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="python -m resonance", description="Resonance and separation-margin checks.")
     commands = parser.add_subparsers(dest="command", required=True)
-    check = commands.add_parser("check", help="run every check of a scenario file")
-    check.add_argument("scenario", type=Path, help="scenario file (TOML)")
-    check.add_argument("--html", type=Path, help="write the self-contained HTML record here")
-    check.add_argument("--json", type=Path, help="write the JSON record (inputs and findings) here")
+    check = commands.add_parser("check", help="run every check of a scenario file, or of a fleet of them")
+    check.add_argument("scenario", type=Path, nargs="+", help="scenario file (TOML); several, or folders, for a fleet")
+    check.add_argument("--html", type=Path, help="write the self-contained HTML record here (one scenario)")
+    check.add_argument("--json", type=Path, help="write the JSON record (inputs and findings) here (one scenario)")
+    check.add_argument(
+        "--summary", type=Path, help="fleet: write each machine's records and summary.txt/.csv/.html in this folder"
+    )
+    where = check.add_mutually_exclusive_group()
+    where.add_argument("--workers", type=int, help="local worker processes (0: one per core; default: this one)")
+    where.add_argument("--scheduler", help="a Dask scheduler address (tcp://host:8786): run there instead")
     compare = commands.add_parser("compare", help="compare two JSON records (inputs, findings, verdict)")
     compare.add_argument("old", type=Path, help="the earlier JSON record")
     compare.add_argument("new", type=Path, help="the later JSON record")
@@ -101,11 +113,22 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 
 
 def _check(args: argparse.Namespace) -> int:
-    tables, sha256 = read_scenario_bytes(args.scenario)
-    kind = study_kind_for(tables, args.scenario.name)
-    scenario = kind.parse(tables, args.scenario.name).replace(sha256=sha256)
-    base = args.scenario.parent
-    check_outputs({"html": args.html, "json": args.json}, [args.scenario, *kind.inputs(scenario, base)])
+    from .executors import executor_for
+
+    executor = executor_for(args.scheduler if args.scheduler else args.workers)
+    progress = sys.stderr.isatty()
+    paths: list[Path] = args.scenario
+    if len(paths) > 1 or paths[0].is_dir() or args.summary is not None:
+        return _fleet(args, executor, progress)
+    path = paths[0]
+    tables, sha256 = read_scenario_bytes(path)
+    kind = study_kind_for(tables, path.name)
+    if isinstance(kind, SupportStudy):  # its uncertainty study spreads its work (a copy: the registry stays as is)
+        kind = SupportStudy()
+        kind.executor, kind.progress = executor, progress
+    scenario = kind.parse(tables, path.name).replace(sha256=sha256)
+    base = path.parent
+    check_outputs({"html": args.html, "json": args.json}, [path, *kind.inputs(scenario, base)])
     outcome = kind.run(scenario, base)
     texts: list[tuple[Path, str]] = []
     if args.json is not None:
@@ -120,6 +143,23 @@ def _check(args: argparse.Namespace) -> int:
     for path, _ in texts:
         print(f"wrote {path}")
     return EXIT_PASS if outcome.passed else EXIT_FAIL
+
+
+def _fleet(args: argparse.Namespace, executor: Any, progress: bool) -> int:
+    from .fleet import BAD_INPUT, fleet_summary_text, run_fleet
+
+    if args.html is not None or args.json is not None:
+        raise InputValueError("--html/--json: a fleet writes one record per machine; give --summary FOLDER instead")
+    rows = run_fleet(args.scenario, args.summary, executor, progress)
+    print(fleet_summary_text(rows), end="")
+    if args.summary is not None:
+        print(f"wrote {args.summary / 'summary.html'}, summary.csv, summary.txt and each machine's records")
+    if any(r.verdict == BAD_INPUT for r in rows):
+        for r in rows:
+            if r.verdict == BAD_INPUT:
+                print(f"error: {r.worst}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    return EXIT_FAIL if any(r.verdict == "FAIL" for r in rows) else EXIT_PASS
 
 
 def _compare(args: argparse.Namespace) -> int:

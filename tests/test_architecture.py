@@ -48,7 +48,7 @@ LAYERS = {
         "rotor.record",
         "field.study",
     ),
-    7: ("cli", "__main__"),  # the commands sit on top: the HTML record comes from the presentation layer
+    7: ("cli", "__main__", "fleet"),  # the commands sit on top: the HTML record comes from the presentation layer
     6: (
         "ui.plots",
         "ui.rotor_plots",

@@ -7,8 +7,9 @@ from __future__ import annotations
 
 import html
 import os
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import Any
 
 from ..field.study import FieldStudyResult
 from ..record import CAUTION, Record
@@ -21,7 +22,7 @@ from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 from .torsion_plots import torque_figure, torque_table_html, torsion_modes_html, torsion_shape_figure
 
-__all__ = ["VIEWS", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
+__all__ = ["VIEWS", "render_fleet_html", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
 
 _STYLE = """
 body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:0 16px;color:#222}
@@ -237,3 +238,45 @@ def write_html(result: StudyResult, record: Record, path: str | os.PathLike[str]
         The file cannot be written (no partial file is left).
     """
     return atomic_write(path, render_html(result, record))
+
+
+def _link(record: str | None) -> str:
+    return "-" if not record else f'<a href="{html.escape(record)}">record</a>'
+
+
+def render_fleet_html(rows: Sequence[Any]) -> str:
+    """The fleet summary as one offline HTML page: machine, verdict, worst finding, margin, record link.
+
+    Parameters
+    ----------
+    rows : sequence of FleetRow
+        The machines (:func:`resonance.fleet.run_fleet`).
+
+    Returns
+    -------
+    str
+        HTML (no script: it opens anywhere).
+
+    Raises
+    ------
+    Nothing
+        Drawing only.
+    """
+    css = {"PASS": "pass", "PASS WITH EXEMPTION": "exempt", "FAIL": "fail", "BAD INPUT": "fail"}
+    body = "".join(
+        f"<tr class='{css.get(r.verdict, '')}'><td>{html.escape(r.title or Path(r.path).name)}</td>"
+        f"<td>{html.escape(r.verdict)}</td><td>{html.escape(r.worst)}</td>"
+        f"<td>{'-' if r.margin is None else f'{r.margin:.1f}'}</td>"
+        f"<td>{'-' if r.required is None else f'{r.required:.1f}'}</td>"
+        f"<td>{_link(r.record)}</td>"
+        f"<td>{html.escape(r.path)}</td></tr>"
+        for r in rows
+    )
+    failing = sum(r.verdict in ("FAIL", "BAD INPUT") for r in rows)
+    return (
+        f"<!DOCTYPE html><html><head><meta charset='utf-8'><title>Fleet summary</title><style>{_STYLE}</style>"
+        f"</head><body><h1>Fleet summary: {len(rows)} machines, {failing} failing or bad input</h1>"
+        f"<div class='caution'><b>Caution.</b> {html.escape(CAUTION)}</div>"
+        "<table><thead><tr><th>machine</th><th>verdict</th><th>worst finding (or error)</th><th>SM [%]</th>"
+        f"<th>required [%]</th><th>record</th><th>file</th></tr></thead><tbody>{body}</tbody></table></body></html>"
+    )
