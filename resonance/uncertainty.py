@@ -32,7 +32,7 @@ the answer is only as good as they are.
 from __future__ import annotations
 
 import math
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any, Literal
 
@@ -437,7 +437,11 @@ def sensitivity_indices(
 
 
 def run_uncertainty(
-    scenario: Scenario, spec: UncertaintySpec, executor: Executor | None = None, progress: bool = False
+    scenario: Scenario,
+    spec: UncertaintySpec,
+    executor: Executor | None = None,
+    progress: bool = False,
+    on_progress: Callable[[int, int], None] | None = None,
 ) -> UncertaintyResult:
     """Sample, check every variant and rank the inputs.
 
@@ -452,6 +456,8 @@ def run_uncertainty(
         does not depend on it.
     progress : bool
         Show a progress bar over the chunks (terminal or notebook).
+    on_progress : callable, optional
+        Called as ``on_progress(done, total)`` after each chunk (a panel's own progress bar).
 
     Returns
     -------
@@ -464,8 +470,16 @@ def run_uncertainty(
     """
     values = sample_inputs(spec)
     chunks = [(scenario, spec.inputs, values[i : i + CHUNK]) for i in range(0, values.shape[0], CHUNK)]
+    finished = [0]
     with progress_bar(len(chunks), "uncertainty", progress) as tick:
-        parts = (executor or SerialExecutor()).map(_chunk_findings, chunks, tick)
+
+        def done() -> None:
+            tick()
+            finished[0] += 1
+            if on_progress is not None:
+                on_progress(finished[0], len(chunks))
+
+        parts = (executor or SerialExecutor()).map(_chunk_findings, chunks, done)
     findings = VariantFindings(
         np.concatenate([p.margin for p in parts]),
         parts[0].required,

@@ -54,11 +54,13 @@ LAYERS = {
         "ui.rotor_plots",
         "ui.field_plots",
         "ui.torsion_plots",
+        "ui.uncertainty_plots",
         "ui.widgets",
         "ui.panels",
         "ui.rotor_panel",
         "ui.field_panel",
         "ui.torsion_panel",
+        "ui.uncertainty_panel",
         "ui.report",
     ),
 }

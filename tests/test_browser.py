@@ -128,6 +128,7 @@ EXPECTED_TEXT = {
     "05_rotor_critical_speeds.ipynb": "Forward critical speeds:",
     "06_field_verification.ipynb": "Field verdict:",
     "07_torsional_train.ipynb": "Forced torque:",
+    "08_uncertainty_and_fixes.ipynb": "Probability that a margin fails",
 }
 
 

@@ -220,3 +220,60 @@ def test_fix_map_axes_agree_with_the_one_parameter_solver(booster):
     best_single = min(abs(math.log(smallest_change(booster, p).scale)) for p in ("stiffness", "mass"))
     assert math.hypot(math.log(ks), math.log(km)) <= best_single + 1e-3
     assert check_scaled(booster, ks, km).passed
+
+
+def test_uncertainty_panel_follows_its_controls(booster):
+    from resonance.ui import UncertaintyPanel
+
+    panel = UncertaintyPanel(booster)
+    assert "Caution." in panel.widget.children[0].value
+    first = panel.result.probability_any
+    panel.seed.value = 7
+    assert panel.result.spec.seed == 7
+    assert panel.bar.value == panel.bar.max == 2  # 4096 samples in chunks of 2048
+    assert panel.result.probability_any == pytest.approx(first, abs=0.05)  # another sample, the same answer
+    assert panel.histogram.data[0].x.size == 4096
+    panel.span.value = 3.0
+    assert panel.fixes.stiffness[-1] == pytest.approx(3.0)
+    assert list(panel.map.data[0].x) == pytest.approx(list(panel.fixes.stiffness))
+    assert "Smallest combined fix" in panel.summary()
+
+
+def test_what_if_panel_maps_combined_fixes_and_moves_both_sliders(booster):
+    from resonance.ui import WhatIfPanel
+
+    panel = WhatIfPanel(booster)
+    assert not panel.result.passed
+    text = panel.map_fixes()
+    assert "Smallest combined fix" in text
+    assert (panel.stiffness.value, panel.mass.value) == pytest.approx(panel.fix_map.smallest, rel=1e-3)
+    assert panel.result.passed
+    assert len(panel.fix_box.children) == 1
+
+
+def test_check_reports_the_uncertainty_study_and_its_record(booster, tmp_path, capsys):
+    import json
+
+    from resonance.cli import main
+
+    out = tmp_path / "b.json"
+    assert main(["check", str(SCENARIOS / "feed_pump_foundation.toml"), "--json", str(out), "--workers", "2"]) == 1
+    text = capsys.readouterr().out
+    assert "UNCERTAINTY" in text
+    assert "Probability that a margin fails: 68.5 %" in text
+    data = json.loads(out.read_text())
+    assert data["uncertainty"]["samples"] == 4096
+    assert data["uncertainty"]["sensitivity"][0]["input"] == "spring:grout"
+
+
+def test_a_limit_on_the_failure_probability_fails_the_study(booster):
+    import copy
+
+    from resonance.studies import SupportStudy
+
+    table = copy.deepcopy(dict(booster.uncertainty))
+    table["max_failure_probability"] = 0.05
+    outcome = SupportStudy().run(booster.replace(uncertainty=table), SCENARIOS)
+    assert not outcome.uncertainty.passed
+    assert "EXCEEDS the allowed 5.0 %" in outcome.summary
+    assert outcome.record.data["verdict"] == "FAIL"

@@ -44,7 +44,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             'scenario = load_scenario("scenarios/cooling_water_pump.toml")\npanel = single_mode_panel(scenario)\npanel',
             widget=True,
         ),
-        new_markdown_cell("The verdict and findings for the scenario as loaded (the panel above follows its controls):"),
+        new_markdown_cell(
+            "The verdict and findings for the scenario as loaded (the panel above follows its controls):"
+        ),
         code("print(panel.summary())\nprint()\nprint(panel.result.findings.to_text())"),
         new_markdown_cell(
             "Try: raise the minimum speed to about 1450 rpm (the 2x order line then clears the mode by the "
@@ -216,6 +218,38 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
         new_markdown_cell(
             "The same study runs headless and writes its record (text, JSON and HTML with these figures): "
             "`python -m resonance check scenarios/compressor_train.toml --html train.html --json train.json`."
+        ),
+    ],
+    "08_uncertainty_and_fixes.ipynb": [
+        new_markdown_cell(
+            "# Uncertainty and combined fixes: how likely a margin fails, what drives it, which two changes fix it\n\n"
+            "The booster pump on its baseplate and block (notebook 02) with its least certain inputs given "
+            "distributions in the scenario's `[uncertainty]` table: the soil and grout stiffness, the mounting, "
+            "the machine and block masses and the damping, each as a factor on its nominal value. Thousands of "
+            "variants are checked by the scenario's rules in one batched solve. Change the **samples**, the "
+            "**sampler** and its **seed**: the probability that a margin fails, the distribution of the worst "
+            "margin, the probability of failure per finding and the inputs that drive it follow. The map below "
+            "shows the worst margin over two combined changes (the mounting stiffness and the machine mass) "
+            "with the passing region outlined and the smallest combined fix marked; move its **span**. The "
+            "distributions are judgements, not data: the probability is only as good as they are.\n\n"
+        ),
+        code("from resonance.scenario import load_scenario\nfrom resonance.ui import UncertaintyPanel"),
+        code(
+            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\n'
+            "panel = UncertaintyPanel(scenario)\npanel",
+            widget=True,
+        ),
+        new_markdown_cell("What the panel says for the scenario as loaded (seeded: the same numbers every run):"),
+        code(
+            "print(panel.summary())\nprint()\nfor mode, excitation, p in panel.result.rows():\n"
+            '    print(f"{100 * p:5.1f} %  {mode} x {excitation}")'
+        ),
+        new_markdown_cell(
+            "The same study runs in the `check` command with the scenario's record, and on several cores or a "
+            "Dask cluster: `python -m resonance check scenarios/feed_pump_foundation.toml --workers 2` or "
+            "`--scheduler tcp://host:8786`; in a notebook, pass `executor=DaskExecutor(client)` to "
+            "`resonance.uncertainty.run_uncertainty` with an open `dask.distributed.Client`. The result does not "
+            "depend on where it ran."
         ),
     ],
 }

@@ -8,6 +8,7 @@ from .field_panel import FieldPanel
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
 from .torsion_panel import TorsionPanel
+from .uncertainty_panel import UncertaintyPanel
 from .widgets import caution_banner
 
 __all__ = [
@@ -16,6 +17,7 @@ __all__ = [
     "RecordPanel",
     "RotorPanel",
     "TorsionPanel",
+    "UncertaintyPanel",
     "WhatIfPanel",
     "caution_banner",
     "multi_mode_panel",

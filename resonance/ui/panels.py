@@ -24,7 +24,7 @@ from ..scenario import Scenario, load_scenario, save_scenario
 from ..speed_range import operating_range
 from ..study import StudyResult, run_study
 from ..units import display_unit
-from ..whatif import ToleranceResult, scaled_model, smallest_change, tolerance_check
+from ..whatif import FixMap, ToleranceResult, combined_fix_map, scaled_model, smallest_change, tolerance_check
 from .plots import (
     findings_table_html,
     interference_figure,
@@ -34,6 +34,7 @@ from .plots import (
     update_response_figure,
 )
 from .report import write_html
+from .uncertainty_plots import fix_map_figure
 from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
 
 __all__ = ["DesignPanel", "single_mode_panel", "multi_mode_panel", "WhatIfPanel", "RecordPanel"]
@@ -301,6 +302,9 @@ class WhatIfPanel(Panel):
         self.units = units_toggle(scenario.units, "130px")
         self.find_stiffness = w.Button(description="Smallest stiffness fix")
         self.find_mass = w.Button(description="Smallest mass fix")
+        self.find_both = w.Button(description="Map combined fixes", layout=w.Layout(width="180px"))
+        self.fix_map: FixMap | None = None
+        self.fix_box = w.VBox([])
         self.values = w.HTML()
         self.verdict = w.HTML()
         self.tolerance_text = w.HTML()
@@ -315,6 +319,7 @@ class WhatIfPanel(Panel):
             control.observe(self._changed, names="value")
         self.find_stiffness.on_click(lambda _: self.solve("stiffness"))
         self.find_mass.on_click(lambda _: self.solve("mass"))
+        self.find_both.on_click(lambda _: self.map_fixes())
         self.widget = w.VBox(
             [
                 caution_banner(),
@@ -329,8 +334,9 @@ class WhatIfPanel(Panel):
                 self.units,
                 self.verdict,
                 self.tolerance_text,
-                w.HBox([self.find_stiffness, self.find_mass]),
+                w.HBox([self.find_stiffness, self.find_mass, self.find_both]),
                 self.fix_text,
+                self.fix_box,
                 self.message,
                 self.figure,
                 self.findings_html,
@@ -379,6 +385,32 @@ class WhatIfPanel(Panel):
         if change.scale is not None:
             slider = self.stiffness if parameter == "stiffness" else self.mass
             slider.value = change.scale
+        self.fix_text.value = html.escape(text)
+        return text
+
+    def map_fixes(self) -> str:
+        """Map the worst margin over stiffness x mass and move both sliders to the smallest combined fix.
+
+        The range, skip band and damping are the panel's.
+
+        Returns
+        -------
+        str
+            The smallest combined fix in words.
+
+        Raises
+        ------
+        InputValueError
+            Never for a validated scenario.
+        """
+        span = (10.0**self.stiffness.min, 10.0**self.stiffness.max)  # the sliders' own range
+        self.fix_map = combined_fix_map(self.edited_scenario(), span, span, 41)
+        figure = fix_map_figure(self.fix_map, widget=True)
+        self.fix_box.children = (figure,)
+        text = self.fix_map.describe(self.scenario.whatif.vary_springs, self.scenario.whatif.vary_masses)
+        if self.fix_map.smallest is not None:
+            with self.stiffness.hold_trait_notifications(), self.mass.hold_trait_notifications():
+                self.stiffness.value, self.mass.value = self.fix_map.smallest
         self.fix_text.value = html.escape(text)
         return text
 

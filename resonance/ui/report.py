@@ -21,6 +21,7 @@ from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 from .torsion_plots import torque_figure, torque_table_html, torsion_modes_html, torsion_shape_figure
+from .uncertainty_plots import failure_probability_figure, sensitivity_figure, worst_margin_figure
 
 __all__ = ["VIEWS", "render_fleet_html", "render_html", "render_outcome_html", "render_rotor_html", "write_html"]
 
@@ -150,6 +151,9 @@ def _support_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
             polar_figure(field, field.spec.channel, system),
             impact_figure(field),
         ]
+    if outcome.uncertainty is not None:
+        u = outcome.uncertainty
+        figures += [worst_margin_figure(u), failure_probability_figure(u), sensitivity_figure(u)]
     return [("Modes", modes_table_html(result, system))], figures
 
 
