@@ -31,7 +31,7 @@ from pathlib import Path
 from typing import Any
 
 from .errors import InputTypeError, InputValueError
-from .studies import SupportStudy, study_kind_for
+from .studies import RotorStudy, SupportStudy, study_kind_for
 from .tables import atomic_write, read_scenario_bytes
 
 __all__ = ["main"]
@@ -126,6 +126,9 @@ def _check(args: argparse.Namespace) -> int:
     if isinstance(kind, SupportStudy):  # its uncertainty study spreads its work (a copy: the registry stays as is)
         kind = SupportStudy()
         kind.executor, kind.progress = executor, progress
+    elif isinstance(kind, RotorStudy):
+        kind = RotorStudy()
+        kind.progress = progress
     scenario = kind.parse(tables, path.name).replace(sha256=sha256)
     base = path.parent
     check_outputs({"html": args.html, "json": args.json}, [path, *kind.inputs(scenario, base)])

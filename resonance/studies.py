@@ -166,6 +166,8 @@ class RotorStudy:
     """A rotor on its bearings: Campbell data, critical speeds, API margins, stability, shaft vibration."""
 
     name = "rotor"
+    #: Whether the Campbell sweep shows progress (the check command sets it on a terminal).
+    progress: bool = False
 
     def claims(self, tables: Mapping[str, Any]) -> bool:
         """Scenarios with a ``[rotor]`` table."""
@@ -185,7 +187,7 @@ class RotorStudy:
         """See :func:`resonance.rotor.study.run_rotor_study`."""
         from .rotor.study import run_rotor_study
 
-        return rotor_outcome(run_rotor_study(scenario))
+        return rotor_outcome(run_rotor_study(scenario, progress=self.progress))
 
 
 class TorsionStudy:

@@ -82,3 +82,14 @@ def test_the_same_rows_on_every_executor(plant, tmp_path):
 def test_a_missing_path_is_bad_input(tmp_path, capsys):
     assert main(["check", str(tmp_path / "nowhere.toml"), str(tmp_path / "also.toml")]) == 2
     assert "does not exist" in capsys.readouterr().err
+
+
+def test_long_work_shows_progress_bars(plant, capsys):
+    # tqdm writes its bar to stderr in a terminal (an ipywidgets bar in a notebook).
+    run_fleet([plant / "fan_rotor.toml"], progress=True)
+    assert "fleet: 100%" in capsys.readouterr().err
+    from resonance.rotor.scenario import load_rotor_scenario
+    from resonance.rotor.study import run_rotor_study
+
+    run_rotor_study(load_rotor_scenario(plant / "fan_rotor.toml"), progress=True)
+    assert "Campbell sweep: 100%" in capsys.readouterr().err

@@ -38,6 +38,7 @@ import scipy.optimize
 
 from ..damping import log_decrement
 from ..errors import InputTypeError, InputValueError
+from ..executors import progress_bar
 from ..inputs import as_si, as_si_array
 from ..modes import Mode
 from ..threads import blas_threads_for
@@ -371,7 +372,13 @@ class CampbellData:
         return [(float(self.speed[a]), int(b)) for a, b in zip(i, j, strict=True)]
 
 
-def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8, reduced: bool = True) -> CampbellData:
+def campbell(
+    rotor: Rotor,
+    speeds: Sequence[float] | np.ndarray,
+    count: int = 8,
+    reduced: bool = True,
+    progress: bool = False,
+) -> CampbellData:
     """Whirl frequencies and damping over a speed sweep (Campbell diagram data).
 
     Parameters
@@ -384,6 +391,8 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
         Number of branches to track (the lowest at the first speed).
     reduced : bool
         Use the Ritz basis (fast; the default) or the full model.
+    progress : bool
+        Show a progress bar over the speeds (a full-model sweep of a long rotor takes seconds).
 
     Returns
     -------
@@ -406,9 +415,13 @@ def campbell(rotor: Rotor, speeds: Sequence[float] | np.ndarray, count: int = 8,
     votes = np.zeros(count)
     basis = _ritz_basis(rotor, float(np.median(grid)), extra) if reduced else None
     # The sweep's eigenproblems have the order of the basis, not of the model.
-    with blas_threads_for(2 * (basis.vectors.shape[1] if basis is not None else rotor.size)):
+    with (
+        blas_threads_for(2 * (basis.vectors.shape[1] if basis is not None else rotor.size)),
+        progress_bar(grid.size, "Campbell sweep", progress) as tick,
+    ):
         previous = None
         for i, speed in enumerate(grid):
+            tick()
             lam, vec = _solve_modes(rotor, float(speed), extra, basis)
             modes = _modes_from(rotor, float(speed), lam, vec)
             if previous is None:

@@ -175,6 +175,7 @@ def run_rotor_study(
     damping_scale: float = 1.0,
     shape_speed: float | None = None,
     previous: RotorStudyResult | None = None,
+    progress: bool = False,
 ) -> RotorStudyResult:
     """Run every rotor check of a scenario (optionally with scaled bearing stiffness and damping).
 
@@ -191,6 +192,8 @@ def run_rotor_study(
         Campbell data, criticals and critical speed map when only the speed range, the rules or the
         units moved; the unbalance response when the unbalances are the same too). The result is the
         same as without it.
+    progress : bool
+        Show a progress bar over the Campbell sweep.
 
     Returns
     -------
@@ -215,7 +218,7 @@ def run_rotor_study(
         rotor, data, criticals = previous.rotor, previous.campbell, previous.criticals
     else:
         rotor = scenario.build(stiffness_scale, damping_scale)
-        data = campbell(rotor, np.linspace(0.0, scenario.sweep_max, CAMPBELL_POINTS), scenario.modes)
+        data = campbell(rotor, np.linspace(0.0, scenario.sweep_max, CAMPBELL_POINTS), scenario.modes, progress=progress)
         criticals = tuple(critical_speeds(rotor, data, [e.order for e in orders]))  # type: ignore[misc]
     speeds = np.linspace(scenario.sweep_max / RESPONSE_POINTS, scenario.sweep_max, RESPONSE_POINTS)
     unbalances = scenario.unbalances(rotor)
