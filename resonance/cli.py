@@ -128,7 +128,7 @@ def _check(args: argparse.Namespace) -> int:
         kind.executor, kind.progress = executor, progress
     elif isinstance(kind, RotorStudy):
         kind = RotorStudy()
-        kind.progress = progress
+        kind.executor, kind.progress = executor, progress
     scenario = kind.parse(tables, path.name).replace(sha256=sha256)
     base = path.parent
     check_outputs({"html": args.html, "json": args.json}, [path, *kind.inputs(scenario, base)])

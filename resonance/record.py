@@ -24,6 +24,7 @@ from .interference import FindingsTable, verdict_line
 from .scenario import RecordSpec, scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
 from .tables import atomic_write
+from .uncertainty import uncertainty_lines
 
 if TYPE_CHECKING:
     from .field.study import FieldStudyResult
@@ -334,30 +335,13 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
             if "field" in data
             else []
         ),
-        *(_uncertainty_lines(data["uncertainty"]) if "uncertainty" in data else []),
+        *(uncertainty_lines(data["uncertainty"]) if "uncertainty" in data else []),
         verdict_line(data["verdict"], result.findings, heading="VERDICT"),
         "",
         "CAUTION",
         f"  {CAUTION}",
     ]
     return "\n".join(lines)
-
-
-def _uncertainty_lines(u: dict[str, Any]) -> list[str]:
-    # The uncertainty study in the text record.
-    return [
-        "UNCERTAINTY (each input's factor on its nominal value)",
-        *(f"  {x['vary']}: {x['distribution']}" for x in u["inputs"]),
-        *(f"  {line}" for line in u["summary"].splitlines()),
-        *(
-            f"  P(fail) {100 * row['probability']:.1f} %: {row['mode']} x {row['excitation']}"
-            for row in u["failure_probability"][:8]
-        ),
-        f"  Method: {u['method']}.",
-        "  The distributions are judgements (soil and supports above all); the probability is only as good as they"
-        " are.",
-        "",
-    ]
 
 
 def build_record(
@@ -453,25 +437,7 @@ def build_record(
         if not field.passed:
             data["verdict"] = "FAIL"
     if uncertainty is not None:
-        spec = uncertainty.spec
-        data["uncertainty"] = {
-            "samples": int(uncertainty.values.shape[0]),
-            "sampling": spec.sampling,
-            "seed": spec.seed,
-            "inputs": [{"vary": x.vary, "distribution": x.words} for x in spec.inputs],
-            "probability_any_failure": uncertainty.probability_any,
-            "standard_error": uncertainty.standard_error,
-            "max_failure_probability": spec.max_failure_probability,
-            "failure_probability": [
-                {"mode": mode, "excitation": excitation, "probability": p} for mode, excitation, p in uncertainty.rows()
-            ],
-            "sensitivity": [{"input": n, "first_order": s1, "confidence": c} for n, s1, c in uncertainty.sensitivity],
-            "passed": uncertainty.passed,
-            "summary": uncertainty.summary(),
-            "method": ("Latin-hypercube" if spec.sampling == "lhs" else "scrambled Sobol'")
-            + " sampling (scipy.stats.qmc), every variant checked by the scenario's rules; first-order indices "
-            "by RBD-FAST (SALib; Tarantola et al. 2006, Plischke 2010)",
-        }
+        data["uncertainty"] = uncertainty.record_data()
         if not uncertainty.passed:
             data["verdict"] = "FAIL"
     return Record(data, _text(result, data))

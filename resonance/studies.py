@@ -166,7 +166,9 @@ class RotorStudy:
     """A rotor on its bearings: Campbell data, critical speeds, API margins, stability, shaft vibration."""
 
     name = "rotor"
-    #: Whether the Campbell sweep shows progress (the check command sets it on a terminal).
+    #: Where an uncertainty study's variants run and whether long work shows progress (the check command sets
+    #: them on a copy).
+    executor: Any = None
     progress: bool = False
 
     def claims(self, tables: Mapping[str, Any]) -> bool:
@@ -177,7 +179,12 @@ class RotorStudy:
         """See :func:`resonance.rotor.scenario.parse_rotor_scenario`."""
         from .rotor.scenario import parse_rotor_scenario
 
-        return parse_rotor_scenario(tables, source)
+        scenario = parse_rotor_scenario(tables, source)
+        if scenario.uncertainty:
+            from .uncertainty import uncertainty_spec
+
+            uncertainty_spec(scenario.uncertainty, scenario, source)  # refused here, before any work
+        return scenario
 
     def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
         """None: a rotor study reads no measurement file."""
@@ -187,7 +194,13 @@ class RotorStudy:
         """See :func:`resonance.rotor.study.run_rotor_study`."""
         from .rotor.study import run_rotor_study
 
-        return rotor_outcome(run_rotor_study(scenario, progress=self.progress))
+        uncertainty = None
+        if scenario.uncertainty:
+            from .uncertainty import run_uncertainty, uncertainty_spec
+
+            spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
+            uncertainty = run_uncertainty(scenario, spec, self.executor, self.progress)
+        return rotor_outcome(run_rotor_study(scenario, progress=self.progress), uncertainty=uncertainty)
 
 
 class TorsionStudy:
@@ -283,7 +296,7 @@ def support_outcome(
     )
 
 
-def rotor_outcome(result: Any, record: Record | None = None) -> StudyOutcome:
+def rotor_outcome(result: Any, record: Record | None = None, uncertainty: Any = None) -> StudyOutcome:
     """The outcome of a rotor study.
 
     Parameters
@@ -292,6 +305,8 @@ def rotor_outcome(result: Any, record: Record | None = None) -> StudyOutcome:
         The rotor study.
     record : Record, optional
         The record, when already built.
+    uncertainty : UncertaintyResult, optional
+        Its uncertainty study (fails the verdict only above a given ``max_failure_probability``).
 
     Returns
     -------
@@ -305,10 +320,15 @@ def rotor_outcome(result: Any, record: Record | None = None) -> StudyOutcome:
     from .rotor.record import build_rotor_record
 
     units = result.scenario.units
-    record = record if record is not None else build_rotor_record(result)
+    record = record if record is not None else build_rotor_record(result, uncertainty=uncertainty)
     summary = result.summary(units)
+    if uncertainty is not None:
+        summary += f"\n\nUncertainty:\n{uncertainty.summary()}"
+    passed = result.passed and (uncertainty is None or uncertainty.passed)
     title = result.scenario.title
-    return StudyOutcome("rotor", title, units, result, result.passed, summary, result.findings, (), record)
+    return StudyOutcome(
+        "rotor", title, units, result, passed, summary, result.findings, (), record, uncertainty=uncertainty
+    )
 
 
 #: The registry of kinds, asked in order; the first that claims a scenario runs it.

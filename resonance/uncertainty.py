@@ -16,7 +16,11 @@ nominal value (every value is a factor, so ``1.0`` is the scenario as written)::
       { vary = "speed_max", distribution = "uniform", low = 1.0, high = 1.05 },
     ]
 
-``vary`` is ``spring:<label>``, ``mass:<name>``, ``damping_ratio``, ``speed_min`` or ``speed_max``. A normal or
+``vary`` is ``spring:<label>``, ``mass:<name>``, ``damping_ratio``, ``speed_min`` or ``speed_max`` in a support
+scenario; ``bearing:<label>:stiffness``, ``bearing:<label>:damping`` (every coefficient of that bearing, every
+table value), ``speed_min`` or ``speed_max`` in a rotor scenario. A support scenario's variants are solved in
+one batch; a rotor scenario's each run the whole rotor study (about 0.2 s for the demo fan), so take a few
+hundred samples, or spread them over processes or a Dask cluster. A normal or
 lognormal input may carry ``bounds = [low, high]`` (truncation; a normal factor is always kept above 0).
 Every variant is checked by the scenario's rules (:mod:`resonance.variants`, one batched solve); the
 results are the probability that each finding fails, the distribution of the worst margin, and a
@@ -31,6 +35,7 @@ the answer is only as good as they are.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
@@ -42,7 +47,10 @@ from scipy.stats import qmc
 
 from .errors import InputValueError
 from .executors import Executor, SerialExecutor, progress_bar
+from .rotor.scenario import RotorScenario, scale_bearing
+from .rotor.study import run_rotor_study
 from .scenario import Scenario
+from .speed_range import operating_range
 from .tables import TableReader
 from .variants import VariantFindings, evaluate_variants
 
@@ -55,6 +63,7 @@ __all__ = [
     "run_uncertainty",
     "sample_inputs",
     "sensitivity_indices",
+    "uncertainty_lines",
     "uncertainty_spec",
 ]
 
@@ -158,15 +167,30 @@ class UncertaintySpec:
     max_failure_probability: float | None = None
 
 
-def uncertainty_spec(table: Mapping[str, Any], scenario: Scenario, source: str = "<scenario>") -> UncertaintySpec:
+def _targets(scenario: Scenario | RotorScenario) -> list[str]:
+    if isinstance(scenario, RotorScenario):
+        labels = [b.label for b in scenario.bearings]
+        return [*(f"bearing:{b}:{c}" for b in labels for c in ("stiffness", "damping")), "speed_min", "speed_max"]
+    return [
+        *(f"spring:{s.label}" for s in scenario.model.springs),
+        *(f"mass:{m}" for m in scenario.model.labels),
+        "damping_ratio",
+        "speed_min",
+        "speed_max",
+    ]
+
+
+def uncertainty_spec(
+    table: Mapping[str, Any], scenario: Scenario | RotorScenario, source: str = "<scenario>"
+) -> UncertaintySpec:
     """Validate an ``[uncertainty]`` table against its scenario.
 
     Parameters
     ----------
     table : mapping
         The table as read from TOML.
-    scenario : Scenario
-        The scenario whose springs and masses it names.
+    scenario : Scenario or RotorScenario
+        The scenario whose springs and masses (or bearings) it names.
     source : str
         The file name errors start with.
 
@@ -197,14 +221,7 @@ def uncertainty_spec(table: Mapping[str, Any], scenario: Scenario, source: str =
         limit = r.value(table["max_failure_probability"], "uncertainty.max_failure_probability", "ratio", "nonnegative")
         if not limit < 1.0:
             raise r.fail("uncertainty.max_failure_probability", f"got {limit:g}; expected a probability below 1")
-    springs = [s.label for s in scenario.model.springs]
-    targets = [
-        *(f"spring:{s}" for s in springs),
-        *(f"mass:{m}" for m in scenario.model.labels),
-        "damping_ratio",
-        "speed_min",
-        "speed_max",
-    ]
+    targets = _targets(scenario)
     inputs = []
     for i, item in enumerate(r.array(table, "inputs", "uncertainty.inputs")):
         field = f"uncertainty.inputs[{i}]"
@@ -269,12 +286,14 @@ def sample_inputs(spec: UncertaintySpec) -> np.ndarray:
     return np.column_stack([x.ppf(u[:, j]) for j, x in enumerate(spec.inputs)])
 
 
-def evaluate_chunk(scenario: Scenario, inputs: Sequence[UncertainInput], values: np.ndarray) -> VariantFindings:
+def evaluate_chunk(
+    scenario: Scenario | RotorScenario, inputs: Sequence[UncertainInput], values: np.ndarray
+) -> VariantFindings:
     """The findings of a block of variants (one row of factors per variant).
 
     Parameters
     ----------
-    scenario : Scenario
+    scenario : Scenario or RotorScenario
         The nominal scenario.
     inputs : sequence of UncertainInput
         What each column varies.
@@ -290,6 +309,8 @@ def evaluate_chunk(scenario: Scenario, inputs: Sequence[UncertainInput], values:
     InputValueError
         Factors that make an invalid variant (see :func:`resonance.variants.evaluate_variants`).
     """
+    if isinstance(scenario, RotorScenario):
+        return _rotor_chunk(scenario, inputs, values)
     stiffness: dict[str, np.ndarray] = {}
     mass: dict[str, np.ndarray] = {}
     other: dict[str, np.ndarray] = {}
@@ -351,6 +372,38 @@ class UncertaintyResult:
         p, n = self.probability_any, self.values.shape[0]
         return math.sqrt(max(p * (1.0 - p), 1.0 / n) / n)
 
+    def record_data(self) -> dict[str, Any]:
+        """The study for a JSON record (SI; probabilities as fractions).
+
+        Returns
+        -------
+        dict
+
+        Raises
+        ------
+        Nothing
+            Plain values.
+        """
+        spec = self.spec
+        return {
+            "samples": int(self.values.shape[0]),
+            "sampling": spec.sampling,
+            "seed": spec.seed,
+            "inputs": [{"vary": x.vary, "distribution": x.words} for x in spec.inputs],
+            "probability_any_failure": self.probability_any,
+            "standard_error": self.standard_error,
+            "max_failure_probability": spec.max_failure_probability,
+            "failure_probability": [
+                {"mode": mode, "excitation": excitation, "probability": p} for mode, excitation, p in self.rows()
+            ],
+            "sensitivity": [{"input": n, "first_order": s1, "confidence": c} for n, s1, c in self.sensitivity],
+            "passed": self.passed,
+            "summary": self.summary(),
+            "method": ("Latin-hypercube" if spec.sampling == "lhs" else "scrambled Sobol'")
+            + " sampling (scipy.stats.qmc), every variant checked by the scenario's rules; first-order indices "
+            "by RBD-FAST (SALib; Tarantola et al. 2006, Plischke 2010)",
+        }
+
     def rows(self) -> list[tuple[str, str, float]]:
         """Each finding with a non-zero probability of failing: mode, excitation, probability; largest first."""
         p = self.failure_probability
@@ -388,6 +441,39 @@ class UncertaintyResult:
             f"Worst margin minus required [percent points]: 5 % {q05:.1f}, median {q50:.1f}, 95 % {q95:.1f}\n"
             f"Drivers of the worst margin (first-order index): {drivers}"
         )
+
+
+def uncertainty_lines(data: Mapping[str, Any]) -> list[str]:
+    """The uncertainty study in a text record, from :meth:`UncertaintyResult.record_data`.
+
+    Parameters
+    ----------
+    data : mapping
+        The record data of the study.
+
+    Returns
+    -------
+    list of str
+        Lines, ending with a blank one.
+
+    Raises
+    ------
+    KeyError
+        Data not made by :meth:`UncertaintyResult.record_data`.
+    """
+    return [
+        "UNCERTAINTY (each input's factor on its nominal value)",
+        *(f"  {x['vary']}: {x['distribution']}" for x in data["inputs"]),
+        *(f"  {line}" for line in data["summary"].splitlines()),
+        *(
+            f"  P(fail) {100 * row['probability']:.1f} %: {row['mode']} x {row['excitation']}"
+            for row in data["failure_probability"][:8]
+        ),
+        f"  Method: {data['method']}.",
+        "  The distributions are judgements (soil and supports above all); the probability is only as good as they"
+        " are.",
+        "",
+    ]
 
 
 def sensitivity_indices(
@@ -437,7 +523,7 @@ def sensitivity_indices(
 
 
 def run_uncertainty(
-    scenario: Scenario,
+    scenario: Scenario | RotorScenario,
     spec: UncertaintySpec,
     executor: Executor | None = None,
     progress: bool = False,
@@ -447,8 +533,8 @@ def run_uncertainty(
 
     Parameters
     ----------
-    scenario : Scenario
-        The nominal support scenario.
+    scenario : Scenario or RotorScenario
+        The nominal scenario.
     spec : UncertaintySpec
         From :func:`uncertainty_spec` (or built in code).
     executor : Executor, optional
@@ -480,13 +566,26 @@ def run_uncertainty(
                 on_progress(finished[0], len(chunks))
 
         parts = (executor or SerialExecutor()).map(_chunk_findings, chunks, done)
+    depth = max(p.margin.shape[1] for p in parts)
+
+    def padded(a: np.ndarray) -> np.ndarray:
+        # Rotor chunks may find different numbers of criticals: pad with NaN (no finding).
+        if a.ndim < 2 or a.shape[1] == depth:
+            return a
+        pad = [(0, 0), (0, depth - a.shape[1])] + [(0, 0)] * (a.ndim - 2)
+        return np.pad(a, pad, constant_values=np.nan)
+
     findings = VariantFindings(
-        np.concatenate([p.margin for p in parts]),
-        parts[0].required,
+        np.concatenate([padded(p.margin) for p in parts]),
+        np.concatenate([padded(p.required) for p in parts]) if parts[0].required.ndim == 3 else parts[0].required,
         parts[0].mode_labels,
         parts[0].excitation_labels,
-        np.concatenate([p.frequency for p in parts]),
+        np.concatenate([padded(p.frequency) for p in parts]),
     )
+    if depth > len(parts[0].mode_labels):
+        findings = dataclasses.replace(
+            findings, mode_labels=tuple(f"critical {i + 1} (by speed)" for i in range(depth))
+        )
     return UncertaintyResult(
         spec,
         values,
@@ -495,6 +594,46 @@ def run_uncertainty(
     )
 
 
-def _chunk_findings(item: tuple[Scenario, Sequence[UncertainInput], np.ndarray]) -> VariantFindings:
+def _rotor_variant(scenario: RotorScenario, inputs: Sequence[UncertainInput], row: np.ndarray) -> RotorScenario:
+    # One rotor variant: each bearing's coefficients and the speed limits scaled by the row's factors.
+    factor = {x.vary: float(v) for x, v in zip(inputs, row, strict=True)}
+    bearings = tuple(
+        scale_bearing(b, factor.get(f"bearing:{b.label}:stiffness", 1.0), factor.get(f"bearing:{b.label}:damping", 1.0))
+        for b in scenario.bearings
+    )
+    speed = scenario.speed
+    low = speed.speed_min * factor.get("speed_min", 1.0)
+    high = speed.speed_max * factor.get("speed_max", 1.0)
+    if not low < high or (speed.skip_bands and not (low < speed.skip_bands[0][0] and speed.skip_bands[-1][1] < high)):
+        raise InputValueError("speed_min/speed_max: the factors make the speed range empty or cross a skip band")
+    if high >= scenario.sweep_max:
+        raise InputValueError(f"speed_max: the factors reach the rotor's sweep_max {scenario.sweep_max:g} rpm")
+    return scenario.replace(bearings=bearings, speed=operating_range(low, high, speed.skip_bands))
+
+
+def _rotor_chunk(scenario: RotorScenario, inputs: Sequence[UncertainInput], values: np.ndarray) -> VariantFindings:
+    # Each variant runs the whole rotor study; its findings are keyed by excitation and the critical's rank
+    # (by speed) for that excitation. Exempt findings require no margin: NaN, neither failing nor worst.
+    tables = [run_rotor_study(_rotor_variant(scenario, inputs, row)).findings for row in values]
+    labels = tuple(e.label for e in scenario.excitations)
+    ranked = []
+    for table in tables:
+        per: dict[str, list[Any]] = {label: [] for label in labels}
+        for f in sorted(table, key=lambda f: f.coincidence_speed or 0.0):
+            per.setdefault(f.excitation.label, []).append(f)
+        ranked.append(per)
+    depth = max((len(v) for per in ranked for v in per.values()), default=0)
+    margin = np.full((len(tables), depth, len(labels)), np.nan)
+    required = np.full_like(margin, np.nan)
+    for s, per in enumerate(ranked):
+        for j, label in enumerate(labels):
+            for i, f in enumerate(per.get(label, [])):
+                if not f.exempt:
+                    margin[s, i, j], required[s, i, j] = f.margin, f.required_margin
+    modes = tuple(f"critical {i + 1} (by speed)" for i in range(depth))
+    return VariantFindings(margin, required, modes, labels, np.full((len(tables), depth), np.nan))
+
+
+def _chunk_findings(item: tuple[Scenario | RotorScenario, Sequence[UncertainInput], np.ndarray]) -> VariantFindings:
     # Module-level, so process pools and Dask workers can import it.
     return evaluate_chunk(*item)

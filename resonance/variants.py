@@ -34,7 +34,9 @@ class VariantFindings:
     margin : numpy.ndarray
         Separation margin [percent], ``variants x modes x excitations`` (NaN where a variant lacks the mode).
     required : numpy.ndarray
-        Required margin [percent] per excitation (the flat rule of each pair).
+        Required margin [percent]: per excitation (flat rules, the same for every variant) or
+        ``variants x modes x excitations`` (rules that depend on each variant's AF); NaN where no margin is
+        required (an exemption).
     mode_labels, excitation_labels : tuple of str
         Modes numbered by ascending frequency (labelled as in the nominal scenario) and the excitations.
     frequency : numpy.ndarray
@@ -50,7 +52,8 @@ class VariantFindings:
     @property
     def excess(self) -> np.ndarray:
         """Margin minus required [percent points], ``variants x modes x excitations``; < 0 fails."""
-        return self.margin - self.required[None, None, :]
+        required = self.required if self.required.ndim == 3 else self.required[None, None, :]
+        return self.margin - required
 
     @property
     def failed(self) -> np.ndarray:

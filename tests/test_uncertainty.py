@@ -277,3 +277,63 @@ def test_a_limit_on_the_failure_probability_fails_the_study(booster):
     assert not outcome.uncertainty.passed
     assert "EXCEEDS the allowed 5.0 %" in outcome.summary
     assert outcome.record.data["verdict"] == "FAIL"
+
+
+def _rotor_with_uncertainty(samples: int = 24) -> dict:
+    from resonance.tables import read_scenario_file
+
+    tables = read_scenario_file(SCENARIOS / "fan_rotor.toml")
+    tables["uncertainty"] = {
+        "samples": samples,
+        "seed": 3,
+        "inputs": [
+            {"vary": "bearing:NDE bearing:stiffness", "distribution": "lognormal", "median": 1.0, "cov": 0.3},
+            {"vary": "bearing:DE bearing:stiffness", "distribution": "lognormal", "median": 1.0, "cov": 0.3},
+            {"vary": "bearing:DE bearing:damping", "distribution": "uniform", "low": 0.5, "high": 1.5},
+            {"vary": "speed_max", "distribution": "uniform", "low": 1.0, "high": 1.2},
+        ],
+    }
+    return tables
+
+
+def test_rotor_bearing_coefficients_as_uncertain_inputs():
+    # Each variant is the whole rotor study of the scenario with its bearings scaled: a variant's findings are
+    # those of run_rotor_study on that scaled scenario (the reference), keyed by excitation and critical rank.
+    from resonance.rotor.scenario import parse_rotor_scenario, scale_bearing
+    from resonance.rotor.study import run_rotor_study
+    from resonance.speed_range import operating_range
+
+    rotor = parse_rotor_scenario(_rotor_with_uncertainty(), "fan.toml")
+    spec = uncertainty_spec(rotor.uncertainty, rotor, "fan.toml")
+    result = run_uncertainty(rotor, spec, ProcessExecutor(2))
+    row = result.values[5]
+    nde, de = rotor.bearings
+    variant = rotor.replace(
+        bearings=(scale_bearing(nde, row[0], 1.0), scale_bearing(de, row[1], row[2])),
+        speed=operating_range(rotor.speed.speed_min, rotor.speed.speed_max * row[3]),
+    )
+    table = run_rotor_study(variant).findings
+    worst = min(f.margin - f.required_margin for f in table if not f.exempt)
+    assert result.findings.worst_excess[5] == pytest.approx(worst, abs=1e-9)
+    assert {name for name, *_ in result.sensitivity} == {x.vary for x in spec.inputs}
+    assert 0.0 <= result.probability_any <= 1.0
+
+
+def test_check_runs_a_rotor_uncertainty_study(tmp_path, capsys):
+    import json
+
+    import tomli_w
+
+    from resonance.cli import main
+
+    path = tmp_path / "fan.toml"
+    path.write_bytes(tomli_w.dumps(_rotor_with_uncertainty(16)).encode())
+    out = tmp_path / "fan.json"
+    assert main(["check", str(path), "--json", str(out)]) in (0, 1)
+    assert "UNCERTAINTY" in capsys.readouterr().out
+    assert json.loads(out.read_text())["uncertainty"]["samples"] == 16
+    bad = _rotor_with_uncertainty()
+    bad["uncertainty"]["inputs"][0]["vary"] = "bearing:NDE bearing:kxx"
+    path.write_bytes(tomli_w.dumps(bad).encode())
+    assert main(["check", str(path)]) == 2
+    assert "uncertainty.inputs[0].vary: got 'bearing:NDE bearing:kxx'" in capsys.readouterr().err

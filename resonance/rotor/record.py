@@ -7,6 +7,7 @@ from typing import Any
 
 from ..interference import verdict_line
 from ..record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
+from ..uncertainty import UncertaintyResult, uncertainty_lines
 from ..units import display_unit
 from .scenario import rotor_scenario_to_dict
 from .study import RotorStudyResult
@@ -47,7 +48,9 @@ def _assumptions(result: RotorStudyResult) -> list[str]:
     ]
 
 
-def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = None) -> Record:
+def build_rotor_record(
+    result: RotorStudyResult, created: _dt.datetime | None = None, uncertainty: UncertaintyResult | None = None
+) -> Record:
     """Build the record of a rotor study result.
 
     Parameters
@@ -56,6 +59,8 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         The study to record.
     created : datetime, optional
         Time stamp (now, UTC, if omitted).
+    uncertainty : UncertaintyResult, optional
+        Its uncertainty study (fails the verdict only above a given ``max_failure_probability``).
 
     Returns
     -------
@@ -100,6 +105,10 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         "verdict": result.verdict,
         "cautions": CAUTION,
     }
+    if uncertainty is not None:
+        data["uncertainty"] = uncertainty.record_data()
+        if not uncertainty.passed:
+            data["verdict"] = "FAIL"
     lines = [
         *header_lines("CALCULATION RECORD (ROTOR)", s.title, s.description, data),
         "INPUTS",
@@ -132,7 +141,8 @@ def build_rotor_record(result: RotorStudyResult, created: _dt.datetime | None = 
         f"  {result.peak_vibration * d_factor:.{digits}f} {d_unit} pk-pk at {result.peak_vibration_speed:.0f} rpm; "
         f"API limit {result.vibration_limit * d_factor:.{digits}f} {d_unit}",
         "",
-        verdict_line(result.verdict, result.findings, heading="VERDICT"),
+        *(uncertainty_lines(data["uncertainty"]) if "uncertainty" in data else []),
+        verdict_line(data["verdict"], result.findings, heading="VERDICT"),
         "",
         "CAUTION",
         f"  {CAUTION}",

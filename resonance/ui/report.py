@@ -151,10 +151,7 @@ def _support_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
             polar_figure(field, field.spec.channel, system),
             impact_figure(field),
         ]
-    if outcome.uncertainty is not None:
-        u = outcome.uncertainty
-        figures += [worst_margin_figure(u), failure_probability_figure(u), sensitivity_figure(u)]
-    return [("Modes", modes_table_html(result, system))], figures
+    return [("Modes", modes_table_html(result, system))], figures + _uncertainty_figures(outcome)
 
 
 def _rotor_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
@@ -165,7 +162,12 @@ def _rotor_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
         speed_map_figure(result, system),
         mode_shape_figure(result),
     ]
-    return [], figures
+    return [], figures + _uncertainty_figures(outcome)
+
+
+def _uncertainty_figures(outcome: StudyOutcome) -> list:
+    u = outcome.uncertainty
+    return [] if u is None else [worst_margin_figure(u), failure_probability_figure(u), sensitivity_figure(u)]
 
 
 def _torsion_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
