@@ -50,7 +50,12 @@ def _parser() -> argparse.ArgumentParser:
         "--summary", type=Path, help="fleet: write each machine's records and summary.txt/.csv/.html in this folder"
     )
     where = check.add_mutually_exclusive_group()
-    where.add_argument("--workers", type=int, help="local worker processes (0: one per core; default: this one)")
+    where.add_argument(
+        "--workers",
+        type=int,
+        help="local worker processes (0: one per core; default: one per core for a fleet, "
+        "this process for one scenario)",
+    )
     where.add_argument("--scheduler", help="a Dask scheduler address (tcp://host:8786): run there instead")
     compare = commands.add_parser("compare", help="compare two JSON records (inputs, findings, verdict)")
     compare.add_argument("old", type=Path, help="the earlier JSON record")
@@ -115,11 +120,13 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 def _check(args: argparse.Namespace) -> int:
     from .executors import executor_for
 
-    executor = executor_for(args.scheduler if args.scheduler else args.workers)
     progress = sys.stderr.isatty()
     paths: list[Path] = args.scenario
     if len(paths) > 1 or paths[0].is_dir() or args.summary is not None:
-        return _fleet(args, executor, progress)
+        # A fleet runs on local processes (one per core) unless told otherwise.
+        workers = 0 if args.workers is None else args.workers
+        return _fleet(args, executor_for(args.scheduler if args.scheduler else workers), progress)
+    executor = executor_for(args.scheduler if args.scheduler else args.workers)
     path = paths[0]
     tables, sha256 = read_scenario_bytes(path)
     kind = study_kind_for(tables, path.name)

@@ -1,7 +1,8 @@
 """Fleets: many scenario files checked in one run, with one summary.
 
 ``python -m resonance check A.toml B.toml plant/ --summary out/`` checks every scenario file given (a folder
-gives its ``*.toml`` files), on local worker processes (``--workers``) or a Dask cluster (``--scheduler``),
+gives its ``*.toml`` files), on local worker processes (one per core unless ``--workers`` says otherwise) or
+a Dask cluster (``--scheduler``),
 writes each machine's HTML and JSON records and a summary (``summary.txt``, ``summary.csv``,
 ``summary.html``: machine, verdict, worst finding and its margin, record link) into the summary folder, and
 exits 0 when every machine passes, 1 when any fails and 2 when any file is bad input (each bad file named
@@ -18,7 +19,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from .errors import InputTypeError, InputValueError
-from .executors import Executor, SerialExecutor, progress_bar
+from .executors import Executor, executor_for, progress_bar
 from .studies import run_scenario_file
 from .tables import atomic_write
 
@@ -162,7 +163,7 @@ def run_fleet(
         The summary folder (created if its parent exists): each machine's records and ``summary.txt``,
         ``summary.csv``, ``summary.html``. Nothing is written if omitted.
     executor : Executor, optional
-        Where the files are checked (this process if omitted); the rows do not depend on it.
+        Where the files are checked (local processes, one per core, if omitted); the rows do not depend on it.
     progress : bool
         Show a progress bar.
 
@@ -187,7 +188,7 @@ def run_fleet(
     names = _record_names(files)
     items = [(str(f), None if folder is None else str(folder), n) for f, n in zip(files, names, strict=True)]
     with progress_bar(len(items), "fleet", progress) as tick:
-        rows = (executor or SerialExecutor()).map(check_file, items, tick)
+        rows = (executor or executor_for(0)).map(check_file, items, tick)
     if folder is not None:
         from .ui.report import render_fleet_html
 

@@ -29,6 +29,7 @@ from .uncertainty import uncertainty_lines
 if TYPE_CHECKING:
     from .field.study import FieldStudyResult
     from .uncertainty import UncertaintyResult
+    from .whatif import FixOptions
 from .units import display_unit
 
 __all__ = [
@@ -335,6 +336,11 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
             if "field" in data
             else []
         ),
+        *(
+            ["WHAT WOULD FIX IT (what-if screening)", *(f"  {line}" for line in data["fixes"]["words"]), ""]
+            if "fixes" in data
+            else []
+        ),
         *(uncertainty_lines(data["uncertainty"]) if "uncertainty" in data else []),
         verdict_line(data["verdict"], result.findings, heading="VERDICT"),
         "",
@@ -349,6 +355,7 @@ def build_record(
     created: _dt.datetime | None = None,
     field: FieldStudyResult | None = None,
     uncertainty: UncertaintyResult | None = None,
+    fixes: FixOptions | None = None,
 ) -> Record:
     """Build the record of a study result (and of its field verification, when given).
 
@@ -362,6 +369,8 @@ def build_record(
         Time stamp to write (now, UTC, if omitted).
     uncertainty : UncertaintyResult, optional
         Its uncertainty study; it fails the verdict only when a ``max_failure_probability`` is exceeded.
+    fixes : FixOptions, optional
+        The smallest changes that make every margin check pass (for a failing scenario).
 
     Returns
     -------
@@ -436,6 +445,8 @@ def build_record(
         }
         if not field.passed:
             data["verdict"] = "FAIL"
+    if fixes is not None:
+        data["fixes"] = fixes.record_data()
     if uncertainty is not None:
         data["uncertainty"] = uncertainty.record_data()
         if not uncertainty.passed:

@@ -159,7 +159,13 @@ class SupportStudy:
 
             spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
             uncertainty = run_uncertainty(scenario, spec, self.executor, self.progress)
-        return support_outcome(run_study(scenario), field, uncertainty=uncertainty)
+        result = run_study(scenario)
+        fixes = None
+        if not result.findings.passed:
+            from .whatif import fix_options
+
+            fixes = fix_options(scenario)
+        return support_outcome(result, field, uncertainty=uncertainty, fixes=fixes)
 
 
 class RotorStudy:
@@ -241,7 +247,7 @@ class TorsionStudy:
 
 
 def support_outcome(
-    result: Any, field: Any = None, record: Record | None = None, uncertainty: Any = None
+    result: Any, field: Any = None, record: Record | None = None, uncertainty: Any = None, fixes: Any = None
 ) -> StudyOutcome:
     """The outcome of a support study and, when given, its field verification.
 
@@ -255,6 +261,8 @@ def support_outcome(
         The record, when already built (built from ``result`` and ``field`` otherwise).
     uncertainty : UncertaintyResult, optional
         Its uncertainty study (fails the verdict only above a given ``max_failure_probability``).
+    fixes : FixOptions, optional
+        The smallest changes that make every margin check pass (a failing scenario's).
 
     Returns
     -------
@@ -266,7 +274,7 @@ def support_outcome(
         The results are already validated.
     """
     units = result.scenario.units
-    record = record if record is not None else build_record(result, field=field, uncertainty=uncertainty)
+    record = record if record is not None else build_record(result, field=field, uncertainty=uncertainty, fixes=fixes)
     summary = result.summary(units)
     tables: list[tuple[str, FindingsTable]] = []
     if field is not None:
@@ -278,6 +286,8 @@ def support_outcome(
             f"Verdict: {record.data['verdict']} (the design model and its field verification together)\n\n"
             f"Design model:\n{summary}\n\n{field.summary()}"
         )
+    if fixes is not None:
+        summary += "\n\nWhat would fix it:\n" + "\n".join(fixes.lines())
     if uncertainty is not None:
         summary += f"\n\nUncertainty:\n{uncertainty.summary()}"
     passed = result.passed and (field is None or field.passed) and (uncertainty is None or uncertainty.passed)

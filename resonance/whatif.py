@@ -25,6 +25,8 @@ from .variants import evaluate_variants
 
 __all__ = [
     "FixMap",
+    "FixOptions",
+    "fix_options",
     "combined_fix_map",
     "Parameter",
     "scaled_model",
@@ -419,3 +421,91 @@ def combined_fix_map(
         good, bad = (middle, bad) if passes else (good, middle)
     best = np.exp(good * direction)
     return FixMap(ks, km, excess, (float(best[0]), float(best[1])))
+
+
+@dataclass(frozen=True)
+class FixOptions:
+    """What change fixes a failing support scenario: each parameter alone, and both combined.
+
+    Attributes
+    ----------
+    stiffness, mass : SmallestChange
+        The smallest change of the what-if springs' stiffness alone and of the what-if masses alone.
+    combined : FixMap
+        The map over both, with the smallest combined change.
+    springs, masses : tuple of str
+        What the factors scale.
+    """
+
+    stiffness: SmallestChange
+    mass: SmallestChange
+    combined: FixMap
+    springs: tuple[str, ...]
+    masses: tuple[str, ...]
+
+    def lines(self) -> list[str]:
+        """The options in words, one per line.
+
+        Returns
+        -------
+        list of str
+
+        Raises
+        ------
+        Nothing
+            Pure text.
+        """
+        return [
+            self.stiffness.describe(self.springs),
+            self.mass.describe(self.masses),
+            self.combined.describe(self.springs, self.masses),
+        ]
+
+    def record_data(self) -> dict[str, object]:
+        """The options for a JSON record.
+
+        Returns
+        -------
+        dict
+
+        Raises
+        ------
+        Nothing
+            Plain values.
+        """
+        return {
+            "stiffness_factor": self.stiffness.scale,
+            "mass_factor": self.mass.scale,
+            "combined_factors": list(self.combined.smallest) if self.combined.smallest else None,
+            "springs": list(self.springs),
+            "masses": list(self.masses),
+            "words": self.lines(),
+            "note": "what-if changes that make every margin check pass; a fix is confirmed by a new design and "
+            "field verification, not by this screening",
+        }
+
+
+def fix_options(scenario: Scenario) -> FixOptions:
+    """The smallest stiffness, mass and combined changes that make every margin check pass.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The validated scenario (its what-if springs and masses are varied).
+
+    Returns
+    -------
+    FixOptions
+
+    Raises
+    ------
+    InputValueError
+        Never for a validated scenario.
+    """
+    return FixOptions(
+        smallest_change(scenario, "stiffness"),
+        smallest_change(scenario, "mass"),
+        combined_fix_map(scenario, (0.25, 4.0), (0.25, 4.0), 41),
+        scenario.whatif.vary_springs,
+        scenario.whatif.vary_masses,
+    )

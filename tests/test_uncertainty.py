@@ -337,3 +337,17 @@ def test_check_runs_a_rotor_uncertainty_study(tmp_path, capsys):
     path.write_bytes(tomli_w.dumps(bad).encode())
     assert main(["check", str(path)]) == 2
     assert "uncertainty.inputs[0].vary: got 'bearing:NDE bearing:kxx'" in capsys.readouterr().err
+
+
+def test_a_failing_support_record_says_what_would_fix_it():
+    # The record's fixes are the what-if solvers' own answers (single parameters, and the combined map's).
+    from resonance.studies import run_scenario_file
+
+    outcome = run_scenario_file(SCENARIOS / "feed_pump_foundation.toml")
+    fixes = outcome.record.data["fixes"]
+    booster = load_scenario(SCENARIOS / "feed_pump_foundation.toml")
+    assert fixes["mass_factor"] == pytest.approx(smallest_change(booster, "mass").scale)
+    ks, km = fixes["combined_factors"]
+    assert check_scaled(booster, ks, km).passed
+    assert "WHAT WOULD FIX IT" in outcome.record.text
+    assert "fixes" not in run_scenario_file(SCENARIOS / "fan_rotor.toml").record.data  # passes: nothing to fix
