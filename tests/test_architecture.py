@@ -26,6 +26,8 @@ LAYERS = {
         "frf",
         "torsion",
         "batch",
+        "space",
+        "soil",
         "rotor.elements",
         "rotor.model",
         "rotor.analysis",

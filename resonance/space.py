@@ -1,0 +1,594 @@
+"""Rigid bodies in space on mounts: six degrees of freedom per body, modes in words, response at points.
+
+A machine, its skid and its block are rigid bodies (mass, centre of gravity, inertia tensor about the centre
+of gravity in global axes) joined to each other and to ground by mounts at given points: three translational
+stiffnesses and dampings in the mount's own axes, optionally three rotational ones (isolators, anchor bolts,
+grout pads, the soil under a block from :mod:`resonance.soil`). Each body's coordinates are the translation
+of its centre of gravity and a small rotation, ``q = [x, y, z, rx, ry, rz]``; a point ``p`` of the body
+moves ``u = t + r x p_rel`` with ``p_rel = p - cg``, i.e. ``u = T q`` with ``T = [I, -[p_rel]x]``.
+
+Global axes: any right-handed set; the demos take z up. Lengths in m, angles in rad, stiffness N/m and
+N m/rad, damping N s/m and N m s/rad.
+
+References
+----------
+.. [1] C. M. Harris and A. G. Piersol (eds.), *Harris' Shock and Vibration Handbook*, 5th ed., 2002, ch. 30
+   (rigid body on resilient mounts: decoupled and coupled modes) (from memory).
+.. [2] M. Géradin and D. Rixen, *Mechanical Vibrations*, 3rd ed., 2015, ch. 2 (rigid-body kinematics,
+   small rotations).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .errors import InputTypeError, InputValueError
+from .inputs import as_matrix, as_si, as_si_array
+from .model import MatrixModel, matrix_model
+from .modes import ModeSet, model_modes
+
+__all__ = [
+    "DIRECTIONS",
+    "Mount",
+    "PointLoad",
+    "RigidBody",
+    "SpaceMode",
+    "SpaceModel",
+    "box_inertia",
+    "orbit_major",
+    "point_motion",
+    "rotating_unbalance",
+    "space_model",
+    "space_modes",
+    "space_response",
+]
+
+#: The six coordinates of a body, in order.
+DIRECTIONS = ("x", "y", "z", "rx", "ry", "rz")
+GROUND = "ground"
+_WORDS = {
+    "x": "sliding in x",
+    "y": "sliding in y",
+    "z": "vertical (z)",
+    "rx": "rocking about x",
+    "ry": "rocking about y",
+    "rz": "twisting about z",
+}
+
+
+def _vector(value: object, name: str, kind: str = "length", sign: str = "any") -> np.ndarray:
+    out = as_si_array(value, name, kind, sign)  # type: ignore[arg-type]
+    if out.shape != (3,):
+        raise InputValueError(f"{name}: got {out.size} values; expected three (x, y, z)")
+    return out
+
+
+def _skew(r: np.ndarray) -> np.ndarray:
+    return np.array([[0.0, -r[2], r[1]], [r[2], 0.0, -r[0]], [-r[1], r[0], 0.0]])
+
+
+def box_inertia(mass: object, lx: object, ly: object, lz: object) -> np.ndarray:
+    """Inertia tensor of a uniform box about its centre, box edges along the axes.
+
+    Parameters
+    ----------
+    mass : float or pint.Quantity
+        [kg] (> 0).
+    lx, ly, lz : float or pint.Quantity
+        Edge lengths [m] (> 0).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``diag(m (ly^2 + lz^2), m (lx^2 + lz^2), m (lx^2 + ly^2)) / 12`` [kg m^2].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        A value that is not finite and > 0.
+
+    References
+    ----------
+    Any dynamics text (e.g. Meriam & Kraige, *Engineering Mechanics: Dynamics*, appendix D).
+    """
+    m = as_si(mass, "mass", "mass", "positive")
+    a, b, c = (as_si(v, n, "length", "positive") for v, n in ((lx, "lx"), (ly, "ly"), (lz, "lz")))
+    return np.diag([m * (b**2 + c**2), m * (a**2 + c**2), m * (a**2 + b**2)]) / 12.0
+
+
+@dataclass(frozen=True)
+class RigidBody:
+    """A rigid body: mass, centre of gravity and inertia tensor about it (global axes).
+
+    Attributes
+    ----------
+    name : str
+        Unique name.
+    mass : float
+        [kg] (> 0).
+    center : numpy.ndarray
+        Centre of gravity [m], three coordinates.
+    inertia : numpy.ndarray
+        Inertia tensor about the centre of gravity [kg m^2], 3 x 3, symmetric positive definite, its
+        principal moments meeting the triangle inequality (any real body does).
+    """
+
+    name: str
+    mass: float
+    center: np.ndarray
+    inertia: np.ndarray
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.name, str) or not self.name or self.name == GROUND:
+            raise InputValueError(f"body name: got {self.name!r}; expected a name other than 'ground'")
+        where = f"body {self.name!r}"
+        object.__setattr__(self, "mass", as_si(self.mass, f"{where}: mass", "mass", "positive"))
+        object.__setattr__(self, "center", _vector(self.center, f"{where}: center"))
+        tensor = as_matrix(self.inertia, f"{where}: inertia", "inertia", 3)
+        principal = np.linalg.eigvalsh(tensor)
+        if principal[0] <= 0.0:
+            raise InputValueError(
+                f"{where}: inertia: not positive definite (principal moments {principal.round(6).tolist()} kg*m**2)"
+            )
+        if principal[2] > principal[0] + principal[1] * (1.0 + 1e-9):
+            raise InputValueError(
+                f"{where}: inertia: principal moments {principal.round(6).tolist()} kg*m**2 break the triangle "
+                "inequality (I3 <= I1 + I2 for any real body)"
+            )
+        object.__setattr__(self, "inertia", tensor)
+
+    @property
+    def mass_matrix(self) -> np.ndarray:
+        """The 6 x 6 mass matrix in the body's coordinates (about its centre of gravity)."""
+        out = np.zeros((6, 6))
+        out[:3, :3] = self.mass * np.eye(3)
+        out[3:, 3:] = self.inertia
+        return out
+
+
+@dataclass(frozen=True)
+class Mount:
+    """A resilient mount (or an anchor, a grout pad, the soil) joining a body to another body or to ground.
+
+    Attributes
+    ----------
+    label : str
+        Name in tables.
+    point : numpy.ndarray
+        Where it acts [m] (global axes).
+    body : str
+        The body it carries.
+    other : str
+        The other body, or ``"ground"``.
+    stiffness : numpy.ndarray
+        Translational stiffness along the mount's three axes [N/m] (>= 0).
+    damping : numpy.ndarray
+        Translational damping along them [N s/m] (>= 0).
+    rotational_stiffness : numpy.ndarray
+        About the mount's axes [N m/rad] (>= 0).
+    rotational_damping : numpy.ndarray
+        About them [N m s/rad] (>= 0).
+    axes : numpy.ndarray
+        The mount's axes as rows in global coordinates (an orthonormal 3 x 3; identity: the global axes).
+    """
+
+    label: str
+    point: np.ndarray
+    body: str
+    other: str = GROUND
+    stiffness: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    damping: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    rotational_stiffness: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    rotational_damping: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    axes: np.ndarray = field(default_factory=lambda: np.eye(3))
+
+    def __post_init__(self) -> None:
+        where = f"mount {self.label!r}"
+        object.__setattr__(self, "point", _vector(self.point, f"{where}: point"))
+        for name, kind in (
+            ("stiffness", "stiffness"),
+            ("damping", "damping"),
+            ("rotational_stiffness", "moment_stiffness"),
+            ("rotational_damping", "ratio"),
+        ):
+            object.__setattr__(self, name, _vector(getattr(self, name), f"{where}: {name}", kind, "nonnegative"))
+        if not (np.any(self.stiffness > 0.0) or np.any(self.rotational_stiffness > 0.0)):
+            raise InputValueError(f"{where}: has no stiffness; expected at least one stiffness > 0")
+        axes = np.asarray(self.axes, dtype=float)
+        if axes.shape != (3, 3) or not np.allclose(axes @ axes.T, np.eye(3), atol=1e-9):
+            raise InputValueError(f"{where}: axes: expected three orthonormal rows (a rotation matrix)")
+        object.__setattr__(self, "axes", axes)
+        if self.body == self.other:
+            raise InputValueError(f"{where}: joins {self.body!r} to itself")
+
+
+@dataclass(frozen=True)
+class SpaceModel:
+    """Bodies and mounts assembled: six coordinates per body.
+
+    Attributes
+    ----------
+    bodies : tuple of RigidBody
+        In coordinate order (body ``i`` owns coordinates ``6 i .. 6 i + 5``).
+    mounts : tuple of Mount
+        As given.
+    model : MatrixModel
+        Mass [kg, kg m^2], stiffness and damping matrices; labels ``"body.x"`` ... ``"body.rz"``.
+    """
+
+    bodies: tuple[RigidBody, ...]
+    mounts: tuple[Mount, ...]
+    model: MatrixModel
+
+    def index(self, body: str) -> int:
+        """The first coordinate of a body.
+
+        Parameters
+        ----------
+        body : str
+            Its name.
+
+        Returns
+        -------
+        int
+
+        Raises
+        ------
+        InputValueError
+            An unknown body.
+        """
+        names = [b.name for b in self.bodies]
+        if body not in names:
+            raise InputValueError(f"body: got {body!r}; expected one of {names}")
+        return 6 * names.index(body)
+
+    def body(self, name: str) -> RigidBody:
+        """A body by name.
+
+        Parameters
+        ----------
+        name : str
+            Its name.
+
+        Returns
+        -------
+        RigidBody
+
+        Raises
+        ------
+        InputValueError
+            An unknown body.
+        """
+        return self.bodies[self.index(name) // 6]
+
+
+def point_motion(body: RigidBody, point: object) -> np.ndarray:
+    """The 3 x 6 matrix ``T`` giving a body point's displacement from the body's coordinates, ``u = T q``.
+
+    Parameters
+    ----------
+    body : RigidBody
+        The body.
+    point : array_like
+        The point [m] (global axes).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``[I, -[p - cg]x]`` (small rotations).
+
+    Raises
+    ------
+    InputValueError
+        A point that is not three finite coordinates.
+    """
+    r = _vector(point, "point") - body.center
+    return np.hstack([np.eye(3), -_skew(r)])
+
+
+def space_model(bodies: Sequence[RigidBody], mounts: Sequence[Mount]) -> SpaceModel:
+    """Assemble bodies and mounts into one model, refusing mechanisms.
+
+    Parameters
+    ----------
+    bodies : sequence of RigidBody
+        Unique names.
+    mounts : sequence of Mount
+        Each joining a named body to another body or to ground.
+
+    Returns
+    -------
+    SpaceModel
+
+    Raises
+    ------
+    InputValueError
+        No bodies, repeated names, a mount naming a missing body, a rigid-body mechanism (a motion the mounts
+        do not resist; the message says which body moves how).
+    InputTypeError
+        An item of the wrong type.
+    """
+    if not bodies:
+        raise InputValueError("bodies: got none; expected at least one rigid body")
+    for name, items, kind in (("bodies", bodies, RigidBody), ("mounts", mounts, Mount)):
+        for i, item in enumerate(items):
+            if not isinstance(item, kind):
+                raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
+    names = [b.name for b in bodies]
+    if len(set(names)) != len(names):
+        raise InputValueError(f"bodies: names {names} repeat; expected unique names")
+    n = 6 * len(bodies)
+    mass = np.zeros((n, n))
+    stiffness = np.zeros((n, n))
+    damping = np.zeros((n, n))
+    for i, b in enumerate(bodies):
+        mass[6 * i : 6 * i + 6, 6 * i : 6 * i + 6] = b.mass_matrix
+    for m in mounts:
+        # The relative motion at the mount point, translations and rotations, in the mount's axes.
+        rows = np.zeros((6, n))
+        for sign, name in ((1.0, m.body), (-1.0, m.other)):
+            if name == GROUND:
+                continue
+            if name not in names:
+                raise InputValueError(
+                    f"mount {m.label!r}: names {name!r}, which is not a body; expected one of {names}"
+                )
+            j = names.index(name)
+            rows[:3, 6 * j : 6 * j + 6] += sign * point_motion(bodies[j], m.point)
+            rows[3:, 6 * j + 3 : 6 * j + 6] += sign * np.eye(3)
+        local = np.zeros((6, 6))
+        local[:3, :3], local[3:, 3:] = m.axes, m.axes
+        transform = local @ rows
+        k = np.diag(np.concatenate([m.stiffness, m.rotational_stiffness]))
+        c = np.diag(np.concatenate([m.damping, m.rotational_damping]))
+        stiffness += transform.T @ k @ transform
+        damping += transform.T @ c @ transform
+    labels = tuple(f"{b.name}.{d}" for b in bodies for d in DIRECTIONS)
+    _refuse_mechanism(mass, stiffness, labels)
+    return SpaceModel(tuple(bodies), tuple(mounts), matrix_model(mass, stiffness, damping, labels))
+
+
+def _refuse_mechanism(mass: np.ndarray, stiffness: np.ndarray, labels: tuple[str, ...]) -> None:
+    # A motion with (numerically) no strain energy is a mechanism: name the coordinate that dominates it.
+    root = 1.0 / np.sqrt(np.diag(mass))
+    scaled = root[:, None] * stiffness * root[None, :]
+    w2, v = np.linalg.eigh(0.5 * (scaled + scaled.T))
+    top = max(float(np.abs(w2).max()), 1e-300)
+    free = np.flatnonzero(w2 <= 1e-10 * top)
+    if free.size:
+        shape = root * v[:, free[0]]
+        dominant = labels[int(np.argmax(np.abs(shape) * np.sqrt(np.diag(mass))))]
+        body, direction = dominant.rsplit(".", 1)
+        raise InputValueError(
+            f"mounts: the model has a rigid-body mechanism: body {body!r} moves freely ({_WORDS[direction]}); "
+            "add a mount (or a mount stiffness) that resists it"
+        )
+
+
+@dataclass(frozen=True)
+class SpaceMode:
+    """One mode of a body model, with the share of each body's coordinate in its kinetic energy.
+
+    Attributes
+    ----------
+    frequency : float
+        [Hz].
+    damping_ratio : float
+        [-].
+    shape : numpy.ndarray
+        Mode shape (complex when the damping is not proportional), scaled to a largest entry of 1.
+    shares : dict of str to float
+        Each coordinate's share of the mode's kinetic energy (``"block.ry"``: 0.71); they add up to 1.
+    words : str
+        What moves, in words (``"block: rocking about y with sliding in x"``).
+    """
+
+    frequency: float
+    damping_ratio: float
+    shape: np.ndarray
+    shares: dict[str, float]
+    words: str
+
+
+def _mode_words(shares: dict[str, float]) -> str:
+    # The body with the most energy and its two largest motions (a second one only above 15 %).
+    by_body: dict[str, float] = {}
+    for label, share in shares.items():
+        by_body[label.rsplit(".", 1)[0]] = by_body.get(label.rsplit(".", 1)[0], 0.0) + share
+    body = max(by_body, key=by_body.__getitem__)
+    own = sorted(((s, lab.rsplit(".", 1)[1]) for lab, s in shares.items() if lab.startswith(body + ".")), reverse=True)
+    text = f"{body}: {_WORDS[own[0][1]]}"
+    if len(own) > 1 and own[1][0] > 0.15:
+        text += f" with {_WORDS[own[1][1]]}"
+    others = [b for b, s in sorted(by_body.items(), key=lambda kv: -kv[1]) if b != body and s > 0.15]
+    if others:
+        text += f" (and {', '.join(others)})"
+    return text
+
+
+def space_modes(model: SpaceModel) -> list[SpaceMode]:
+    """The modes of a body model, each with its kinetic-energy shares and what moves in words.
+
+    Parameters
+    ----------
+    model : SpaceModel
+        From :func:`space_model`.
+
+    Returns
+    -------
+    list of SpaceMode
+        By ascending frequency.
+
+    Raises
+    ------
+    InputTypeError
+        Not a SpaceModel.
+    """
+    if not isinstance(model, SpaceModel):
+        raise InputTypeError(f"model: got {type(model).__name__}; expected a SpaceModel")
+    modes: ModeSet = model_modes(model.model)
+    out = []
+    labels = model.model.labels
+    for i, f in enumerate(modes.frequency):
+        shape = modes.shapes[:, i]
+        energy = np.real(np.conj(shape) * (model.model.mass @ shape))
+        total = float(energy.sum()) or 1.0
+        shares = {lab: float(e / total) for lab, e in zip(labels, energy, strict=True)}
+        scale = shape[np.argmax(np.abs(shape))]
+        out.append(SpaceMode(float(f), float(modes.damping_ratio[i]), shape / scale, shares, _mode_words(shares)))
+    return out
+
+
+@dataclass(frozen=True)
+class PointLoad:
+    """A harmonic force (and moment) at a body point: complex amplitudes in global axes.
+
+    Attributes
+    ----------
+    body : str
+        The body loaded.
+    point : numpy.ndarray
+        Where [m].
+    force : numpy.ndarray
+        Complex force amplitude [N], three components (``F e^{i w t}``), per frequency (``n x 3``) or one
+        for all.
+    moment : numpy.ndarray
+        Complex moment amplitude [N m], likewise.
+    """
+
+    body: str
+    point: np.ndarray
+    force: np.ndarray
+    moment: np.ndarray = field(default_factory=lambda: np.zeros(3, dtype=complex))
+
+
+def rotating_unbalance(body: str, point: object, axis: object, unbalance: object, frequency: object) -> PointLoad:
+    """The rotating force of an unbalance on a shaft of given direction, at every frequency.
+
+    Parameters
+    ----------
+    body : str
+        The body carrying the rotor.
+    point : array_like
+        The unbalance plane's centre on the shaft axis [m].
+    axis : array_like
+        The shaft direction (any length; the rotor spins right-handed about it).
+    unbalance : float or pint.Quantity
+        ``m e`` [kg m] (> 0).
+    frequency : array_like or pint.Quantity
+        Running frequencies [Hz] (>= 0).
+
+    Returns
+    -------
+    PointLoad
+        ``F = m e w^2 (e1 + i e2)`` per frequency: two orthogonal components in quadrature in the plane normal
+        to the axis (``e1``, ``e2``, the axis right-handed), rotating with the shaft.
+
+    Raises
+    ------
+    InputValueError
+        A zero axis, a bad unbalance or frequency.
+
+    References
+    ----------
+    ISO 21940-11 (the force ``U w^2``); any rotordynamics text for the rotating vector.
+    """
+    n = _vector(axis, "axis", "ratio")
+    length = float(np.linalg.norm(n))
+    if not length > 0.0:
+        raise InputValueError("axis: got a zero vector; expected the shaft direction")
+    n = n / length
+    helper = np.eye(3)[int(np.argmin(np.abs(n)))]
+    e1 = np.cross(n, helper)
+    e1 /= np.linalg.norm(e1)
+    e2 = np.cross(n, e1)
+    u = as_si(unbalance, "unbalance", "unbalance", "positive")
+    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    force = (u * w**2)[:, None] * (e1 + 1j * e2)[None, :]
+    return PointLoad(body, _vector(point, "point"), force)
+
+
+def space_response(
+    model: SpaceModel, loads: Sequence[PointLoad], frequency: object, points: Sequence[tuple[str, object]]
+) -> np.ndarray:
+    """Steady complex displacement at body points under harmonic point loads.
+
+    Parameters
+    ----------
+    model : SpaceModel
+        From :func:`space_model`.
+    loads : sequence of PointLoad
+        The loads (forces per frequency or one for all).
+    frequency : array_like or pint.Quantity
+        Frequencies [Hz] (>= 0).
+    points : sequence of (str, array_like)
+        ``(body, point)`` where the motion is read.
+
+    Returns
+    -------
+    numpy.ndarray
+        Complex displacement amplitudes [m], ``len(frequency) x len(points) x 3`` (global x, y, z).
+
+    Raises
+    ------
+    InputValueError
+        An unknown body, a load of the wrong shape, a bad frequency.
+
+    Notes
+    -----
+    ``(K - w^2 M + i w C) q = sum T_p^T F_p + [0; M_p]`` solved at every frequency; the amplitude of each
+    direction is ``|u|`` and the phase lag ``-angle(u)``; :func:`orbit_major` gives the largest excursion.
+    """
+    if not isinstance(model, SpaceModel):
+        raise InputTypeError(f"model: got {type(model).__name__}; expected a SpaceModel")
+    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    n = model.model.size
+    rhs = np.zeros((w.size, n), dtype=complex)
+    for i, load in enumerate(loads):
+        j = model.index(load.body)
+        body = model.body(load.body)
+        given = np.asarray(load.force, dtype=complex)
+        if given.ndim not in (1, 2) or given.shape[-1] != 3 or (given.ndim == 2 and given.shape[0] != w.size):
+            raise InputValueError(f"loads[{i}]: force: expected three components (per frequency or one for all)")
+        force = np.broadcast_to(given, (w.size, 3))
+        moment = np.broadcast_to(np.asarray(load.moment, dtype=complex), (w.size, 3))
+        rhs[:, j : j + 6] += force @ point_motion(body, load.point)
+        rhs[:, j + 3 : j + 6] += moment
+    reads = [(model.index(b), point_motion(model.body(b), p)) for b, p in points]
+    m, k, c = model.model.mass, model.model.stiffness, model.model.damping
+    dynamic = k[None] - (w**2)[:, None, None] * m[None] + 1j * w[:, None, None] * c[None]
+    q = np.linalg.solve(dynamic, rhs[:, :, None])[:, :, 0]
+    return np.stack([q[:, j : j + 6] @ t.T for j, t in reads], axis=1)
+
+
+def orbit_major(displacement: np.ndarray) -> np.ndarray:
+    """Semi-major axis of the elliptical path of a point moving ``Re(u e^{i w t})`` in space.
+
+    Parameters
+    ----------
+    displacement : numpy.ndarray
+        Complex amplitudes, ``... x 3``.
+
+    Returns
+    -------
+    numpy.ndarray
+        The largest excursion from the mean position [m] (0-peak), shape ``...``.
+
+    Raises
+    ------
+    Nothing
+        Plain arithmetic.
+
+    Notes
+    -----
+    With ``u = a + i b`` the path is ``a cos wt - b sin wt``; its largest squared length is the largest
+    eigenvalue of ``[[a.a, -a.b], [-a.b, b.b]]``.
+    """
+    a, b = displacement.real, displacement.imag
+    aa, bb, ab = (a * a).sum(-1), (b * b).sum(-1), (a * b).sum(-1)
+    mean, half = 0.5 * (aa + bb), np.sqrt(0.25 * (aa - bb) ** 2 + ab**2)
+    return np.sqrt(mean + half)
