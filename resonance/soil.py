@@ -34,6 +34,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from .errors import InputValueError
 from .inputs import as_si
 from .space import Mount
@@ -221,10 +223,10 @@ def soil_mount(footing: FootingImpedance, body: str, point: object, label: str =
     """
     return Mount(
         label,
-        point,
+        np.asarray(point, dtype=float),
         body,
-        stiffness=[footing.x.stiffness, footing.y.stiffness, footing.z.stiffness],
-        damping=[footing.x.damping, footing.y.damping, footing.z.damping],
-        rotational_stiffness=[footing.rx.stiffness, footing.ry.stiffness, footing.rz.stiffness],
-        rotational_damping=[footing.rx.damping, footing.ry.damping, footing.rz.damping],
+        stiffness=np.array([footing.x.stiffness, footing.y.stiffness, footing.z.stiffness]),
+        damping=np.array([footing.x.damping, footing.y.damping, footing.z.damping]),
+        rotational_stiffness=np.array([footing.rx.stiffness, footing.ry.stiffness, footing.rz.stiffness]),
+        rotational_damping=np.array([footing.rx.damping, footing.ry.damping, footing.rz.damping]),
     )

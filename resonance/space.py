@@ -21,18 +21,20 @@ References
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from .errors import InputTypeError, InputValueError
+from .frame import Beam, beam_matrices
 from .inputs import as_matrix, as_si, as_si_array
 from .model import MatrixModel, matrix_model
 from .modes import ModeSet, model_modes
 
 __all__ = [
     "DIRECTIONS",
+    "FrameNode",
     "Mount",
     "PointLoad",
     "RigidBody",
@@ -207,30 +209,63 @@ class Mount:
 
 
 @dataclass(frozen=True)
+class FrameNode:
+    """A node of a steel frame: six coordinates at a point.
+
+    Attributes
+    ----------
+    name : str
+        Unique name (bodies and nodes share one namespace).
+    point : numpy.ndarray
+        Position [m].
+    """
+
+    name: str
+    point: np.ndarray
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.name, str) or not self.name or self.name == GROUND:
+            raise InputValueError(f"node name: got {self.name!r}; expected a name other than 'ground'")
+        object.__setattr__(self, "point", _vector(self.point, f"node {self.name!r}: point"))
+
+
+@dataclass(frozen=True)
 class SpaceModel:
-    """Bodies and mounts assembled: six coordinates per body.
+    """Bodies, frame nodes, beams and mounts assembled: six coordinates per free body and per node.
 
     Attributes
     ----------
     bodies : tuple of RigidBody
-        In coordinate order (body ``i`` owns coordinates ``6 i .. 6 i + 5``).
+        Every body (free ones own coordinates; attached ones ride rigidly on their node).
     mounts : tuple of Mount
         As given.
     model : MatrixModel
-        Mass [kg, kg m^2], stiffness and damping matrices; labels ``"body.x"`` ... ``"body.rz"``.
+        Mass, stiffness and damping matrices; labels ``"owner.x"`` ... ``"owner.rz"``.
+    owners : tuple of str
+        Who owns each block of six coordinates (free bodies, then nodes).
+    origins : tuple of numpy.ndarray
+        Each owner's reference point (a body's centre of gravity, a node's position) [m].
+    attached : dict of str to str
+        Bodies fixed rigidly to a node.
+    beams : tuple of Beam
+        The frame's elements.
     """
 
     bodies: tuple[RigidBody, ...]
     mounts: tuple[Mount, ...]
     model: MatrixModel
+    owners: tuple[str, ...] = ()
+    origins: tuple[np.ndarray, ...] = ()
+    attached: dict[str, str] = field(default_factory=dict)
+    beams: tuple[Beam, ...] = ()
 
-    def index(self, body: str) -> int:
-        """The first coordinate of a body.
+    def index(self, name: str) -> int:
+        """The first coordinate of a body or node (an attached body's is its node's).
 
         Parameters
         ----------
-        body : str
-            Its name.
+        name : str
+            A body or a node.
 
         Returns
         -------
@@ -239,12 +274,12 @@ class SpaceModel:
         Raises
         ------
         InputValueError
-            An unknown body.
+            An unknown name.
         """
-        names = [b.name for b in self.bodies]
-        if body not in names:
-            raise InputValueError(f"body: got {body!r}; expected one of {names}")
-        return 6 * names.index(body)
+        owner = self.attached.get(name, name)
+        if owner not in self.owners:
+            raise InputValueError(f"body: got {name!r}; expected one of {sorted({*self.owners, *self.attached})}")
+        return 6 * self.owners.index(owner)
 
     def body(self, name: str) -> RigidBody:
         """A body by name.
@@ -263,7 +298,37 @@ class SpaceModel:
         InputValueError
             An unknown body.
         """
-        return self.bodies[self.index(name) // 6]
+        for b in self.bodies:
+            if b.name == name:
+                return b
+        raise InputValueError(f"body: got {name!r}; expected one of {[b.name for b in self.bodies]}")
+
+    def motion(self, name: str, point: object) -> tuple[int, np.ndarray]:
+        """Where a body's or node's point moves from: the owner's first coordinate and ``T`` (``u = T q``).
+
+        Parameters
+        ----------
+        name : str
+            A body or node.
+        point : array_like
+            The point [m].
+
+        Returns
+        -------
+        tuple of (int, numpy.ndarray)
+            The first coordinate and the 3 x 6 matrix.
+
+        Raises
+        ------
+        InputValueError
+            An unknown name or a bad point.
+        """
+        j = self.index(name)
+        return j, _motion(self.origins[j // 6], point)
+
+
+def _motion(origin: np.ndarray, point: object) -> np.ndarray:
+    return np.hstack([np.eye(3), -_skew(_vector(point, "point") - origin)])
 
 
 def point_motion(body: RigidBody, point: object) -> np.ndarray:
@@ -286,19 +351,36 @@ def point_motion(body: RigidBody, point: object) -> np.ndarray:
     InputValueError
         A point that is not three finite coordinates.
     """
-    r = _vector(point, "point") - body.center
-    return np.hstack([np.eye(3), -_skew(r)])
+    return _motion(body.center, point)
 
 
-def space_model(bodies: Sequence[RigidBody], mounts: Sequence[Mount]) -> SpaceModel:
-    """Assemble bodies and mounts into one model, refusing mechanisms.
+def space_model(
+    bodies: Sequence[RigidBody],
+    mounts: Sequence[Mount],
+    nodes: Sequence[FrameNode] = (),
+    beams: Sequence[Beam] = (),
+    attached: Mapping[str, str] | None = None,
+    fixed: Sequence[str] = (),
+) -> SpaceModel:
+    """Assemble bodies, a frame and mounts into one model, refusing mechanisms.
 
     Parameters
     ----------
     bodies : sequence of RigidBody
         Unique names.
     mounts : sequence of Mount
-        Each joining a named body to another body or to ground.
+        Each joining a body or node to another body or node, or to ground.
+    nodes : sequence of FrameNode
+        The frame's nodes (names distinct from the bodies').
+    beams : sequence of Beam
+        The frame's elements between nodes.
+    attached : mapping of body to node, optional
+        Bodies fixed rigidly to a node (a machine bolted to its skid's frame): the body's mass and inertia
+        ride on the node's coordinates, exactly.
+    fixed : sequence of str
+        Frame nodes clamped to ground (all six coordinates held): column feet cast in, welded to an embedded
+        plate. A very stiff mount would do the same but spoils the numerics; give anchors their real
+        stiffness as mounts instead when they are not rigid.
 
     Returns
     -------
@@ -307,39 +389,67 @@ def space_model(bodies: Sequence[RigidBody], mounts: Sequence[Mount]) -> SpaceMo
     Raises
     ------
     InputValueError
-        No bodies, repeated names, a mount naming a missing body, a rigid-body mechanism (a motion the mounts
-        do not resist; the message says which body moves how).
+        No bodies or nodes, repeated names, a mount, beam or attachment naming something missing, a
+        rigid-body mechanism (a motion nothing resists; the message says which body or node moves how).
     InputTypeError
         An item of the wrong type.
     """
-    if not bodies:
-        raise InputValueError("bodies: got none; expected at least one rigid body")
-    for name, items, kind in (("bodies", bodies, RigidBody), ("mounts", mounts, Mount)):
+    attached = dict(attached or {})
+    if not bodies and not nodes:
+        raise InputValueError("bodies: got none; expected at least one rigid body or frame node")
+    for name, items, kind in (
+        ("bodies", bodies, RigidBody),
+        ("mounts", mounts, Mount),
+        ("nodes", nodes, FrameNode),
+        ("beams", beams, Beam),
+    ):
         for i, item in enumerate(items):
             if not isinstance(item, kind):
                 raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
-    names = [b.name for b in bodies]
+    names = [b.name for b in bodies] + [n.name for n in nodes]
     if len(set(names)) != len(names):
-        raise InputValueError(f"bodies: names {names} repeat; expected unique names")
-    n = 6 * len(bodies)
+        raise InputValueError(f"bodies/nodes: names {names} repeat; expected unique names")
+    node_at = {n.name: n for n in nodes}
+    for body, node in attached.items():
+        if body not in [b.name for b in bodies] or node not in node_at:
+            raise InputValueError(f"attached: {body!r} -> {node!r}; expected a body and a frame node")
+    owners = [b.name for b in bodies if b.name not in attached] + [n.name for n in nodes]
+    origins = [b.center for b in bodies if b.name not in attached] + [n.point for n in nodes]
+    n = 6 * len(owners)
     mass = np.zeros((n, n))
     stiffness = np.zeros((n, n))
     damping = np.zeros((n, n))
-    for i, b in enumerate(bodies):
-        mass[6 * i : 6 * i + 6, 6 * i : 6 * i + 6] = b.mass_matrix
+    for b in bodies:
+        j = 6 * owners.index(attached.get(b.name, b.name))
+        # A body on a node: its centre moves [[I, -[r]x], [0, I]] q_node with r = cg - node (a rigid link).
+        link = np.eye(6)
+        link[:3, 3:] = -_skew(b.center - origins[j // 6])
+        mass[j : j + 6, j : j + 6] += link.T @ b.mass_matrix @ link
+    for beam in beams:
+        for end in (beam.node_a, beam.node_b):
+            if end not in node_at:
+                raise InputValueError(
+                    f"beam {beam.label!r}: names {end!r}, which is not a node; expected one of {sorted(node_at)}"
+                )
+        kb, mb = beam_matrices(beam, node_at[beam.node_a].point, node_at[beam.node_b].point)
+        dofs = [*range(6 * owners.index(beam.node_a), 6 * owners.index(beam.node_a) + 6)]
+        dofs += [*range(6 * owners.index(beam.node_b), 6 * owners.index(beam.node_b) + 6)]
+        stiffness[np.ix_(dofs, dofs)] += kb
+        mass[np.ix_(dofs, dofs)] += mb
     for m in mounts:
         # The relative motion at the mount point, translations and rotations, in the mount's axes.
         rows = np.zeros((6, n))
         for sign, name in ((1.0, m.body), (-1.0, m.other)):
             if name == GROUND:
                 continue
-            if name not in names:
+            owner = attached.get(name, name)
+            if owner not in owners:
                 raise InputValueError(
-                    f"mount {m.label!r}: names {name!r}, which is not a body; expected one of {names}"
+                    f"mount {m.label!r}: names {name!r}, which is not a body; expected one of {sorted(names)}"
                 )
-            j = names.index(name)
-            rows[:3, 6 * j : 6 * j + 6] += sign * point_motion(bodies[j], m.point)
-            rows[3:, 6 * j + 3 : 6 * j + 6] += sign * np.eye(3)
+            j = 6 * owners.index(owner)
+            rows[:3, j : j + 6] += sign * _motion(origins[j // 6], m.point)
+            rows[3:, j + 3 : j + 6] += sign * np.eye(3)
         local = np.zeros((6, 6))
         local[:3, :3], local[3:, 3:] = m.axes, m.axes
         transform = local @ rows
@@ -347,24 +457,51 @@ def space_model(bodies: Sequence[RigidBody], mounts: Sequence[Mount]) -> SpaceMo
         c = np.diag(np.concatenate([m.damping, m.rotational_damping]))
         stiffness += transform.T @ k @ transform
         damping += transform.T @ c @ transform
-    labels = tuple(f"{b.name}.{d}" for b in bodies for d in DIRECTIONS)
+    for node in fixed:
+        if node not in node_at:
+            raise InputValueError(f"fixed: {node!r} is not a frame node; expected one of {sorted(node_at)}")
+        if node in attached.values():
+            raise InputValueError(f"fixed: node {node!r} carries an attached body; a held node cannot move it")
+    keep = [6 * k + d for k, o in enumerate(owners) if o not in fixed for d in range(6)]
+    mass, stiffness, damping = (a[np.ix_(keep, keep)] for a in (mass, stiffness, damping))
+    origins = [p for o, p in zip(owners, origins, strict=True) if o not in fixed]
+    owners = [o for o in owners if o not in fixed]
+    if not owners:
+        raise InputValueError("fixed: every node is held; nothing can move")
+    labels = tuple(f"{o}.{d}" for o in owners for d in DIRECTIONS)
+    for matrix in (mass, stiffness, damping):
+        # Rotations into element and mount axes leave round-off where an entry is zero: clear it.
+        matrix[np.abs(matrix) < 1e-13 * max(float(np.abs(matrix).max()), 1e-300)] = 0.0
     _refuse_mechanism(mass, stiffness, labels)
-    return SpaceModel(tuple(bodies), tuple(mounts), matrix_model(mass, stiffness, damping, labels))
+    return SpaceModel(
+        tuple(bodies),
+        tuple(mounts),
+        matrix_model(mass, stiffness, damping, labels),
+        tuple(owners),
+        tuple(origins),
+        attached,
+        tuple(beams),
+    )
 
 
 def _refuse_mechanism(mass: np.ndarray, stiffness: np.ndarray, labels: tuple[str, ...]) -> None:
-    # A motion with (numerically) no strain energy is a mechanism: name the coordinate that dominates it.
-    root = 1.0 / np.sqrt(np.diag(mass))
-    scaled = root[:, None] * stiffness * root[None, :]
-    w2, v = np.linalg.eigh(0.5 * (scaled + scaled.T))
-    top = max(float(np.abs(w2).max()), 1e-300)
-    free = np.flatnonzero(w2 <= 1e-10 * top)
-    if free.size:
-        shape = root * v[:, free[0]]
+    # A motion with (numerically) no strain energy is a mechanism: name the coordinate that dominates it. The
+    # stiffness is scaled by its own diagonal, so stiff anchors do not hide a free motion elsewhere.
+    diagonal = np.diag(stiffness).copy()
+    shape = None
+    if np.any(diagonal <= 0.0):
+        shape = (diagonal <= 0.0).astype(float)
+    else:
+        root = 1.0 / np.sqrt(diagonal)
+        scaled = root[:, None] * stiffness * root[None, :]
+        w2, v = np.linalg.eigh(0.5 * (scaled + scaled.T))
+        if w2[0] < 1e-11:
+            shape = root * v[:, 0]
+    if shape is not None:
         dominant = labels[int(np.argmax(np.abs(shape) * np.sqrt(np.diag(mass))))]
         body, direction = dominant.rsplit(".", 1)
         raise InputValueError(
-            f"mounts: the model has a rigid-body mechanism: body {body!r} moves freely ({_WORDS[direction]}); "
+            f"mounts: the model has a rigid-body mechanism: {body!r} moves freely ({_WORDS[direction]}); "
             "add a mount (or a mount stiffness) that resists it"
         )
 
@@ -549,16 +686,15 @@ def space_response(
     n = model.model.size
     rhs = np.zeros((w.size, n), dtype=complex)
     for i, load in enumerate(loads):
-        j = model.index(load.body)
-        body = model.body(load.body)
+        j, motion = model.motion(load.body, load.point)
         given = np.asarray(load.force, dtype=complex)
         if given.ndim not in (1, 2) or given.shape[-1] != 3 or (given.ndim == 2 and given.shape[0] != w.size):
             raise InputValueError(f"loads[{i}]: force: expected three components (per frequency or one for all)")
         force = np.broadcast_to(given, (w.size, 3))
         moment = np.broadcast_to(np.asarray(load.moment, dtype=complex), (w.size, 3))
-        rhs[:, j : j + 6] += force @ point_motion(body, load.point)
+        rhs[:, j : j + 6] += force @ motion
         rhs[:, j + 3 : j + 6] += moment
-    reads = [(model.index(b), point_motion(model.body(b), p)) for b, p in points]
+    reads = [model.motion(b, p) for b, p in points]
     m, k, c = model.model.mass, model.model.stiffness, model.model.damping
     dynamic = k[None] - (w**2)[:, None, None] * m[None] + 1j * w[:, None, None] * c[None]
     q = np.linalg.solve(dynamic, rhs[:, :, None])[:, :, 0]

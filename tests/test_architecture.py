@@ -26,6 +26,7 @@ LAYERS = {
         "frf",
         "torsion",
         "batch",
+        "frame",
         "space",
         "soil",
         "rotor.elements",

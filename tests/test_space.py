@@ -179,7 +179,7 @@ def test_a_rotating_unbalance_on_a_symmetric_mount_draws_a_circle():
                     for i, p in enumerate([[1, 1, 0], [1, -1, 0], [-1, 0, 0]])
                 ],
             ),
-            r"rigid-body mechanism: body 'skid' moves freely",
+            r"rigid-body mechanism: 'skid' moves freely",
         ),
         (
             lambda: space_model(
@@ -230,3 +230,104 @@ def test_block_on_soil_vertical_mode():
     zeta = footing.z.damping_ratio
     assert_allclose(vertical.frequency, wn / (2 * math.pi), rtol=1e-9)
     assert_allclose(vertical.damping_ratio, zeta, rtol=1e-9)
+
+
+# --- steel frames ------------------------------------------------------------------------------------------
+
+E, G, RHO = 210e9, 81e9, 7850.0  # steel
+BW, BH = 0.10, 0.05  # solid rectangle, sides along local y and z [m]
+AREA, IY, IZ = BW * BH, BW * BH**3 / 12, BH * BW**3 / 12  # IY about local y (bending in x-z), IZ about local z
+J = 0.229 * BW * BH**3  # St Venant's torsion constant, b/t = 2 (Roark table 10.7, from memory)
+
+
+def _cantilever(length=2.0, elements=12):
+    from resonance.frame import Beam
+    from resonance.space import FrameNode
+
+    nodes = [FrameNode(f"n{i}", [length * i / elements, 0.0, 0.0]) for i in range(elements + 1)]
+    beams = [Beam(f"b{i}", f"n{i}", f"n{i + 1}", E, G, RHO, AREA, IY, IZ, J) for i in range(elements)]
+    return space_model([], [], nodes, beams, fixed=["n0"])
+
+
+def test_frame_cantilever_against_blevins():
+    # Blevins, Formulas for Natural Frequency and Mode Shape, table 8-1: f1 = 1.87510^2 / (2 pi L^2)
+    # sqrt(E I / (rho A)) in each principal plane; axial f = (1 / 4L) sqrt(E / rho); torsion of a fixed-free
+    # bar f = (1 / 4L) sqrt(G J / (rho Ip)), Ip = Iy + Iz (Blevins table 8-19, from memory).
+    length = 2.0
+    modes = space_modes(_cantilever(length))
+    f = np.array([m.frequency for m in modes])
+    lam = 1.87510407
+    for second in (IY, IZ):
+        expected = lam**2 / (2 * math.pi * length**2) * math.sqrt(E * second / (RHO * AREA))
+        assert np.min(np.abs(f - expected)) / expected < 1e-4
+    axial = math.sqrt(E / RHO) / (4 * length)
+    torsion = math.sqrt(G * J / (RHO * (IY + IZ))) / (4 * length)
+    assert np.min(np.abs(f - axial)) / axial < 1e-3
+    assert np.min(np.abs(f - torsion)) / torsion < 1e-3
+
+
+def test_portal_frame_sway_with_a_machine_on_it():
+    # Two columns of height h clamped at the base, a stiff girder, a machine of mass M fixed on the girder's
+    # middle at its level: sway stiffness 2 x 12 E I / h^3 (columns fixed at both ends), f = sqrt(k / M) / 2 pi
+    # (hand statics), the moving mass being the machine, the girder and 13/35 of each column (Rayleigh with
+    # the fixed-guided static deflection shape; Blevins, table 8-1, from memory).
+    from resonance.frame import Beam
+    from resonance.space import FrameNode
+
+    h, span, mass = 1.5, 2.0, 3000.0
+    nodes = [
+        FrameNode("foot L", [0, 0, 0]),
+        FrameNode("top L", [0, 0, h]),
+        FrameNode("mid", [span / 2, 0, h]),
+        FrameNode("top R", [span, 0, h]),
+        FrameNode("foot R", [span, 0, 0]),
+    ]
+    column = {
+        "youngs_modulus": E,
+        "shear_modulus": G,
+        "density": RHO,
+        "area": AREA,
+        "iy": IY,
+        "iz": IZ,
+        "torsion_constant": J,
+    }
+    girder = {**column, "iy": IY * 1e4, "iz": IZ * 1e4, "torsion_constant": J * 1e4}
+    beams = [
+        Beam("column L", "foot L", "top L", up=np.array([1.0, 0, 0]), **column),
+        Beam("column R", "foot R", "top R", up=np.array([1.0, 0, 0]), **column),
+        Beam("girder 1", "top L", "mid", **girder),
+        Beam("girder 2", "mid", "top R", **girder),
+    ]
+    machine = RigidBody("machine", mass, [span / 2, 0, h], box_inertia(mass, 1.0, 0.8, 0.6))
+    model = space_model([machine], [], nodes, beams, attached={"machine": "mid"}, fixed=["foot L", "foot R"])
+    # Columns bend about local z (up = global x makes local y = x-ish): sway in x uses the I about the axis
+    # normal to the frame's plane; with up = x, local y = up x axis = x x z = -y, so sway in x bends about y.
+    second = IY
+    moving = mass + RHO * AREA * span + 2 * 13 / 35 * RHO * AREA * h
+    expected = math.sqrt(2 * 12 * E * second / h**3 / moving) / (2 * math.pi)
+    sway = next(m for m in space_modes(model) if m.shares["mid.x"] > 0.5)
+    assert sway.frequency == pytest.approx(expected, rel=1e-3)
+    assert sway.words.startswith("mid: sliding in x")
+
+
+def _frame_case(fixed=("a",), beam_end="b"):
+    from resonance.frame import Beam
+    from resonance.space import FrameNode
+
+    nodes = [FrameNode("a", [0, 0, 0]), FrameNode("b", [1, 0, 0])]
+    beam = Beam("tube", "a", beam_end, E, G, RHO, AREA, IY, IZ, J)
+    return space_model([], [], nodes, [beam], fixed=list(fixed))
+
+
+@pytest.mark.parametrize(
+    ("build", "message"),
+    [
+        (lambda: _frame_case(fixed=("z",)), r"fixed: 'z' is not a frame node"),
+        (lambda: _frame_case(beam_end="c"), r"beam 'tube': names 'c', which is not a node"),
+        (lambda: _frame_case(fixed=()), r"rigid-body mechanism: '[ab]' moves freely"),
+        (lambda: _frame_case(fixed=("a", "b")), r"fixed: every node is held"),
+    ],
+)
+def test_bad_frames_are_refused_in_words(build, message):
+    with pytest.raises(R.InputValueError, match=message):
+        build()
