@@ -22,11 +22,12 @@ from _load import one_core_busy
 
 from resonance.rotor.scenario import load_rotor_scenario
 from resonance.scenario import load_scenario
+from resonance.space_study import load_space_scenario
 from resonance.torsion_study import load_torsion_scenario
-from resonance.ui import RotorPanel, TorsionPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
+from resonance.ui import RotorPanel, SpacePanel, TorsionPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
-TARGET_MS = {"01": 50.0, "02": 50.0, "05": 80.0, "07": 50.0}  # single-mode, multi-mode, rotor, torsion panels
+TARGET_MS = {"01": 50.0, "02": 50.0, "05": 80.0, "07": 50.0, "09": 100.0}  # and the space panel (09)
 
 
 def _cases():
@@ -34,6 +35,7 @@ def _cases():
     foundation = load_scenario(SCENARIOS / "feed_pump_foundation.toml")
     fan = load_rotor_scenario(SCENARIOS / "fan_rotor.toml")
     train = load_torsion_scenario(SCENARIOS / "compressor_train.toml")
+    block = load_space_scenario(SCENARIOS / "fan_skid_block.toml")
     return [
         ("01 single mode", single_mode_panel(pump), "damping", (0.04, 0.05)),
         ("02 machine on support", multi_mode_panel(foundation), "damping", (0.03, 0.04)),
@@ -42,6 +44,7 @@ def _cases():
         ("05 rotor: bearing stiffness", RotorPanel(fan), "stiffness", (1.0, 1.05)),
         ("07 torsion: coupling stiffness", TorsionPanel(train), "coupling", (1.0, 1.2)),
         ("07 torsion: damping", TorsionPanel(train), "damping", (0.02, 0.03)),
+        ("09 space: soil shear modulus", SpacePanel(block), "soil", (1.0, 1.2)),
     ]
 
 

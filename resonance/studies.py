@@ -32,6 +32,7 @@ from .units import UnitSystem
 __all__ = [
     "STUDY_KINDS",
     "RotorStudy",
+    "SpaceStudy",
     "StudyKind",
     "StudyOutcome",
     "SupportStudy",
@@ -246,6 +247,43 @@ class TorsionStudy:
         )
 
 
+class SpaceStudy:
+    """Supports in space: rigid bodies, frames, mounts and soil; modes in words, findings, bearing response."""
+
+    name = "space"
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """Scenarios with a ``[space]`` table."""
+        return "space" in tables
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """See :func:`resonance.space_study.parse_space_scenario`."""
+        from .space_study import parse_space_scenario
+
+        return parse_space_scenario(tables, source)
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """None: the study reads no measurement file."""
+        return []
+
+    def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
+        """See :func:`resonance.space_study.run_space_study`."""
+        from .space_study import build_space_record, run_space_study
+
+        result = run_space_study(scenario)
+        return StudyOutcome(
+            self.name,
+            scenario.title,
+            scenario.units,
+            result,
+            result.passed,
+            result.summary(scenario.units),
+            result.findings,
+            (),
+            build_space_record(result),
+        )
+
+
 def support_outcome(
     result: Any, field: Any = None, record: Record | None = None, uncertainty: Any = None, fixes: Any = None
 ) -> StudyOutcome:
@@ -342,7 +380,7 @@ def rotor_outcome(result: Any, record: Record | None = None, uncertainty: Any = 
 
 
 #: The registry of kinds, asked in order; the first that claims a scenario runs it.
-STUDY_KINDS: list[StudyKind] = [TorsionStudy(), RotorStudy(), SupportStudy()]
+STUDY_KINDS: list[StudyKind] = [SpaceStudy(), TorsionStudy(), RotorStudy(), SupportStudy()]
 
 
 def register_study_kind(kind: StudyKind, first: bool = True) -> None:
@@ -389,7 +427,7 @@ def study_kind_for(tables: Mapping[str, Any], source: str) -> StudyKind:
         if kind.claims(tables):
             return kind
     raise ScenarioError(
-        f"{source}: no [model], [rotor] or [torsion] table; expected one of the study kinds "
+        f"{source}: no [model], [rotor], [torsion] or [space] table; expected one of the study kinds "
         f"{[k.name for k in STUDY_KINDS]}"
     )
 

@@ -129,6 +129,7 @@ EXPECTED_TEXT = {
     "06_field_verification.ipynb": "Field verdict:",
     "07_torsional_train.ipynb": "Forced torque:",
     "08_uncertainty_and_fixes.ipynb": "Probability that a margin fails",
+    "09_supports_in_space.ipynb": "1x vibration at the probes",
 }
 
 

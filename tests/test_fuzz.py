@@ -155,3 +155,36 @@ def test_mutated_torsion_scenarios_give_a_record_or_a_named_error(data):
     table = _mutate(TORSION, data)
     name = "compressor_train.toml"
     _run(lambda: build_torsion_record(run_torsion_study(parse_torsion_scenario(table, name))), name)
+
+
+SPACE = read_scenario_file(SCENARIOS / "fan_skid_block.toml")
+
+
+@given(data=st.data())
+@settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+def test_mutated_space_scenarios_give_a_record_or_a_named_error(data):
+    from resonance.space_study import build_space_record, parse_space_scenario, run_space_study
+
+    table = _mutate(SPACE, data)
+    name = "fan_skid_block.toml"
+    _run(lambda: build_space_record(run_space_study(parse_space_scenario(table, name))), name)
+
+
+BOOSTER = read_scenario_file(SCENARIOS / "feed_pump_foundation.toml")
+
+
+@given(data=st.data())
+@settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+def test_mutated_uncertainty_tables_are_read_or_refused_in_words(data):
+    # The [uncertainty] table alone is mutated; its spec is validated (no sampling run: that is tested elsewhere).
+    from resonance.uncertainty import uncertainty_spec
+
+    table = copy.deepcopy(BOOSTER)
+    mutated = _mutate({"uncertainty": table["uncertainty"]}, data)
+    name = "feed_pump_foundation.toml"
+    try:
+        scenario = parse_scenario({**table, "uncertainty": mutated.get("uncertainty", {})}, name)
+        if scenario.uncertainty:
+            uncertainty_spec(scenario.uncertainty, scenario, name)
+    except (InputValueError, InputTypeError) as error:
+        assert str(error).startswith(f"{name}:"), f"error does not name the file: {error}"

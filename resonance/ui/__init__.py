@@ -7,6 +7,7 @@ and panels edit a scenario and re-run its study.
 from .field_panel import FieldPanel
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
+from .space_panel import SpacePanel
 from .torsion_panel import TorsionPanel
 from .uncertainty_panel import UncertaintyPanel
 from .widgets import caution_banner
@@ -16,6 +17,7 @@ __all__ = [
     "FieldPanel",
     "RecordPanel",
     "RotorPanel",
+    "SpacePanel",
     "TorsionPanel",
     "UncertaintyPanel",
     "WhatIfPanel",

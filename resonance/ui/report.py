@@ -20,6 +20,7 @@ from ..tables import atomic_write
 from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
+from .space_plots import space_modes_html, space_response_figure, space_shape_figure
 from .torsion_plots import torque_figure, torque_table_html, torsion_modes_html, torsion_shape_figure
 from .uncertainty_plots import failure_probability_figure, sensitivity_figure, worst_margin_figure
 
@@ -180,12 +181,23 @@ def _torsion_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     return tables, figures
 
 
+def _space_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
+    result, system = outcome.result, outcome.units
+    figures = [
+        interference_figure(result, system),
+        space_response_figure(result, system),
+        *(space_shape_figure(result, i) for i in range(min(3, len(result.shapes)))),
+    ]
+    return [("Modes in space", space_modes_html(result, system))], figures
+
+
 #: Each kind of study's own tables (HTML, with a heading) and figures in its record (the presentation half of
 #: the study registry); a kind without an entry shows its findings and record only.
 VIEWS: dict[str, Callable[[StudyOutcome], tuple[list[tuple[str, str]], list]]] = {
     "support": _support_view,
     "rotor": _rotor_view,
     "torsion": _torsion_view,
+    "space": _space_view,
 }
 
 

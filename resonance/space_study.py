@@ -1,0 +1,884 @@
+"""The flow for supports in space: bodies, frame, mounts and soil, through modes and findings to a record.
+
+A ``[space]`` scenario gives the model; the study gives its modes in words, the findings, the response at the
+bearings in every direction and the ISO zones; the record keeps it all.
+
+A scenario file with a ``[space]`` table (see ``notebooks/scenarios/fan_skid_block.toml``)::
+
+    [space]
+    damping_ratio = 0.02                 # modal, on top of the mounts' and the soil's dashpots
+    bodies = [
+      { name = "fan", mass = "2400 kg", center = ["0 m", "0 m", "1.9 m"], box = ["2.0 m", "1.4 m", "1.5 m"] },
+      { name = "block", mass = "52000 kg", center = ["0 m", "0 m", "0.6 m"],
+        inertia = [["70000 kg*m**2", "0 kg*m**2", ...], [...], [...]] },   # or box = [lx, ly, lz]
+    ]
+    mounts = [{ label = "isolator 1", body = "fan", other = "block", point = ["0.9 m", "0.6 m", "1.2 m"],
+                stiffness = ["1.5 kN/mm", "1.5 kN/mm", "4 kN/mm"], damping = ["3 kN*s/m", "3 kN*s/m", "6 kN*s/m"] }]
+    soil = { body = "block", shear_modulus = "70 MPa", poisson_ratio = 0.33, density = "1900 kg/m**3",
+             width_x = "5 m", width_y = "4 m", embedment = "0.5 m" }   # or radius = "..."
+    nodes = [{ name = "n1", point = [...] }]                                 # a steel frame (optional)
+    beams = [{ label = "rail", between = ["n1", "n2"], youngs_modulus = "210 GPa", shear_modulus = "81 GPa",
+               density = "7850 kg/m**3", area = 0.004, iy = 2e-5, iz = 4e-6, torsion_constant = 2e-7 }]
+    fixed = ["n1"]                    # frame nodes held
+    attached = { fan = "n3" }         # bodies fixed rigidly to a node
+    unbalance = [{ body = "fan", point = [...], axis = [1, 0, 0], amount = "2500 g*mm" }]   # or balance_grade
+    probes = [{ label = "fan DE bearing", body = "fan", point = [...] }]
+
+The soil is the footing under its body's base (the lowest face of the body's box, or ``point``), with the
+stiffness and radiation damping of :mod:`resonance.soil`; its mass ratios take every body's mass and
+inertia. Every mode (kind ``"structural"``) is checked against every excitation by the flat margin
+(``margin.flat``); the unbalances rotate at 1x over the speeds; each probe's casing velocity in x, y and z
+(RMS of the 1x response) is compared with the ISO 10816-3 zones (an estimate: the zones are broadband field
+criteria). ``[whatif] tolerance`` sets a band on the mounts' stiffness and the soil's shear modulus checked
+together. Errors name the file and the field.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import datetime as _dt
+import math
+import os
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from .damping import modal_damping
+from .errors import InputValueError
+from .excitations import Excitation, permissible_unbalance
+from .frame import Beam
+from .harmonic import convert_amplitude
+from .interference import FindingsTable, interference_check, verdict_line, verdict_of
+from .limits import iso_velocity_zone, support_class
+from .model import matrix_model
+from .modes import Mode
+from .record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
+from .rules import RuleSet
+from .soil import FootingImpedance, footing_impedance, soil_mount
+from .space import (
+    FrameNode,
+    Mount,
+    RigidBody,
+    SpaceMode,
+    SpaceModel,
+    box_inertia,
+    rotating_unbalance,
+    space_model,
+    space_modes,
+    space_response,
+)
+from .speed_range import OperatingRange
+from .tables import (
+    MotorSpec,
+    ScenarioError,
+    RecordSpec,
+    TableReader,
+    parse_excitations,
+    parse_head,
+    parse_motor,
+    parse_record,
+    parse_rules,
+    parse_speed,
+    read_scenario_bytes,
+)
+from .units import UnitSystem, display_unit
+
+__all__ = [
+    "SoilSpec",
+    "SpaceScenario",
+    "SpaceStudyResult",
+    "build_space_record",
+    "load_space_scenario",
+    "parse_space_scenario",
+    "run_space_study",
+]
+
+SPACE_METHODS: tuple[tuple[str, str], ...] = (
+    (
+        "Rigid bodies with six coordinates on mounts (small rotations), steel frames of 12 x 12 beam elements",
+        "Harris' Shock and Vibration Handbook, 5th ed., ch. 30; Przemieniecki, Theory of Matrix Structural "
+        "Analysis, 1968 (from memory)",
+    ),
+    (
+        "Soil: rigid footing on an elastic half-space, equivalent radii, radiation damping from mass ratios",
+        "Richart, Hall & Woods, Vibrations of Soils and Foundations, 1970 (from memory)",
+    ),
+)
+
+
+@dataclass(frozen=True)
+class SoilSpec:
+    """The soil under a body, as given.
+
+    Attributes
+    ----------
+    body : str
+        The block.
+    point : numpy.ndarray
+        Centre of the footing's base [m].
+    shear_modulus, poisson_ratio, density : float
+        ``G`` [Pa], ``nu`` [-], ``rho`` [kg/m^3].
+    radius : float or None
+        A circular footing's radius [m].
+    width_x, width_y : float or None
+        A rectangular footing's sides [m].
+    embedment : float
+        [m].
+    """
+
+    body: str
+    point: np.ndarray
+    shear_modulus: float
+    poisson_ratio: float
+    density: float
+    radius: float | None
+    width_x: float | None
+    width_y: float | None
+    embedment: float
+
+
+@dataclass(frozen=True)
+class SpaceScenario:
+    """A validated supports-in-space scenario.
+
+    Attributes
+    ----------
+    title, description : str
+        As written.
+    units : {"SI", "US"}
+        Display units.
+    speed : OperatingRange
+        Speeds of continuous operation [rpm].
+    excitations : tuple of Excitation
+        Orders, electrical and fixed sources.
+    rules : RuleSet
+        Margin rules (a flat margin is required).
+    bodies, mounts, nodes, beams : tuple
+        The model as given.
+    fixed : tuple of str
+        Frame nodes held.
+    attached : dict of str to str
+        Bodies fixed to nodes.
+    soil : SoilSpec or None
+        The soil under a block.
+    damping_ratio : float
+        Modal damping on top of the dashpots [-].
+    unbalance : tuple of (str, numpy.ndarray, numpy.ndarray, float)
+        Body, point, shaft axis and ``m e`` [kg m] of each unbalance.
+    probes : tuple of (str, str, numpy.ndarray)
+        Label, body and point of each reading.
+    group : {1, 2}
+        ISO machine group.
+    support : {"rigid", "flexible"}
+        Declared support class.
+    tolerance : float
+        What-if band on mount stiffness and soil shear modulus [-].
+    tables : dict
+        As read.
+    source : str
+        The file name.
+    motor : MotorSpec or None
+        The motor.
+    record : RecordSpec
+        Revision fields.
+    sha256 : str or None
+        SHA-256 of the file's bytes.
+    """
+
+    title: str
+    description: str
+    units: UnitSystem
+    speed: OperatingRange
+    excitations: tuple[Excitation, ...]
+    rules: RuleSet
+    bodies: tuple[RigidBody, ...]
+    mounts: tuple[Mount, ...]
+    nodes: tuple[FrameNode, ...]
+    beams: tuple[Beam, ...]
+    fixed: tuple[str, ...]
+    attached: dict[str, str]
+    soil: SoilSpec | None
+    damping_ratio: float
+    unbalance: tuple[tuple[str, np.ndarray, np.ndarray, float], ...]
+    probes: tuple[tuple[str, str, np.ndarray], ...]
+    group: int
+    support: str
+    tolerance: float
+    tables: dict[str, Any] = dataclasses.field(compare=False)
+    source: str = "<space scenario>"
+    motor: MotorSpec | None = None
+    record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
+    sha256: str | None = dataclasses.field(default=None, compare=False)
+
+    def replace(self, **changes: Any) -> SpaceScenario:
+        """A copy with some fields changed (the copy has no file hash unless given).
+
+        Parameters
+        ----------
+        **changes
+            Fields to change.
+
+        Returns
+        -------
+        SpaceScenario
+
+        Raises
+        ------
+        TypeError
+            An unknown field.
+        """
+        return dataclasses.replace(self, **{"sha256": None, **changes})
+
+    def footing(self, shear_factor: float = 1.0) -> FootingImpedance | None:
+        """The soil's impedance (None without soil), with the shear modulus scaled.
+
+        Parameters
+        ----------
+        shear_factor : float
+            Factor on ``G`` [-].
+
+        Returns
+        -------
+        FootingImpedance or None
+
+        Raises
+        ------
+        InputValueError
+            A factor the soil formulas refuse.
+        """
+        if self.soil is None:
+            return None
+        s = self.soil
+        mass = sum(b.mass for b in self.bodies)
+        inertia = np.zeros((3, 3))
+        for b in self.bodies:  # every body about the footing's base centre (parallel axes)
+            r = b.center - s.point
+            inertia += b.inertia + b.mass * (float(r @ r) * np.eye(3) - np.outer(r, r))
+        return footing_impedance(
+            s.shear_modulus * shear_factor,
+            s.poisson_ratio,
+            s.density,
+            mass,
+            inertia[0, 0],
+            inertia[1, 1],
+            inertia[2, 2],
+            s.radius,
+            s.width_x,
+            s.width_y,
+            s.embedment,
+        )
+
+    def build(
+        self, mount_factor: float = 1.0, shear_factor: float = 1.0, damping_ratio: float | None = None
+    ) -> SpaceModel:
+        """The assembled model with the mounts' stiffness and the soil's shear modulus scaled.
+
+        Parameters
+        ----------
+        mount_factor : float
+            Factor on every mount's stiffness [-] (> 0).
+        shear_factor : float
+            Factor on the soil's shear modulus [-] (> 0).
+        damping_ratio : float, optional
+            Modal damping ratio instead of the scenario's.
+
+        Returns
+        -------
+        SpaceModel
+
+        Raises
+        ------
+        InputValueError
+            A factor that is not finite and > 0, a mechanism.
+        """
+        for name, value in (("mount_factor", mount_factor), ("shear_factor", shear_factor)):
+            if not (math.isfinite(value) and value > 0.0):
+                raise InputValueError(f"{name}: got {value!r}; expected a finite factor > 0")
+        mounts = [
+            dataclasses.replace(
+                m, stiffness=m.stiffness * mount_factor, rotational_stiffness=m.rotational_stiffness * mount_factor
+            )
+            for m in self.mounts
+        ]
+        footing = self.footing(shear_factor)
+        if footing is not None and self.soil is not None:
+            mounts.append(soil_mount(footing, self.soil.body, self.soil.point))
+        model = space_model(self.bodies, mounts, self.nodes, self.beams, self.attached, self.fixed)
+        zeta = self.damping_ratio if damping_ratio is None else damping_ratio
+        if zeta > 0.0:
+            m = model.model
+            damping = m.damping + modal_damping(m.mass, m.stiffness, zeta)
+            damping[np.abs(damping) < 1e-13 * float(np.abs(damping).max())] = 0.0  # round-off, not damping
+            model = dataclasses.replace(model, model=matrix_model(m.mass, m.stiffness, damping, m.labels))
+        return model
+
+
+def _point(r: TableReader, raw: Any, field: str) -> np.ndarray:
+    if not isinstance(raw, list) or len(raw) != 3:
+        raise r.fail(field, f"got {raw!r}; expected three coordinates [x, y, z]")
+    return np.array([r.value(v, f"{field}[{i}]", "length") for i, v in enumerate(raw)])
+
+
+def _triple(r: TableReader, item: Mapping[str, Any], key: str, field: str, kind: Any) -> np.ndarray:
+    raw = item.get(key, [0.0, 0.0, 0.0])
+    if not isinstance(raw, list) or len(raw) != 3:
+        raise r.fail(f"{field}.{key}", f"got {raw!r}; expected three values (x, y, z)")
+    return np.array([r.value(v, f"{field}.{key}[{i}]", kind, "nonnegative") for i, v in enumerate(raw)])
+
+
+def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario>") -> SpaceScenario:
+    """Validate a supports-in-space scenario given as nested tables (as read from TOML).
+
+    Parameters
+    ----------
+    data : mapping
+        The scenario's tables.
+    source : str
+        The file name errors start with.
+
+    Returns
+    -------
+    SpaceScenario
+
+    Raises
+    ------
+    ScenarioError
+        Any missing, unknown or invalid field, a body with a non-physical inertia, a mount without stiffness,
+        a mechanism; the message names ``source`` and the field.
+    """
+    r = TableReader(source)
+    r.known(data, ("scenario", "speed", "excitations", "motor", "margin", "space", "vibration", "whatif", "record"), "")
+    title, description, units = parse_head(r, data)
+    speed = parse_speed(r, r.table(data, "speed", "speed"))
+    motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
+    rules = parse_rules(r, r.table(data, "margin", "margin", required=False))
+    if rules.flat is None:
+        raise r.fail("margin.flat", "missing; supports are kept a flat margin from every excitation, e.g. flat = 15")
+    t = r.table(data, "space", "space")
+    r.known(
+        t,
+        ("damping_ratio", "bodies", "mounts", "soil", "nodes", "beams", "fixed", "attached", "unbalance", "probes"),
+        "space",
+    )
+    zeta = r.value(t.get("damping_ratio", 0.0), "space.damping_ratio", "ratio", "nonnegative")
+    if not zeta < 1.0:
+        raise r.fail("space.damping_ratio", f"got {zeta:g}; expected a ratio below 1")
+    bodies = []
+    for i, item in enumerate(r.array(t, "bodies", "space.bodies")):
+        field = f"space.bodies[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with name, mass, center and box or inertia")
+        r.known(item, ("name", "mass", "center", "box", "inertia"), field)
+        mass = r.quantity(item, "mass", f"{field}.mass", "mass", "positive")
+        if ("box" in item) == ("inertia" in item):
+            raise r.fail(field, "give exactly one of box (edge lengths) or inertia (a 3 x 3 tensor)")
+        if "box" in item:
+            box = item["box"]
+            if not isinstance(box, list) or len(box) != 3:
+                raise r.fail(f"{field}.box", f"got {box!r}; expected three edge lengths")
+            inertia = box_inertia(
+                mass, *(r.value(v, f"{field}.box[{k}]", "length", "positive") for k, v in enumerate(box))
+            )
+        else:
+            rows = item["inertia"]
+            if (
+                not isinstance(rows, list)
+                or len(rows) != 3
+                or not all(isinstance(x, list) and len(x) == 3 for x in rows)
+            ):
+                raise r.fail(f"{field}.inertia", "expected three rows of three values")
+            inertia = np.array(
+                [
+                    [r.value(v, f"{field}.inertia[{a}][{b}]", "inertia") for b, v in enumerate(row)]
+                    for a, row in enumerate(rows)
+                ]
+            )
+        try:
+            bodies.append(
+                RigidBody(
+                    r.text(item, "name", f"{field}.name"),
+                    mass,
+                    _point(r, item.get("center"), f"{field}.center"),
+                    inertia,
+                )
+            )
+        except ScenarioError:
+            raise  # already names the file and the field
+        except InputValueError as error:
+            raise r.fail(field, str(error)) from None
+    mounts = []
+    for i, item in enumerate(r.array(t, "mounts", "space.mounts", required=False)):
+        field = f"space.mounts[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table")
+        r.known(
+            item,
+            ("label", "body", "other", "point", "stiffness", "damping", "rotational_stiffness", "rotational_damping"),
+            field,
+        )
+        try:
+            mounts.append(
+                Mount(
+                    r.text(item, "label", f"{field}.label", f"mount {i + 1}"),
+                    _point(r, item.get("point"), f"{field}.point"),
+                    r.text(item, "body", f"{field}.body"),
+                    r.text(item, "other", f"{field}.other", "ground"),
+                    _triple(r, item, "stiffness", field, "stiffness"),
+                    _triple(r, item, "damping", field, "damping"),
+                    _triple(r, item, "rotational_stiffness", field, "moment_stiffness"),
+                    _triple(r, item, "rotational_damping", field, "ratio"),
+                )
+            )
+        except ScenarioError:
+            raise  # already names the file and the field
+        except InputValueError as error:
+            raise r.fail(field, str(error)) from None
+    soil = None
+    if "soil" in t:
+        s = r.table(t, "soil", "space.soil")
+        r.known(
+            s,
+            ("body", "point", "shear_modulus", "poisson_ratio", "density", "radius", "width_x", "width_y", "embedment"),
+            "space.soil",
+        )
+        body_name = r.text(s, "body", "space.soil.body")
+        owner = next((b for b in bodies if b.name == body_name), None)
+        if owner is None:
+            raise r.fail("space.soil.body", f"got {body_name!r}; expected one of {[b.name for b in bodies]}")
+        if "point" in s:
+            base = _point(r, s["point"], "space.soil.point")
+        else:  # the lowest face of the body's box: its centre minus half the height
+            half = (
+                math.sqrt(
+                    max(
+                        12.0 * (owner.inertia[0, 0] + owner.inertia[1, 1] - owner.inertia[2, 2]) / (2 * owner.mass), 0.0
+                    )
+                )
+                / 2
+            )
+            base = np.round(owner.center - np.array([0.0, 0.0, half]), 9)  # to the nanometre: no round-off
+        lengths = {
+            k: r.quantity(s, k, f"space.soil.{k}", "length", "positive")
+            for k in ("radius", "width_x", "width_y")
+            if k in s
+        }
+        soil = SoilSpec(
+            body_name,
+            base,
+            r.quantity(s, "shear_modulus", "space.soil.shear_modulus", "pressure", "positive"),
+            r.quantity(s, "poisson_ratio", "space.soil.poisson_ratio", "ratio", "nonnegative"),
+            r.quantity(s, "density", "space.soil.density", "density", "positive"),
+            lengths.get("radius"),
+            lengths.get("width_x"),
+            lengths.get("width_y"),
+            r.value(s.get("embedment", 0.0), "space.soil.embedment", "length", "nonnegative"),
+        )
+    nodes = []
+    for i, item in enumerate(r.array(t, "nodes", "space.nodes", required=False)):
+        field = f"space.nodes[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with name and point")
+        r.known(item, ("name", "point"), field)
+        try:
+            nodes.append(
+                FrameNode(r.text(item, "name", f"{field}.name"), _point(r, item.get("point"), f"{field}.point"))
+            )
+        except ScenarioError:
+            raise  # already names the file and the field
+        except InputValueError as error:
+            raise r.fail(field, str(error)) from None
+    beams = []
+    for i, item in enumerate(r.array(t, "beams", "space.beams", required=False)):
+        field = f"space.beams[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table")
+        keys = ("youngs_modulus", "shear_modulus", "density", "area", "iy", "iz", "torsion_constant")
+        r.known(item, ("label", "between", "up", *keys), field)
+        between = r.array(item, "between", f"{field}.between")
+        if len(between) != 2 or not all(isinstance(x, str) for x in between):
+            raise r.fail(f"{field}.between", f"got {between!r}; expected two node names")
+        kinds = ("pressure", "pressure", "density", "ratio", "ratio", "ratio", "ratio")
+        values = [r.quantity(item, k, f"{field}.{k}", kind, "positive") for k, kind in zip(keys, kinds, strict=True)]  # type: ignore[arg-type]
+        up = None
+        if "up" in item:
+            raw = item["up"]
+            if not isinstance(raw, list) or len(raw) != 3:
+                raise r.fail(f"{field}.up", f"got {raw!r}; expected a direction [x, y, z]")
+            up = np.array([r.value(v, f"{field}.up[{k}]", "ratio") for k, v in enumerate(raw)])
+        try:
+            e, g, rho, area, iy, iz, j = values
+            label = r.text(item, "label", f"{field}.label", f"{between[0]}-{between[1]}")
+            beams.append(Beam(label, between[0], between[1], e, g, rho, area, iy, iz, j, up))
+        except ScenarioError:
+            raise  # already names the file and the field
+        except InputValueError as error:
+            raise r.fail(field, str(error)) from None
+    fixed = tuple(str(x) for x in r.array(t, "fixed", "space.fixed", required=False))
+    attached = {str(k): str(v) for k, v in r.table(t, "attached", "space.attached", required=False).items()}
+    unbalance = []
+    rotor_speed = speed.speed_max
+    for i, item in enumerate(r.array(t, "unbalance", "space.unbalance", required=False)):
+        field = f"space.unbalance[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table")
+        r.known(item, ("body", "point", "axis", "amount", "balance_grade", "rotor_mass"), field)
+        if "amount" in item:
+            amount = r.quantity(item, "amount", f"{field}.amount", "unbalance", "positive")
+        elif "balance_grade" in item and "rotor_mass" in item:
+            amount = permissible_unbalance(
+                r.quantity(item, "balance_grade", f"{field}.balance_grade", "balance_grade", "positive"),
+                r.quantity(item, "rotor_mass", f"{field}.rotor_mass", "mass", "positive"),
+                rotor_speed,
+            )
+        else:
+            raise r.fail(field, "give amount, or balance_grade with rotor_mass")
+        axis_raw = item.get("axis")
+        if not isinstance(axis_raw, list) or len(axis_raw) != 3:
+            raise r.fail(f"{field}.axis", f"got {axis_raw!r}; expected the shaft direction [x, y, z]")
+        axis = np.array([r.value(v, f"{field}.axis[{k}]", "ratio") for k, v in enumerate(axis_raw)])
+        if not np.linalg.norm(axis) > 0.0:
+            raise r.fail(f"{field}.axis", "got a zero vector; expected the shaft direction")
+        unbalance.append(
+            (r.text(item, "body", f"{field}.body"), _point(r, item.get("point"), f"{field}.point"), axis, amount)
+        )
+    probes = []
+    for i, item in enumerate(r.array(t, "probes", "space.probes", required=False)):
+        field = f"space.probes[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with label, body and point")
+        r.known(item, ("label", "body", "point"), field)
+        probes.append(
+            (
+                r.text(item, "label", f"{field}.label", f"probe {i + 1}"),
+                r.text(item, "body", f"{field}.body"),
+                _point(r, item.get("point"), f"{field}.point"),
+            )
+        )
+    vibration = r.table(data, "vibration", "vibration", required=False)
+    r.known(vibration, ("group", "support"), "vibration")
+    group = r.integer(vibration, "group", "vibration.group", 2)
+    support = r.text(vibration, "support", "vibration.support", "rigid")
+    if group not in (1, 2) or support not in ("rigid", "flexible"):
+        raise r.fail(
+            "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
+        )
+    whatif = r.table(data, "whatif", "whatif", required=False)
+    r.known(whatif, ("tolerance",), "whatif")
+    tolerance = r.value(whatif.get("tolerance", 0.3), "whatif.tolerance", "ratio", "nonnegative")
+    if not tolerance < 1.0:
+        raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1")
+    scenario = SpaceScenario(
+        title,
+        description,
+        units,
+        speed,
+        parse_excitations(r, r.array(data, "excitations", "excitations"), motor),
+        rules,
+        tuple(bodies),
+        tuple(mounts),
+        tuple(nodes),
+        tuple(beams),
+        fixed,
+        attached,
+        soil,
+        zeta,
+        tuple(unbalance),
+        tuple(probes),
+        group,
+        support,
+        tolerance,
+        _plain(data),
+        source,
+        motor,
+        parse_record(r, r.table(data, "record", "record", required=False)),
+    )
+    try:
+        model = scenario.build()
+        for _label, body, point in scenario.probes:
+            model.motion(body, point)
+        for body, point, _axis, _amount in scenario.unbalance:
+            model.motion(body, point)
+    except InputValueError as error:
+        raise r.fail("space", str(error)) from None
+    return scenario
+
+
+def _plain(value: Any) -> Any:
+    # The tables as JSON-ready values (a TOML date becomes its ISO text).
+    if isinstance(value, Mapping):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, list):
+        return [_plain(v) for v in value]
+    if isinstance(value, (str, int, float, bool)) or value is None:
+        return value
+    return value.isoformat() if hasattr(value, "isoformat") else str(value)
+
+
+def load_space_scenario(path: str | os.PathLike[str]) -> SpaceScenario:
+    """Read and validate a supports-in-space scenario file (TOML). The file is only read.
+
+    Parameters
+    ----------
+    path : path-like
+        The scenario file.
+
+    Returns
+    -------
+    SpaceScenario
+        With the file's SHA-256.
+
+    Raises
+    ------
+    ScenarioError
+        The file cannot be read, is not TOML, or has an invalid field.
+    """
+    data, sha256 = read_scenario_bytes(path)
+    return parse_space_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
+
+
+@dataclass(frozen=True)
+class SpaceStudyResult:
+    """Everything one run of a supports-in-space scenario gives.
+
+    Attributes
+    ----------
+    scenario : SpaceScenario
+        The scenario run.
+    model : SpaceModel
+        The assembled model.
+    shapes : tuple of SpaceMode
+        The modes with what moves in words.
+    modes : tuple of Mode
+        The same as structural modes for the interference check.
+    findings : FindingsTable
+        Every mode against every excitation, worst first.
+    speed : numpy.ndarray
+        Speeds of the response [rpm].
+    displacement : numpy.ndarray
+        Complex 1x displacement at each probe, ``speeds x probes x 3`` [m, 0-peak].
+    velocity_rms : numpy.ndarray
+        RMS velocity per probe and direction over the speeds [m/s], ``speeds x probes x 3``.
+    peak_velocity : tuple of (float, float, str)
+        Per probe: the largest RMS velocity over the speeds of continuous operation [m/s], its speed [rpm]
+        and its ISO zone.
+    support_used : {"rigid", "flexible"}
+        The zone boundaries used (rigid where either the declared or the computed class is rigid).
+    """
+
+    scenario: SpaceScenario
+    model: SpaceModel
+    shapes: tuple[SpaceMode, ...]
+    modes: tuple[Mode, ...]
+    findings: FindingsTable
+    speed: np.ndarray
+    displacement: np.ndarray
+    velocity_rms: np.ndarray
+    peak_velocity: tuple[tuple[float, float, str], ...]
+    support_used: str
+
+    @property
+    def passed(self) -> bool:
+        """True when every margin passes."""
+        return self.findings.passed
+
+    @property
+    def verdict(self) -> str:
+        """``"PASS"`` or ``"FAIL"``."""
+        return verdict_of(self.passed, self.findings)
+
+    def summary(self, system: UnitSystem = "SI") -> str:
+        """The verdict, the modes in words and each probe's largest velocity, as text.
+
+        Parameters
+        ----------
+        system : {"SI", "US"}
+            Display units.
+
+        Returns
+        -------
+        str
+
+        Raises
+        ------
+        ValueError
+            An unknown unit system.
+        """
+        f_unit, f_factor = display_unit("frequency", system)
+        v_unit, v_factor = display_unit("velocity", system)
+        digits = 2 if system == "SI" else 0
+        modes = "; ".join(f"{s.frequency * f_factor:.{digits}f} {f_unit} {s.words}" for s in self.shapes[:6])
+        probes = "; ".join(
+            f"{label} {v * v_factor:.3g} {v_unit} RMS at {n:.0f} rpm (zone {z}, estimate)"
+            for (label, _b, _p), (v, n, z) in zip(self.scenario.probes, self.peak_velocity, strict=True)
+        )
+        return (
+            f"{verdict_line(self.verdict, self.findings)}\n"
+            f"Lowest modes: {modes}\n"
+            f"Margins: {self.findings.summary()}\n"
+            f"1x vibration at the probes: {probes or 'no probe given'}"
+        )
+
+
+def run_space_study(
+    scenario: SpaceScenario, mount_factor: float = 1.0, shear_factor: float = 1.0, points: int = 240
+) -> SpaceStudyResult:
+    """Run every check of a supports-in-space scenario.
+
+    Parameters
+    ----------
+    scenario : SpaceScenario
+        The validated scenario.
+    mount_factor, shear_factor : float
+        What-if factors on the mounts' stiffness and the soil's shear modulus [-].
+    points : int
+        Speeds of the response.
+
+    Returns
+    -------
+    SpaceStudyResult
+
+    Raises
+    ------
+    InputValueError
+        A factor that is not finite and > 0, or that makes a mechanism.
+    """
+    model = scenario.build(mount_factor, shear_factor)
+    shapes = tuple(space_modes(model))
+    modes = tuple(
+        Mode(
+            s.frequency,
+            s.damping_ratio,
+            f"mode {i + 1} ({s.words})",
+            "model",
+            kind="structural",
+            af_source="1/(2 zeta) of the model's damping",
+        )
+        for i, s in enumerate(shapes)
+        if s.frequency > 0.0
+    )
+    findings = interference_check(list(modes), list(scenario.excitations), scenario.speed, scenario.rules)
+    low, high = 0.5 * scenario.speed.speed_min, 1.3 * scenario.speed.speed_max
+    grid = [np.linspace(low, high, points)]
+    grid += [np.array([60.0 * m.frequency]) for m in modes if low < 60.0 * m.frequency < high]
+    speed = np.unique(np.concatenate(grid))
+    f = speed / 60.0
+    loads = [rotating_unbalance(b, p, a, u, f) for b, p, a, u in scenario.unbalance]
+    points_read = [(b, p) for _label, b, p in scenario.probes]
+    if loads and points_read:
+        displacement = space_response(model, loads, f, points_read)
+    else:
+        displacement = np.zeros((speed.size, len(points_read), 3), dtype=complex)
+    # 0-peak displacement to RMS velocity of a sine: w |u| / sqrt(2) (the factor of convert_amplitude).
+    velocity = (
+        np.abs(displacement) * (2.0 * math.pi * f)[:, None, None] * float(convert_amplitude(1.0, "peak", "rms")[0])
+    )
+    computed = support_class(min(m.frequency for m in modes), scenario.speed.speed_max)
+    used = "rigid" if "rigid" in (computed, scenario.support) else "flexible"
+    running = np.array([scenario.speed.contains(n) for n in speed])
+    peaks = []
+    for k in range(len(points_read)):
+        v = velocity[:, k, :].max(axis=1)
+        v_run = np.where(running, v, -1.0)
+        i = int(np.argmax(v_run))
+        zone = iso_velocity_zone(max(float(v_run[i]), 0.0), scenario.group, used)[0]  # type: ignore[arg-type]
+        peaks.append((float(v_run[i]), float(speed[i]), zone))
+    return SpaceStudyResult(scenario, model, shapes, modes, findings, speed, displacement, velocity, tuple(peaks), used)
+
+
+def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = None) -> Record:
+    """Build the record of a supports-in-space study (text in the scenario's units, JSON in SI).
+
+    Parameters
+    ----------
+    result : SpaceStudyResult
+        The study to record.
+    created : datetime, optional
+        Time stamp (now, UTC, if omitted).
+
+    Returns
+    -------
+    Record
+
+    Raises
+    ------
+    Nothing
+        The result is already validated.
+    """
+    created = created or _dt.datetime.now(_dt.timezone.utc)
+    s = result.scenario
+    f_unit, f_factor = display_unit("frequency", s.units)
+    v_unit, v_factor = display_unit("velocity", s.units)
+    m_unit, m_factor = display_unit("mass", s.units)
+    footing = s.footing()
+    data: dict[str, Any] = {
+        **record_head("resonance-space-record/1", s.title, s.source, s.sha256, s.record, created),
+        "scenario": s.tables,
+        "assumptions": [
+            "Rigid bodies with small rotations on linear mounts; steel frames of Euler-Bernoulli beam elements with "
+            "the section properties given; attached bodies rigidly fixed to their node.",
+            f"Damping: the mounts' and the soil's dashpots plus modal damping {s.damping_ratio:g} on every mode.",
+            "Soil: a rigid footing on a homogeneous elastic half-space; soil properties are the least certain "
+            "input: check them with a geotechnical engineer and over the tolerance band.",
+            f"Margin rules by scope: {s.rules.description}.",
+            "Vibration: the 1x unbalance response, RMS, against the ISO 10816-3 zones (broadband field criteria): "
+            "an estimate.",
+        ],
+        "methods": methods_used(SPACE_METHODS, result.findings),
+        "modes": [
+            {"frequency_hz": sh.frequency, "damping_ratio": sh.damping_ratio, "words": sh.words, "shares": sh.shares}
+            for sh in result.shapes
+        ],
+        "soil": None
+        if footing is None
+        else {
+            motion: {
+                "stiffness": getattr(footing, motion).stiffness,
+                "damping": getattr(footing, motion).damping,
+                "damping_ratio": getattr(footing, motion).damping_ratio,
+                "equivalent_radius_m": getattr(footing, motion).radius,
+            }
+            for motion in ("x", "y", "z", "rx", "ry", "rz")
+        },
+        "findings": result.findings.to_records(),
+        "vibration": [
+            {"probe": label, "velocity_rms_m_s": v, "speed_rpm": n, "zone": z, "support_used": result.support_used}
+            for (label, _b, _p), (v, n, z) in zip(s.probes, result.peak_velocity, strict=True)
+        ],
+        "verdict": result.verdict,
+        "cautions": CAUTION,
+    }
+    lines = [
+        *header_lines("CALCULATION RECORD (SUPPORT IN SPACE)", s.title, s.description, data),
+        "INPUTS",
+        f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm",
+        "  bodies: " + ", ".join(f"{b.name} {b.mass * m_factor:.5g} {m_unit}" for b in s.bodies),
+        f"  mounts: {len(s.mounts)}; frame: {len(s.nodes)} nodes, {len(s.beams)} beams; soil: "
+        + ("none" if s.soil is None else f"G {s.soil.shear_modulus / 1e6:.4g} MPa, nu {s.soil.poisson_ratio:g}"),
+        "  excitations: " + ", ".join(e.label for e in s.excitations),
+        "",
+        *basis_lines(data),
+        "MODES",
+        *(
+            f"  mode {i + 1}: {sh.frequency * f_factor:.{2 if s.units == 'SI' else 0}f} {f_unit}, damping ratio "
+            f"{sh.damping_ratio:.4f}; {sh.words}"
+            for i, sh in enumerate(result.shapes)
+        ),
+        "",
+        "FINDINGS (worst first)",
+        result.findings.to_text(system=s.units),
+        "",
+        "VIBRATION (1x unbalance response, RMS; an estimate against the ISO zones)",
+        *(
+            f"  {label}: {v * v_factor:.3g} {v_unit} at {n:.0f} rpm, zone {z} ({result.support_used} boundaries)"
+            for (label, _b, _p), (v, n, z) in zip(s.probes, result.peak_velocity, strict=True)
+        ),
+        "",
+        verdict_line(result.verdict, result.findings, heading="VERDICT"),
+        "",
+        "CAUTION",
+        f"  {CAUTION}",
+    ]
+    return Record(data, "\n".join(lines))

@@ -1,0 +1,141 @@
+"""The supports-in-space panel: speed range, damping, soil and mount stiffness; modes in 3D, bearing response."""
+
+from __future__ import annotations
+
+import html
+
+import ipywidgets as w
+
+from ..space_study import SpaceScenario, SpaceStudyResult, run_space_study
+from .plots import findings_table_html, interference_figure, update_interference_figure
+from .space_plots import (
+    space_modes_html,
+    space_response_figure,
+    space_shape_figure,
+    update_space_response_figure,
+    update_space_shape_figure,
+)
+from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+
+__all__ = ["SpacePanel"]
+
+_STYLE = {"description_width": "170px"}
+_LAYOUT = w.Layout(width="560px")
+
+
+def _factor(label: str) -> w.FloatLogSlider:
+    # Factors from x0.25 to x4 on a logarithmic scale.
+    return w.FloatLogSlider(
+        value=1.0,
+        base=10,
+        min=-0.6,
+        max=0.6,
+        step=0.01,
+        readout_format=".2f",
+        description=label,
+        continuous_update=False,
+        style=_STYLE,
+        layout=_LAYOUT,
+    )
+
+
+class SpacePanel(Panel):
+    """Live check of a machine on its support in space (bodies, frame, mounts, soil).
+
+    Controls: the speed range, the modal damping ratio, a factor on the soil's shear modulus (the least
+    certain input), a factor on every mount's stiffness, the mode shown in 3D and the unit system. Views:
+    verdict, interference diagram, findings, modes in words, the mode in 3D, the bearing response against
+    speed in x, y and z.
+
+    Parameters
+    ----------
+    scenario : SpaceScenario
+        The scenario studied.
+    """
+
+    def __init__(self, scenario: SpaceScenario):
+        self.original = scenario
+        self.scenario = scenario
+        self.speed = speed_slider(scenario.speed)
+        self.damping = w.FloatSlider(
+            value=scenario.damping_ratio,
+            min=0.0,
+            max=0.2,
+            step=0.0025,
+            readout_format=".4f",
+            description="modal damping ratio",
+            continuous_update=False,
+            style=_STYLE,
+            layout=_LAYOUT,
+        )
+        self.soil = _factor("soil shear modulus x")
+        self.soil.disabled = scenario.soil is None
+        self.mounts = _factor("mount stiffness x")
+        self.units = units_toggle(scenario.units, "170px")
+        self.verdict = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+        self.modes_html = w.HTML()
+        self.result: SpaceStudyResult = self.compute()
+        self.mode = w.Dropdown(
+            options=[(f"mode {i + 1}", i) for i in range(len(self.result.shapes))],
+            value=0,
+            description="mode shown in 3D",
+            style=_STYLE,
+        )
+        self.interference_fig = interference_figure(self.result, self.system, widget=True)
+        self.response_fig = space_response_figure(self.result, self.system, widget=True)
+        self.shape_fig = space_shape_figure(self.result, 0, widget=True)
+        self._render_text()
+        for control in (self.speed, self.damping, self.soil, self.mounts, self.units):
+            control.observe(self._changed, names="value")
+        self.mode.observe(self._mode_changed, names="value")
+        self.widget = w.VBox(
+            [
+                caution_banner(),
+                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
+                self.speed,
+                self.damping,
+                self.soil,
+                self.mounts,
+                self.units,
+                self.verdict,
+                self.message,
+                self.interference_fig,
+                self.findings_html,
+                self.modes_html,
+                self.mode,
+                self.shape_fig,
+                self.response_fig,
+            ]
+        )
+
+    def edited_scenario(self) -> SpaceScenario:
+        """The scenario with the panel's speed range, damping and unit system."""
+        speed = slider_range(self.speed, self.original.speed)
+        return self.original.replace(speed=speed, damping_ratio=float(self.damping.value), units=self.system)
+
+    def compute(self) -> SpaceStudyResult:
+        """Re-run the study for the controls (no drawing)."""
+        self.scenario = self.edited_scenario()
+        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value))
+
+    def update(self) -> None:
+        """Recompute and refresh every view in place."""
+        self.result = self.compute()
+        update_interference_figure(self.interference_fig, self.result, self.system)
+        update_space_response_figure(self.response_fig, self.result, self.system)
+        update_space_shape_figure(self.shape_fig, self.result, int(self.mode.value))
+        self._render_text()
+
+    def _mode_changed(self, _change: object) -> None:
+        update_space_shape_figure(self.shape_fig, self.result, int(self.mode.value))
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return self.result.summary(self.system)
+
+    def _render_text(self) -> None:
+        self.verdict.value = verdict_html(self.summary(), self.result.passed)
+        self.findings_html.value = findings_table_html(self.result, self.system)
+        self.modes_html.value = space_modes_html(self.result, self.system)

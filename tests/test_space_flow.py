@@ -1,0 +1,108 @@
+"""The supports-in-space flow: scenario, study, record, check, panel.
+
+The physics is checked in test_space.py (closed forms, statics, reciprocity, Blevins, soil); here the flow
+around it: errors that name the file and field, exit codes, records, the panel. Demo data invented.
+"""
+
+from __future__ import annotations
+
+import copy
+import json
+import math
+from pathlib import Path
+
+import pytest
+
+from resonance.cli import main
+from resonance.tables import ScenarioError, read_scenario_file
+
+DEMO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_skid_block.toml"
+
+
+def _tables():
+    return copy.deepcopy(read_scenario_file(DEMO))
+
+
+def test_the_demo_runs_through_check_with_its_records(tmp_path, capsys):
+    out, page = tmp_path / "s.json", tmp_path / "s.html"
+    assert main(["check", str(DEMO), "--json", str(out), "--html", str(page)]) == 1
+    text = capsys.readouterr().out
+    assert "CALCULATION RECORD (SUPPORT IN SPACE)" in text
+    assert "fan skid: rocking about x" in text
+    data = json.loads(out.read_text())
+    assert data["format"] == "resonance-space-record/1"
+    assert {f["rule"] for f in data["findings"]} == {"flat 15 %"}
+    assert data["soil"]["z"]["damping_ratio"] > 0
+    assert len(data["vibration"]) == 2
+    html = page.read_text()
+    assert "Modes in space" in html
+    assert "Unbalance response at the bearings" in html
+
+
+@pytest.mark.parametrize(
+    ("edit", "field"),
+    [
+        (
+            lambda t: (
+                t["space"]["bodies"][0].update(box=None)
+                or t["space"]["bodies"][0].pop("box")
+                or t["space"]["bodies"][0].update(inertia=[[1, 0, 0], [0, -1, 0], [0, 0, 1]])
+            ),
+            "space.bodies[0]: body 'fan skid': inertia",
+        ),
+        (
+            lambda t: t["space"]["mounts"][0].update(stiffness=[0, 0, 0]),
+            "space.mounts[0]: mount 'spring 1': has no stiffness",
+        ),
+        (lambda t: t["space"]["mounts"][0].update(other="plinth"), "space: mount 'spring 1': names 'plinth'"),
+        (lambda t: t["space"].pop("soil"), "space: mounts: the model has a rigid-body mechanism: 'block'"),
+        (lambda t: t["space"]["soil"].update(poisson_ratio=0.5), "space: poisson_ratio: got 0.5"),
+        (lambda t: t["space"]["bodies"][1].update(mass="1,000 kg"), "space.bodies[1].mass"),
+        (lambda t: t["space"]["probes"][0].update(body="motor"), "space: body: got 'motor'"),
+        (lambda t: t["margin"].pop("flat"), "margin.flat: missing"),
+    ],
+)
+def test_bad_space_scenarios_exit_2_naming_file_and_field(tmp_path, capsys, edit, field):
+    import tomli_w
+
+    tables = _tables()
+    edit(tables)
+    path = tmp_path / "bad_block.toml"
+    path.write_bytes(tomli_w.dumps(tables).encode())
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "bad_block.toml: " in err
+    assert field in err
+
+
+def test_parse_errors_are_scenario_errors():
+    from resonance.space_study import parse_space_scenario
+
+    tables = _tables()
+    tables["space"]["bodies"][0]["center"] = ["0 m", "0 m"]
+    with pytest.raises(ScenarioError, match=r"^b\.toml: space\.bodies\[0\]\.center: got"):
+        parse_space_scenario(tables, "b.toml")
+
+
+def test_the_panel_follows_the_soil_and_the_mounts():
+    from resonance.space_study import load_space_scenario
+    from resonance.ui import SpacePanel
+
+    panel = SpacePanel(load_space_scenario(DEMO))
+    assert "Caution." in panel.widget.children[0].value
+
+    def block_vertical():
+        return next(s for s in panel.result.shapes if s.words.startswith("block: vertical")).frequency
+
+    before = block_vertical()
+    panel.soil.value = 2.0
+    # The block's vertical mode stiffens with the soil: at most by sqrt(2) (the springs above it do not change).
+    assert before < block_vertical() < math.sqrt(2.0) * before
+    skid = panel.result.shapes[0].frequency
+    panel.mounts.value = 0.5
+    # The isolated skid's lowest mode is almost all springs: its frequency falls by nearly sqrt(0.5).
+    assert panel.result.shapes[0].frequency / skid == pytest.approx(math.sqrt(0.5), rel=0.03)
+    panel.mode.value = 3
+    assert panel.shape_fig.layout.title.text.startswith("Mode 4:")
+    panel.units.value = "US"
+    assert "cpm" in panel.summary()
