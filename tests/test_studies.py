@@ -53,7 +53,7 @@ def test_every_demo_runs_through_the_registry(name, kind, verdict):
 
 
 def test_a_file_of_no_kind_is_named():
-    with pytest.raises(ScenarioError, match=r"odd\.toml: no \[model\], \[rotor\] or \[torsion\] table"):
+    with pytest.raises(ScenarioError, match=r"odd\.toml: no \[model\], \[rotor\], \[torsion\] or \[space\] table"):
         study_kind_for({"scenario": {"title": "x"}}, "odd.toml")
 
 
@@ -108,7 +108,7 @@ def test_a_new_kind_plugs_in_without_touching_the_command(tmp_path, capsys):
             register_study_kind(_ToyStudy())
     finally:
         STUDY_KINDS[:] = [k for k in STUDY_KINDS if k.name != "toy"]
-    assert [k.name for k in STUDY_KINDS] == ["torsion", "rotor", "support"]
+    assert [k.name for k in STUDY_KINDS] == ["space", "torsion", "rotor", "support"]
 
 
 def test_the_flows_are_exported_at_the_top_level():
