@@ -65,6 +65,7 @@ from .space import (
     SpaceMode,
     SpaceModel,
     box_inertia,
+    orbit_major,
     rotating_unbalance,
     space_model,
     space_modes,
@@ -73,8 +74,8 @@ from .space import (
 from .speed_range import OperatingRange
 from .tables import (
     MotorSpec,
-    ScenarioError,
     RecordSpec,
+    ScenarioError,
     TableReader,
     parse_excitations,
     parse_head,
@@ -272,9 +273,13 @@ class SpaceScenario:
         )
 
     def build(
-        self, mount_factor: float = 1.0, shear_factor: float = 1.0, damping_ratio: float | None = None
+        self,
+        mount_factor: float = 1.0,
+        shear_factor: float = 1.0,
+        damping_ratio: float | None = None,
+        frame_factor: float = 1.0,
     ) -> SpaceModel:
-        """The assembled model with the mounts' stiffness and the soil's shear modulus scaled.
+        """The assembled model with the mounts' stiffness, the soil's shear modulus and the frame scaled.
 
         Parameters
         ----------
@@ -284,6 +289,8 @@ class SpaceScenario:
             Factor on the soil's shear modulus [-] (> 0).
         damping_ratio : float, optional
             Modal damping ratio instead of the scenario's.
+        frame_factor : float
+            Factor on every beam's Young's and shear moduli [-] (> 0).
 
         Returns
         -------
@@ -294,7 +301,11 @@ class SpaceScenario:
         InputValueError
             A factor that is not finite and > 0, a mechanism.
         """
-        for name, value in (("mount_factor", mount_factor), ("shear_factor", shear_factor)):
+        for name, value in (
+            ("mount_factor", mount_factor),
+            ("shear_factor", shear_factor),
+            ("frame_factor", frame_factor),
+        ):
             if not (math.isfinite(value) and value > 0.0):
                 raise InputValueError(f"{name}: got {value!r}; expected a finite factor > 0")
         mounts = [
@@ -306,7 +317,13 @@ class SpaceScenario:
         footing = self.footing(shear_factor)
         if footing is not None and self.soil is not None:
             mounts.append(soil_mount(footing, self.soil.body, self.soil.point))
-        model = space_model(self.bodies, mounts, self.nodes, self.beams, self.attached, self.fixed)
+        beams = [
+            dataclasses.replace(
+                b, youngs_modulus=b.youngs_modulus * frame_factor, shear_modulus=b.shear_modulus * frame_factor
+            )
+            for b in self.beams
+        ]
+        model = space_model(self.bodies, mounts, self.nodes, beams, self.attached, self.fixed)
         zeta = self.damping_ratio if damping_ratio is None else damping_ratio
         if zeta > 0.0:
             m = model.model
@@ -666,6 +683,9 @@ class SpaceStudyResult:
         and its ISO zone.
     support_used : {"rigid", "flexible"}
         The zone boundaries used (rigid where either the declared or the computed class is rigid).
+    band : tuple of (float, float, float, float)
+        The tolerance band: mount, soil and frame factors and the worst margin minus required there
+        [percent points] (reported; the verdict is the nominal model's).
     """
 
     scenario: SpaceScenario
@@ -678,6 +698,41 @@ class SpaceStudyResult:
     velocity_rms: np.ndarray
     peak_velocity: tuple[tuple[float, float, str], ...]
     support_used: str
+    band: tuple[tuple[float, float, float, float], ...] = ()
+
+    @property
+    def band_passed(self) -> bool:
+        """True when every margin passes at every corner of the tolerance band."""
+        return all(excess >= 0.0 for *_, excess in self.band)
+
+    def band_line(self) -> str:
+        """The tolerance band in one line.
+
+        Returns
+        -------
+        str
+
+        Raises
+        ------
+        Nothing
+            Pure text.
+        """
+        if not self.band:
+            return "not checked (tolerance 0, or a live panel)"
+        t = self.scenario.tolerance
+        what = (
+            ["mounts"]
+            + (["soil"] if self.scenario.soil is not None else [])
+            + (["frame"] if self.scenario.beams else [])
+        )
+        failing = [b for b in self.band if b[3] < 0.0]
+        head = "PASS" if not failing else f"FAIL at {len(failing)} of {len(self.band)} combinations"
+        worst = min(self.band, key=lambda b: b[3])
+        return (
+            f"{head} over {' x '.join(what)} stiffness +/- {100 * t:.0f} % (worst margin minus required "
+            f"{worst[3]:.1f} points at mounts x{worst[0]:.2f}, soil x{worst[1]:.2f}, frame x{worst[2]:.2f}; "
+            "reported, the verdict is the nominal model's)"
+        )
 
     @property
     def passed(self) -> bool:
@@ -718,12 +773,18 @@ class SpaceStudyResult:
             f"{verdict_line(self.verdict, self.findings)}\n"
             f"Lowest modes: {modes}\n"
             f"Margins: {self.findings.summary()}\n"
+            f"Tolerance band: {self.band_line()}\n"
             f"1x vibration at the probes: {probes or 'no probe given'}"
         )
 
 
 def run_space_study(
-    scenario: SpaceScenario, mount_factor: float = 1.0, shear_factor: float = 1.0, points: int = 240
+    scenario: SpaceScenario,
+    mount_factor: float = 1.0,
+    shear_factor: float = 1.0,
+    points: int = 240,
+    band: bool = True,
+    frame_factor: float = 1.0,
 ) -> SpaceStudyResult:
     """Run every check of a supports-in-space scenario.
 
@@ -735,6 +796,11 @@ def run_space_study(
         What-if factors on the mounts' stiffness and the soil's shear modulus [-].
     points : int
         Speeds of the response.
+    band : bool
+        Check the tolerance band (``[whatif] tolerance``: mounts, soil and frame each at ``1 -/+ t`` around
+        the factors given, every combination); a live panel may skip it.
+    frame_factor : float
+        What-if factor on the frame's moduli [-].
 
     Returns
     -------
@@ -745,7 +811,7 @@ def run_space_study(
     InputValueError
         A factor that is not finite and > 0, or that makes a mechanism.
     """
-    model = scenario.build(mount_factor, shear_factor)
+    model = scenario.build(mount_factor, shear_factor, frame_factor=frame_factor)
     shapes = tuple(space_modes(model))
     modes = tuple(
         Mode(
@@ -785,7 +851,37 @@ def run_space_study(
         i = int(np.argmax(v_run))
         zone = iso_velocity_zone(max(float(v_run[i]), 0.0), scenario.group, used)[0]  # type: ignore[arg-type]
         peaks.append((float(v_run[i]), float(speed[i]), zone))
-    return SpaceStudyResult(scenario, model, shapes, modes, findings, speed, displacement, velocity, tuple(peaks), used)
+    corners: list[tuple[float, float, float, float]] = []
+    t = scenario.tolerance
+    if band and t > 0.0:
+        steps = (1.0 - t, 1.0, 1.0 + t)
+        soils = steps if scenario.soil is not None else (1.0,)
+        frames = steps if scenario.beams else (1.0,)
+        for km in steps:
+            for ks in soils:
+                for kf in frames:
+                    varied = scenario.build(mount_factor * km, shear_factor * ks, frame_factor=frame_factor * kf)
+                    found = [
+                        Mode(sh.frequency, sh.damping_ratio, f"mode {i + 1}", "model", kind="structural")
+                        for i, sh in enumerate(space_modes(varied))
+                        if sh.frequency > 0.0
+                    ]
+                    table = interference_check(found, list(scenario.excitations), scenario.speed, scenario.rules)
+                    corners.append((km, ks, kf, min(f.margin - f.required_margin for f in table)))
+    return SpaceStudyResult(
+        scenario, model, shapes, modes, findings, speed, displacement, velocity, tuple(peaks), used, tuple(corners)
+    )
+
+
+def _probe_motion(result: SpaceStudyResult, k: int, speed: float) -> dict[str, Any]:
+    # The probe's motion at the speed of its largest velocity: amplitude and phase lag per direction, orbit.
+    i = int(np.argmin(np.abs(result.speed - speed)))
+    u = result.displacement[i, k]
+    return {
+        "amplitude_m": [float(x) for x in np.abs(u)],
+        "phase_lag_deg": [float(x) for x in np.degrees(np.mod(-np.angle(u), 2 * np.pi))],
+        "orbit_major_m": float(orbit_major(u)),
+    }
 
 
 def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = None) -> Record:
@@ -812,6 +908,7 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
     f_unit, f_factor = display_unit("frequency", s.units)
     v_unit, v_factor = display_unit("velocity", s.units)
     m_unit, m_factor = display_unit("mass", s.units)
+    d_unit, d_factor = display_unit("displacement", s.units)
     footing = s.footing()
     data: dict[str, Any] = {
         **record_head("resonance-space-record/1", s.title, s.source, s.sha256, s.record, created),
@@ -844,9 +941,25 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
         },
         "findings": result.findings.to_records(),
         "vibration": [
-            {"probe": label, "velocity_rms_m_s": v, "speed_rpm": n, "zone": z, "support_used": result.support_used}
-            for (label, _b, _p), (v, n, z) in zip(s.probes, result.peak_velocity, strict=True)
+            {
+                "probe": label,
+                "velocity_rms_m_s": v,
+                "speed_rpm": n,
+                "zone": z,
+                "support_used": result.support_used,
+                **_probe_motion(result, k, n),
+            }
+            for k, ((label, _b, _p), (v, n, z)) in enumerate(zip(s.probes, result.peak_velocity, strict=True))
         ],
+        "tolerance_band": {
+            "tolerance": s.tolerance,
+            "combinations": [
+                {"mount_factor": a, "soil_factor": b, "frame_factor": c, "worst_excess_percent": e}
+                for a, b, c, e in result.band
+            ],
+            "passed": result.band_passed,
+            "summary": result.band_line(),
+        },
         "verdict": result.verdict,
         "cautions": CAUTION,
     }
@@ -872,9 +985,17 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
         "",
         "VIBRATION (1x unbalance response, RMS; an estimate against the ISO zones)",
         *(
-            f"  {label}: {v * v_factor:.3g} {v_unit} at {n:.0f} rpm, zone {z} ({result.support_used} boundaries)"
-            for (label, _b, _p), (v, n, z) in zip(s.probes, result.peak_velocity, strict=True)
+            f"  {row['probe']}: {row['velocity_rms_m_s'] * v_factor:.3g} {v_unit} at {row['speed_rpm']:.0f} rpm, "
+            f"zone {row['zone']} ({result.support_used} boundaries); there x/y/z "
+            + "/".join(f"{a * d_factor:.3g}" for a in row["amplitude_m"])
+            + f" {d_unit} 0-pk, phase lag "
+            + "/".join(f"{p:.0f}" for p in row["phase_lag_deg"])
+            + f" deg, orbit major axis {row['orbit_major_m'] * d_factor:.3g} {d_unit}"
+            for row in data["vibration"]
         ),
+        "",
+        "TOLERANCE BAND",
+        f"  {result.band_line()}",
         "",
         verdict_line(result.verdict, result.findings, heading="VERDICT"),
         "",

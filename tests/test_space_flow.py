@@ -11,6 +11,7 @@ import json
 import math
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from resonance.cli import main
@@ -106,3 +107,25 @@ def test_the_panel_follows_the_soil_and_the_mounts():
     assert panel.shape_fig.layout.title.text.startswith("Mode 4:")
     panel.units.value = "US"
     assert "cpm" in panel.summary()
+
+
+def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
+    from resonance.space import orbit_major
+    from resonance.space_study import build_space_record, load_space_scenario, run_space_study
+
+    scenario = load_space_scenario(DEMO)
+    result = run_space_study(scenario)
+    # Mounts and soil each at 1 -/+ 0.3 and 1: nine combinations, the nominal one among them.
+    assert len(result.band) == 9
+    nominal = next(b for b in result.band if b[:3] == (1.0, 1.0, 1.0))
+    assert nominal[3] == pytest.approx(min(f.margin - f.required_margin for f in result.findings), abs=1e-9)
+    record = build_space_record(result)
+    row = record.data["vibration"][0]
+    k = 0
+    i = int(np.argmin(np.abs(result.speed - row["speed_rpm"])))
+    assert row["orbit_major_m"] == pytest.approx(float(orbit_major(result.displacement[i, k])))
+    # RMS velocity of a sine: w |u| / sqrt(2) in the largest direction (common practice).
+    w = 2 * math.pi * row["speed_rpm"] / 60
+    assert row["velocity_rms_m_s"] == pytest.approx(w * max(row["amplitude_m"]) / math.sqrt(2), rel=1e-9)
+    assert "TOLERANCE BAND" in record.text
+    assert not run_space_study(scenario, band=False).band

@@ -118,7 +118,7 @@ class SpacePanel(Panel):
     def compute(self) -> SpaceStudyResult:
         """Re-run the study for the controls (no drawing)."""
         self.scenario = self.edited_scenario()
-        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value))
+        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value), band=False)
 
     def update(self) -> None:
         """Recompute and refresh every view in place."""
