@@ -184,7 +184,7 @@ def _torsion_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
 def _space_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     result, system = outcome.result, outcome.units
     figures = [
-        interference_figure(result, system),
+        interference_figure(result, system, log_frequency=True),
         space_response_figure(result, system),
         *(space_shape_figure(result, i) for i in range(min(3, len(result.shapes)))),
     ]

@@ -83,7 +83,7 @@ class SpacePanel(Panel):
             description="mode shown in 3D",
             style=_STYLE,
         )
-        self.interference_fig = interference_figure(self.result, self.system, widget=True)
+        self.interference_fig = interference_figure(self.result, self.system, widget=True, log_frequency=True)
         self.response_fig = space_response_figure(self.result, self.system, widget=True)
         self.shape_fig = space_shape_figure(self.result, 0, widget=True)
         self._render_text()
@@ -118,7 +118,7 @@ class SpacePanel(Panel):
     def compute(self) -> SpaceStudyResult:
         """Re-run the study for the controls (no drawing)."""
         self.scenario = self.edited_scenario()
-        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value), band=False)
+        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value))
 
     def update(self) -> None:
         """Recompute and refresh every view in place."""
