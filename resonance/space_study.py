@@ -24,7 +24,8 @@ A scenario file with a ``[space]`` table (see ``notebooks/scenarios/fan_skid_blo
     unbalance = [{ body = "fan", point = [...], axis = [1, 0, 0], amount = "2500 g*mm" }]   # or balance_grade
     probes = [{ label = "fan DE bearing", body = "fan", point = [...] }]
 
-The soil is the footing under its body's base (the lowest face of the body's box, or ``point``), with the
+The soil is the footing under its body's base (the lowest face of the body's box, or of the box with the
+same principal moments for a body given by its inertia, or ``point``), with the
 stiffness and radiation damping of :mod:`resonance.soil`; its mass ratios take every body's mass and
 inertia. Every mode (kind ``"structural"``) is checked against every excitation by the flat margin
 (``margin.flat``); the unbalances rotate at 1x over the speeds; each probe's casing velocity in x, y and z
