@@ -331,3 +331,24 @@ def _frame_case(fixed=("a",), beam_end="b"):
 def test_bad_frames_are_refused_in_words(build, message):
     with pytest.raises(R.InputValueError, match=message):
         build()
+
+
+def test_frame_element_in_a_plane_equals_the_rotors_beam_element():
+    # With no shear deformation (phi = 0) the rotor's Timoshenko element is the Euler-Bernoulli beam: the frame
+    # element's bending blocks in each principal plane must equal it (x-z with the rotation's sign flipped,
+    # a right-handed rotation about y lowering w; Przemieniecki ch. 5).
+    from resonance.frame import Beam, beam_matrices
+    from resonance.rotor.elements import beam_stiffness, beam_translational_mass
+
+    length = 0.4
+    beam = Beam("b", "a", "c", E, G, RHO, AREA, IY, IZ, J)
+    k, m = beam_matrices(beam, np.zeros(3), np.array([length, 0.0, 0.0]))
+    xy = [1, 5, 7, 11]
+    xz = [2, 4, 8, 10]
+    flip = np.diag([1.0, -1.0, 1.0, -1.0])
+    assert_allclose(k[np.ix_(xy, xy)], beam_stiffness(E * IZ, length, 0.0), rtol=1e-12)
+    assert_allclose(m[np.ix_(xy, xy)], beam_translational_mass(RHO * AREA, length, 0.0), rtol=1e-12, atol=1e-15)
+    assert_allclose(flip @ k[np.ix_(xz, xz)] @ flip, beam_stiffness(E * IY, length, 0.0), rtol=1e-12)
+    assert_allclose(
+        flip @ m[np.ix_(xz, xz)] @ flip, beam_translational_mass(RHO * AREA, length, 0.0), rtol=1e-12, atol=1e-15
+    )
