@@ -205,6 +205,13 @@ def half_power_points(frequency: object, amplitude: object, near: object | None 
     x, y = f**2, 1.0 / a**2
     vertex = _vertex(x[i - 1 : i + 2], y[i - 1 : i + 2])
     x0, y0 = vertex if vertex is not None else (x[i], y[i])
+    if not (x0 > 0.0 and y0 > 0.0):
+        # The parabola's vertex has no finite amplitude: a peak far sharper than the sampling (almost no
+        # damping). No AF can be read from these samples; refuse rather than guess.
+        raise InputValueError(
+            f"amplitude: the peak near {math.sqrt(max(x[i], 0.0)):g} is too sharp for the sampling to resolve "
+            "(almost no damping); sample more finely around it"
+        )
     level = 2.0 * y0
     x1 = _flank_crossing(x, y, level, i, x0, y0, -1)
     x2 = _flank_crossing(x, y, level, i, x0, y0, +1)

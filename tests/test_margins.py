@@ -159,3 +159,17 @@ def test_rules():
 def test_bad_margin_inputs(call, message):
     with pytest.raises(R.InputValueError, match=message):
         call()
+
+
+def test_a_peak_sharper_than_the_sampling_is_refused_not_guessed():
+    # Found by the fuzz test: an almost undamped peak between samples makes the interpolating parabola's vertex
+    # reach 1/A^2 <= 0 (an infinite amplitude); the half-power method then has no answer from these samples.
+    import numpy as np
+
+    import resonance as R
+
+    w = np.linspace(0.5, 1.5, 11)
+    zeta = 1e-7
+    amplitude = 1.0 / np.abs(1.0 - w**2 + 2j * zeta * w)  # SDOF receptance (closed form), peak at w = 1
+    with pytest.raises(R.InputValueError, match="too sharp for the sampling"):
+        R.half_power_points(w + 0.003, amplitude)
