@@ -576,7 +576,13 @@ def space_modes(model: SpaceModel) -> list[SpaceMode]:
         total = float(energy.sum()) or 1.0
         shares = {lab: float(e / total) for lab, e in zip(labels, energy, strict=True)}
         scale = shape[np.argmax(np.abs(shape))]
-        out.append(SpaceMode(float(f), float(modes.damping_ratio[i]), shape / scale, shares, _mode_words(shares)))
+        # A node that carries an attached body is named by the body in words.
+        riders = {node: body for body, node in model.attached.items()}
+        named = {
+            f"{riders.get(lab.rsplit('.', 1)[0], lab.rsplit('.', 1)[0])}.{lab.rsplit('.', 1)[1]}": v
+            for lab, v in shares.items()
+        }
+        out.append(SpaceMode(float(f), float(modes.damping_ratio[i]), shape / scale, shares, _mode_words(named)))
     return out
 
 

@@ -30,8 +30,9 @@ stiffness and radiation damping of :mod:`resonance.soil`; its mass ratios take e
 inertia. Every mode (kind ``"structural"``) is checked against every excitation by the flat margin
 (``margin.flat``); the unbalances rotate at 1x over the speeds; each probe's casing velocity in x, y and z
 (RMS of the 1x response) is compared with the ISO 10816-3 zones (an estimate: the zones are broadband field
-criteria). ``[whatif] tolerance`` sets a band on the mounts' stiffness and the soil's shear modulus checked
-together. Errors name the file and the field.
+criteria). ``[whatif] tolerance`` sets a band on the mounts' stiffness, the soil's shear modulus and the frame
+checked together; ``[whatif] vary_mounts`` names the mounts a what-if factor scales (the isolators, not the
+anchor bolts; all mounts if omitted). Errors name the file and the field.
 """
 
 from __future__ import annotations
@@ -178,6 +179,8 @@ class SpaceScenario:
         Declared support class.
     tolerance : float
         What-if band on mount stiffness and soil shear modulus [-].
+    vary_mounts : tuple of str
+        The mounts a what-if factor scales (isolators, not anchor bolts); all if the file names none.
     tables : dict
         As read.
     source : str
@@ -209,6 +212,7 @@ class SpaceScenario:
     group: int
     support: str
     tolerance: float
+    vary_mounts: tuple[str, ...]
     tables: dict[str, Any] = dataclasses.field(compare=False)
     source: str = "<space scenario>"
     motor: MotorSpec | None = None
@@ -285,7 +289,7 @@ class SpaceScenario:
         Parameters
         ----------
         mount_factor : float
-            Factor on every mount's stiffness [-] (> 0).
+            Factor on the stiffness of the mounts in ``vary_mounts`` [-] (> 0).
         shear_factor : float
             Factor on the soil's shear modulus [-] (> 0).
         damping_ratio : float, optional
@@ -313,6 +317,8 @@ class SpaceScenario:
             dataclasses.replace(
                 m, stiffness=m.stiffness * mount_factor, rotational_stiffness=m.rotational_stiffness * mount_factor
             )
+            if m.label in self.vary_mounts
+            else m
             for m in self.mounts
         ]
         footing = self.footing(shear_factor)
@@ -584,7 +590,12 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
             "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
         )
     whatif = r.table(data, "whatif", "whatif", required=False)
-    r.known(whatif, ("tolerance",), "whatif")
+    r.known(whatif, ("tolerance", "vary_mounts"), "whatif")
+    labels = [m.label for m in mounts]
+    vary = tuple(str(x) for x in r.array(whatif, "vary_mounts", "whatif.vary_mounts", required=False)) or tuple(labels)
+    for name in vary:
+        if name not in labels:
+            raise r.fail("whatif.vary_mounts", f"names {name!r}; expected mount labels from {labels}")
     tolerance = r.value(whatif.get("tolerance", 0.3), "whatif.tolerance", "ratio", "nonnegative")
     if not tolerance < 1.0:
         raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1")
@@ -608,6 +619,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         group,
         support,
         tolerance,
+        vary,
         _plain(data),
         source,
         motor,

@@ -29,7 +29,7 @@ def test_the_demo_runs_through_check_with_its_records(tmp_path, capsys):
     assert main(["check", str(DEMO), "--json", str(out), "--html", str(page)]) == 1
     text = capsys.readouterr().out
     assert "CALCULATION RECORD (SUPPORT IN SPACE)" in text
-    assert "fan skid: rocking about x" in text
+    assert "fan and motor: rocking about x" in text
     data = json.loads(out.read_text())
     assert data["format"] == "resonance-space-record/1"
     assert {f["rule"] for f in data["findings"]} == {"flat 15 %"}
@@ -49,18 +49,19 @@ def test_the_demo_runs_through_check_with_its_records(tmp_path, capsys):
                 or t["space"]["bodies"][0].pop("box")
                 or t["space"]["bodies"][0].update(inertia=[[1, 0, 0], [0, -1, 0], [0, 0, 1]])
             ),
-            "space.bodies[0]: body 'fan skid': inertia",
+            "space.bodies[0]: body 'fan and motor': inertia",
         ),
         (
             lambda t: t["space"]["mounts"][0].update(stiffness=[0, 0, 0]),
-            "space.mounts[0]: mount 'spring 1': has no stiffness",
+            "space.mounts[0]: mount 'bolts 1': has no stiffness",
         ),
-        (lambda t: t["space"]["mounts"][0].update(other="plinth"), "space: mount 'spring 1': names 'plinth'"),
+        (lambda t: t["space"]["mounts"][0].update(other="plinth"), "space: mount 'bolts 1': names 'plinth'"),
         (lambda t: t["space"].pop("soil"), "space: mounts: the model has a rigid-body mechanism: 'block'"),
         (lambda t: t["space"]["soil"].update(poisson_ratio=0.5), "space: poisson_ratio: got 0.5"),
         (lambda t: t["space"]["bodies"][1].update(mass="1,000 kg"), "space.bodies[1].mass"),
         (lambda t: t["space"]["probes"][0].update(body="motor"), "space: body: got 'motor'"),
         (lambda t: t["margin"].pop("flat"), "margin.flat: missing"),
+        (lambda t: t["whatif"].update(vary_mounts=["spring 9"]), "whatif.vary_mounts: names 'spring 9'"),
     ],
 )
 def test_bad_space_scenarios_exit_2_naming_file_and_field(tmp_path, capsys, edit, field):
@@ -129,3 +130,58 @@ def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
     assert row["velocity_rms_m_s"] == pytest.approx(w * max(row["amplitude_m"]) / math.sqrt(2), rel=1e-9)
     assert "TOLERANCE BAND" in record.text
     assert not run_space_study(scenario, band=False).band
+
+
+def test_a_scenario_with_a_steel_frame_runs():
+    # A machine attached to the middle node of a small welded skid (four rails in a square, a cross beam),
+    # the skid's corners on isolators to ground: the frame, the attachment and the mounts from a file.
+    from resonance.space_study import parse_space_scenario, run_space_study
+
+    section = {
+        "youngs_modulus": "210 GPa",
+        "shear_modulus": "81 GPa",
+        "density": "7850 kg/m**3",
+        "area": 0.0045,
+        "iy": 2.2e-5,
+        "iz": 7.5e-6,
+        "torsion_constant": 1.7e-5,
+    }
+    corners = {"a": [-1, -0.5], "b": [1, -0.5], "c": [1, 0.5], "d": [-1, 0.5]}
+    tables = {
+        "scenario": {"title": "frame skid"},
+        "speed": {"min": "1400 rpm", "max": "1600 rpm"},
+        "excitations": [{"order": 1, "label": "1x"}],
+        "margin": {"flat": 15},
+        "space": {
+            "bodies": [
+                {"name": "pump", "mass": "900 kg", "center": ["0 m", "0 m", "0.6 m"], "box": ["1 m", "0.6 m", "0.6 m"]}
+            ],
+            "nodes": [
+                *({"name": n, "point": [f"{x} m", f"{y} m", "0.2 m"]} for n, (x, y) in corners.items()),
+                {"name": "mid", "point": ["0 m", "0 m", "0.2 m"]},
+            ],
+            "beams": [
+                *({"label": f"rail {a}{b}", "between": [a, b], **section} for a, b in ("ab", "bc", "cd", "da")),
+                {"label": "cross 1", "between": ["a", "mid"], **section},
+                {"label": "cross 2", "between": ["mid", "c"], **section},
+            ],
+            "attached": {"pump": "mid"},
+            "mounts": [
+                {
+                    "label": f"isolator {n}",
+                    "body": n,
+                    "point": [f"{x} m", f"{y} m", "0.2 m"],
+                    "stiffness": ["2 kN/mm", "2 kN/mm", "5 kN/mm"],
+                }
+                for n, (x, y) in corners.items()
+            ],
+            "unbalance": [
+                {"body": "pump", "point": ["0.3 m", "0 m", "0.6 m"], "axis": [1, 0, 0], "amount": "500 g*mm"}
+            ],
+            "probes": [{"label": "pump bearing", "body": "pump", "point": ["0.3 m", "0 m", "0.6 m"]}],
+        },
+    }
+    result = run_space_study(parse_space_scenario(tables, "frame.toml"))
+    assert result.model.model.size == 30  # five nodes of six coordinates; the pump rides on "mid"
+    assert result.shapes[0].words.startswith("pump:")
+    assert len(result.band) == 9  # mounts x frame, each at 1 -/+ 0.3 and 1

@@ -255,8 +255,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
     "09_supports_in_space.ipynb": [
         new_markdown_cell(
             "# Supports in space: a fan on isolators on a block on soil, every mode and every direction\n\n"
-            "The fan and its motor on one skid (a rigid body with six coordinates), on eight spring isolators on a "
-            "concrete block, on soil (a rigid footing on an elastic half-space: stiffness and radiation damping "
+            "The fan and its motor (a rigid body with six coordinates) bolted to a steel skid, the skid on eight "
+            "spring isolators on a concrete block, the block on soil (a rigid footing on an elastic half-space: stiffness and radiation damping "
             "of sliding, vertical, rocking and torsion). Move the **speed range**, the **damping**, the **soil's "
             "shear modulus** (the least certain input) and the **isolators' stiffness**: the modes in words "
             "(which body slides, rocks or twists), the findings by the flat margin, the chosen mode in 3D and "
@@ -274,9 +274,10 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             '    print(f"mode {i + 1}: {mode.frequency:6.2f} Hz, damping {mode.damping_ratio:.3f}, {mode.words}")'
         ),
         new_markdown_cell(
-            "The isolators' rocking modes sit inside the speed range against 1x, and the block's modes, heavily "
+            "The machine's rocking modes on the isolators sit in or near the speed range against 1x, and the block's "
+            "modes, heavily "
             "damped by radiation into the soil, against 1x and 2x: the flat rule counts no damping, so the "
-            "verdict is FAIL. Softer isolators (move their factor to about 0.5) put the skid's modes below the "
+            "verdict is FAIL. Softer isolators (move their factor to about 0.5) put the machine's modes below the "
             "range; the block's need a stiffer or larger footing. The same study runs headless: "
             "`python -m resonance check scenarios/fan_skid_block.toml --html block.html`."
         ),

@@ -43,7 +43,8 @@ class SpacePanel(Panel):
     """Live check of a machine on its support in space (bodies, frame, mounts, soil).
 
     Controls: the speed range, the modal damping ratio, a factor on the soil's shear modulus (the least
-    certain input), a factor on every mount's stiffness, the mode shown in 3D and the unit system. Views:
+    certain input), a factor on the stiffness of the mounts the what-if varies (``[whatif] vary_mounts``), the
+    mode shown in 3D and the unit system. Views:
     verdict, interference diagram, findings, modes in words, the mode in 3D, the bearing response against
     speed in x, y and z.
 
@@ -70,7 +71,7 @@ class SpacePanel(Panel):
         )
         self.soil = _factor("soil shear modulus x")
         self.soil.disabled = scenario.soil is None
-        self.mounts = _factor("mount stiffness x")
+        self.mounts = _factor("isolator stiffness x")
         self.units = units_toggle(scenario.units, "170px")
         self.verdict = w.HTML()
         self.message = w.HTML()
