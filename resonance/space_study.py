@@ -22,6 +22,7 @@ A scenario file with a ``[space]`` table (see ``notebooks/scenarios/fan_skid_blo
     fixed = ["n1"]                    # frame nodes held
     attached = { fan = "n3" }         # bodies fixed rigidly to a node
     unbalance = [{ body = "fan", point = [...], axis = [1, 0, 0], amount = "2500 g*mm" }]   # or balance_grade
+    forces = [{ body = "fan", point = [...], force = ["0 N", "300 N", "0 N"], order = 2 }]  # and/or moment
     probes = [{ label = "fan DE bearing", body = "fan", point = [...] }]
 
 The soil is the footing under its body's base (the lowest face of the body's box, or of the box with the
@@ -63,6 +64,7 @@ from .soil import FootingImpedance, footing_impedance, soil_mount
 from .space import (
     FrameNode,
     Mount,
+    PointLoad,
     RigidBody,
     SpaceMode,
     SpaceModel,
@@ -171,6 +173,9 @@ class SpaceScenario:
         Modal damping on top of the dashpots [-].
     unbalance : tuple of (str, numpy.ndarray, numpy.ndarray, float)
         Body, point, shaft axis and ``m e`` [kg m] of each unbalance.
+    forces : tuple of (str, numpy.ndarray, numpy.ndarray, numpy.ndarray, float)
+        Body, point, force [N] and moment [N m] amplitudes (global axes, in phase) and the running-speed order
+        they act at (a misalignment force at 2x, a blade-pass force at 8x).
     probes : tuple of (str, str, numpy.ndarray)
         Label, body and point of each reading.
     group : {1, 2}
@@ -208,6 +213,7 @@ class SpaceScenario:
     soil: SoilSpec | None
     damping_ratio: float
     unbalance: tuple[tuple[str, np.ndarray, np.ndarray, float], ...]
+    forces: tuple[tuple[str, np.ndarray, np.ndarray, np.ndarray, float], ...]
     probes: tuple[tuple[str, str, np.ndarray], ...]
     group: int
     support: str
@@ -384,7 +390,19 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     t = r.table(data, "space", "space")
     r.known(
         t,
-        ("damping_ratio", "bodies", "mounts", "soil", "nodes", "beams", "fixed", "attached", "unbalance", "probes"),
+        (
+            "damping_ratio",
+            "bodies",
+            "mounts",
+            "soil",
+            "nodes",
+            "beams",
+            "fixed",
+            "attached",
+            "unbalance",
+            "forces",
+            "probes",
+        ),
         "space",
     )
     zeta = r.value(t.get("damping_ratio", 0.0), "space.damping_ratio", "ratio", "nonnegative")
@@ -568,6 +586,23 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         unbalance.append(
             (r.text(item, "body", f"{field}.body"), _point(r, item.get("point"), f"{field}.point"), axis, amount)
         )
+    forces = []
+    for i, item in enumerate(r.array(t, "forces", "space.forces", required=False)):
+        field = f"space.forces[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with body, point, force or moment, and order")
+        r.known(item, ("body", "point", "force", "moment", "order"), field)
+        if "force" not in item and "moment" not in item:
+            raise r.fail(field, "give a force, a moment or both (three components each)")
+        vectors = []
+        for key, kind in (("force", "force"), ("moment", "torque")):
+            raw = item.get(key, [0.0, 0.0, 0.0])
+            if not isinstance(raw, list) or len(raw) != 3:
+                raise r.fail(f"{field}.{key}", f"got {raw!r}; expected three components [x, y, z]")
+            vectors.append(np.array([r.value(v, f"{field}.{key}[{k}]", kind) for k, v in enumerate(raw)]))  # type: ignore[arg-type]
+        order = r.value(item.get("order", 1.0), f"{field}.order", "ratio", "positive")
+        point = _point(r, item.get("point"), f"{field}.point")
+        forces.append((r.text(item, "body", f"{field}.body"), point, vectors[0], vectors[1], order))
     probes = []
     for i, item in enumerate(r.array(t, "probes", "space.probes", required=False)):
         field = f"space.probes[{i}]"
@@ -615,6 +650,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         soil,
         zeta,
         tuple(unbalance),
+        tuple(forces),
         tuple(probes),
         group,
         support,
@@ -630,6 +666,8 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         for _label, body, point in scenario.probes:
             model.motion(body, point)
         for body, point, _axis, _amount in scenario.unbalance:
+            model.motion(body, point)
+        for body, point, *_ in scenario.forces:
             model.motion(body, point)
     except InputValueError as error:
         raise r.fail("space", str(error)) from None
@@ -690,7 +728,8 @@ class SpaceStudyResult:
     displacement : numpy.ndarray
         Complex 1x displacement at each probe, ``speeds x probes x 3`` [m, 0-peak].
     velocity_rms : numpy.ndarray
-        RMS velocity per probe and direction over the speeds [m/s], ``speeds x probes x 3``.
+        RMS velocity per probe and direction over the speeds [m/s], ``speeds x probes x 3``: the 1x unbalance
+        response and each force at its order, added in quadrature.
     peak_velocity : tuple of (float, float, str)
         Per probe: the largest RMS velocity over the speeds of continuous operation [m/s], its speed [rpm]
         and its ISO zone.
@@ -850,10 +889,18 @@ def run_space_study(
         displacement = space_response(model, loads, f, points_read)
     else:
         displacement = np.zeros((speed.size, len(points_read), 3), dtype=complex)
+    # Forces at other orders respond at their own frequencies: their RMS velocities add to the 1x one in
+    # quadrature (the RMS of a sum of harmonics at different frequencies).
+    extra_square = np.zeros((speed.size, len(points_read), 3))
+    rms = float(convert_amplitude(1.0, "peak", "rms")[0])
+    for body, point, force, moment, order in scenario.forces if points_read else ():
+        fo = order * f
+        u = space_response(
+            model, [PointLoad(body, point, force.astype(complex), moment.astype(complex))], fo, points_read
+        )
+        extra_square += (np.abs(u) * (2.0 * math.pi * fo)[:, None, None] * rms) ** 2
     # 0-peak displacement to RMS velocity of a sine: w |u| / sqrt(2) (the factor of convert_amplitude).
-    velocity = (
-        np.abs(displacement) * (2.0 * math.pi * f)[:, None, None] * float(convert_amplitude(1.0, "peak", "rms")[0])
-    )
+    velocity = np.sqrt((np.abs(displacement) * (2.0 * math.pi * f)[:, None, None] * rms) ** 2 + extra_square)
     computed = support_class(min(m.frequency for m in modes), scenario.speed.speed_max)
     used = "rigid" if "rigid" in (computed, scenario.support) else "flexible"
     running = np.array([scenario.speed.contains(n) for n in speed])

@@ -205,7 +205,11 @@ class GearMesh:
 
     def __post_init__(self) -> None:
         where = f"{self.gear}-{self.pinion}"
-        object.__setattr__(self, "ratio", as_si(self.ratio, f"{where}: ratio", "ratio", "positive"))
+        ratio = as_si(self.ratio, f"{where}: ratio", "ratio", "positive")
+        if not 1e-3 <= ratio <= 1e3:
+            # Far wider than any gearbox; beyond it the referral (ratio squared) loses all meaning.
+            raise InputValueError(f"{where}: ratio: got {ratio:g}; expected a speed ratio between 0.001 and 1000")
+        object.__setattr__(self, "ratio", ratio)
         if self.stiffness is not None:
             k = as_si(self.stiffness, f"{where}: stiffness", "moment_stiffness", "positive")
             object.__setattr__(self, "stiffness", k)

@@ -60,6 +60,7 @@ from .speed_range import OperatingRange
 from .tables import (
     MotorSpec,
     RecordSpec,
+    ScenarioError,
     TableReader,
     parse_excitations,
     parse_head,
@@ -526,9 +527,15 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
         mesh_k: float | None = None
         if "stiffness" in item:
             mesh_k = r.value(item["stiffness"], f"{field}.stiffness", "moment_stiffness", "positive")
-        meshes.append(
-            GearMesh(r.text(item, "gear", f"{field}.gear"), r.text(item, "pinion", f"{field}.pinion"), ratio, mesh_k)
-        )
+        try:
+            mesh = GearMesh(
+                r.text(item, "gear", f"{field}.gear"), r.text(item, "pinion", f"{field}.pinion"), ratio, mesh_k
+            )
+        except ScenarioError:
+            raise
+        except InputValueError as error:
+            raise r.fail(f"{field}.ratio", str(error)) from None
+        meshes.append(mesh)
         if "allowable_torque" in item:
             if mesh_k is None:
                 raise r.fail(f"{field}.allowable_torque", "a rigid mesh carries no modelled twist; give its stiffness")

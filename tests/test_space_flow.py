@@ -185,3 +185,48 @@ def test_a_scenario_with_a_steel_frame_runs():
     assert result.model.model.size == 30  # five nodes of six coordinates; the pump rides on "mid"
     assert result.shapes[0].words.startswith("pump:")
     assert len(result.band) == 9  # mounts x frame, each at 1 -/+ 0.3 and 1
+
+
+def test_a_force_at_another_order_adds_in_quadrature():
+    # One body on an isotropic mount at its centre, an unbalance at 1x and a force at 2x: the RMS velocity at the
+    # centre is sqrt(v1^2 + v2^2), each v = w |u| / sqrt(2), u = F / (k - m w^2 + i w c) at its own frequency
+    # (single degree of freedom per direction, closed form; ISO 21940-11 for the unbalance force U w^2).
+    from resonance.space_study import parse_space_scenario, run_space_study
+
+    m, k, c, unb, force = 500.0, 4e7, 2e3, 0.002, 100.0
+    tables = {
+        "scenario": {"title": "one body"},
+        "speed": {"min": "1400 rpm", "max": "1600 rpm"},
+        "excitations": [{"order": 1, "label": "1x"}],
+        "margin": {"flat": 15},
+        "space": {
+            "bodies": [{"name": "m", "mass": f"{m} kg", "center": ["0 m", "0 m", "0 m"], "box": ["1 m", "1 m", "1 m"]}],
+            "mounts": [
+                {
+                    "label": "mount",
+                    "body": "m",
+                    "point": ["0 m", "0 m", "0 m"],
+                    "stiffness": [f"{k} N/m"] * 3,
+                    "damping": [f"{c} N*s/m"] * 3,
+                    "rotational_stiffness": ["1e7 N*m/rad"] * 3,
+                }
+            ],
+            "unbalance": [{"body": "m", "point": ["0 m", "0 m", "0 m"], "axis": [1, 0, 0], "amount": f"{unb} kg*m"}],
+            "forces": [
+                {"body": "m", "point": ["0 m", "0 m", "0 m"], "force": ["0 N", f"{force} N", "0 N"], "order": 2}
+            ],
+            "probes": [{"label": "centre", "body": "m", "point": ["0 m", "0 m", "0 m"]}],
+        },
+        "whatif": {"tolerance": 0},
+    }
+    result = run_space_study(parse_space_scenario(tables, "one.toml"))
+    w = 2 * math.pi * result.speed / 60
+    v1 = w * unb * w**2 / np.abs(k - m * w**2 + 1j * w * c) / math.sqrt(2)  # rotating in y-z (shaft along x)
+    w2 = 2 * w
+    v2 = w2 * force / np.abs(k - m * w2**2 + 1j * w2 * c) / math.sqrt(2)
+    assert np.allclose(result.velocity_rms[:, 0, 1], np.sqrt(v1**2 + v2**2), rtol=1e-9)
+    assert np.allclose(result.velocity_rms[:, 0, 2], v1, rtol=1e-9)  # the 2x force has no z component
+    assert np.allclose(result.velocity_rms[:, 0, 0], 0.0, atol=1e-15)  # nothing along the shaft
+    tables["space"]["forces"][0]["force"] = ["1 N", "2 N"]
+    with pytest.raises(ScenarioError, match=r"space\.forces\[0\]\.force: got"):
+        parse_space_scenario(tables, "one.toml")

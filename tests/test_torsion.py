@@ -325,6 +325,10 @@ def test_demo_train_runs_through_check(tmp_path, capsys):
     [
         (lambda t: t["torsion"]["stations"][0].update(inertia="0 kg*m**2"), r"torsion\.stations\[0\]\.inertia: got 0"),
         (lambda t: t["torsion"]["meshes"][0].update(ratio=0), r"torsion\.meshes\[0\]\.ratio: got 0"),
+        (  # found by the fuzz test: the referral squared the ratio past a float
+            lambda t: t["torsion"]["meshes"][0].update(ratio=1e300),
+            r"torsion\.meshes\[0\]\.ratio: bull gear-pinion: ratio: got 1e\+300; expected a speed ratio between",
+        ),
         (
             lambda t: t["torsion"]["stations"][4].update(shaft="island"),
             r"torsion\.(shafts/couplings|meshes): .*(joins two shafts|not geared)",
