@@ -185,6 +185,15 @@ def test_a_scenario_with_a_steel_frame_runs():
     assert result.model.model.size == 30  # five nodes of six coordinates; the pump rides on "mid"
     assert result.shapes[0].words.startswith("pump:")
     assert len(result.band) == 9  # mounts x frame, each at 1 -/+ 0.3 and 1
+    from resonance.ui import SpacePanel
+
+    panel = SpacePanel(parse_space_scenario(tables, "frame.toml"))
+    assert not panel.frame.disabled
+    assert panel.soil.disabled  # no soil in this scenario
+    stiff = max(s.frequency for s in panel.result.shapes)
+    panel.frame.value = 0.5
+    # The frame's own highest mode is all beam bending: it falls by about sqrt(0.5) with the moduli.
+    assert max(s.frequency for s in panel.result.shapes) / stiff == pytest.approx(math.sqrt(0.5), rel=0.05)
 
 
 def test_a_force_at_another_order_adds_in_quadrature():

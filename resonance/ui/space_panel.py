@@ -44,7 +44,7 @@ class SpacePanel(Panel):
 
     Controls: the speed range, the modal damping ratio, a factor on the soil's shear modulus (the least
     certain input), a factor on the stiffness of the mounts the what-if varies (``[whatif] vary_mounts``), the
-    mode shown in 3D and the unit system. Views:
+    mode shown in 3D, a factor on the frame's moduli (when there is a frame) and the unit system. Views:
     verdict, interference diagram, findings, modes in words, the mode in 3D, the bearing response against
     speed in x, y and z.
 
@@ -72,6 +72,8 @@ class SpacePanel(Panel):
         self.soil = _factor("soil shear modulus x")
         self.soil.disabled = scenario.soil is None
         self.mounts = _factor("isolator stiffness x")
+        self.frame = _factor("frame stiffness x")
+        self.frame.disabled = not scenario.beams
         self.units = units_toggle(scenario.units, "170px")
         self.verdict = w.HTML()
         self.message = w.HTML()
@@ -88,7 +90,7 @@ class SpacePanel(Panel):
         self.response_fig = space_response_figure(self.result, self.system, widget=True)
         self.shape_fig = space_shape_figure(self.result, 0, widget=True)
         self._render_text()
-        for control in (self.speed, self.damping, self.soil, self.mounts, self.units):
+        for control in (self.speed, self.damping, self.soil, self.mounts, self.frame, self.units):
             control.observe(self._changed, names="value")
         self.mode.observe(self._mode_changed, names="value")
         self.widget = w.VBox(
@@ -99,6 +101,7 @@ class SpacePanel(Panel):
                 self.damping,
                 self.soil,
                 self.mounts,
+                self.frame,
                 self.units,
                 self.verdict,
                 self.message,
@@ -119,7 +122,9 @@ class SpacePanel(Panel):
     def compute(self) -> SpaceStudyResult:
         """Re-run the study for the controls (no drawing)."""
         self.scenario = self.edited_scenario()
-        return run_space_study(self.scenario, float(self.mounts.value), float(self.soil.value))
+        return run_space_study(
+            self.scenario, float(self.mounts.value), float(self.soil.value), frame_factor=float(self.frame.value)
+        )
 
     def update(self) -> None:
         """Recompute and refresh every view in place."""
