@@ -87,6 +87,7 @@ from .tables import (
     parse_record,
     parse_rules,
     parse_speed,
+    plain_tables,
     read_scenario_bytes,
 )
 from .units import UnitSystem, display_unit
@@ -656,7 +657,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         support,
         tolerance,
         vary,
-        _plain(data),
+        plain_tables(data),
         source,
         motor,
         parse_record(r, r.table(data, "record", "record", required=False)),
@@ -672,17 +673,6 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     except InputValueError as error:
         raise r.fail("space", str(error)) from None
     return scenario
-
-
-def _plain(value: Any) -> Any:
-    # The tables as JSON-ready values (a TOML date becomes its ISO text).
-    if isinstance(value, Mapping):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list):
-        return [_plain(v) for v in value]
-    if isinstance(value, (str, int, float, bool)) or value is None:
-        return value
-    return value.isoformat() if hasattr(value, "isoformat") else str(value)
 
 
 def load_space_scenario(path: str | os.PathLike[str]) -> SpaceScenario:

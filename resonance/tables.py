@@ -38,6 +38,7 @@ else:  # pragma: no cover - Python 3.10
     import tomli as tomllib
 
 __all__ = [
+    "plain_tables",
     "MotorSpec",
     "RecordSpec",
     "ScenarioError",
@@ -776,3 +777,30 @@ def atomic_write(path: str | os.PathLike[str], text: str) -> Path:
     finally:
         temporary.unlink(missing_ok=True)  # never a partial file, whatever failed
     return target
+
+
+def plain_tables(value: Any) -> Any:
+    """A scenario's tables as JSON-ready values (a TOML date becomes its ISO text), for a record.
+
+    Parameters
+    ----------
+    value : object
+        Tables as read from TOML (nested mappings and lists).
+
+    Returns
+    -------
+    object
+        The same structure with plain values.
+
+    Raises
+    ------
+    Nothing
+        Any other value becomes its text.
+    """
+    if isinstance(value, Mapping):
+        return {str(k): plain_tables(v) for k, v in value.items()}
+    if isinstance(value, list):
+        return [plain_tables(v) for v in value]
+    if isinstance(value, (str, int, float, bool)) or value is None:
+        return value
+    return value.isoformat() if hasattr(value, "isoformat") else str(value)

@@ -68,6 +68,7 @@ from .tables import (
     parse_record,
     parse_rules,
     parse_speed,
+    plain_tables,
     read_scenario_bytes,
 )
 from .torsion import (
@@ -408,17 +409,6 @@ FORCED_METHOD: tuple[tuple[str, str], ...] = (
 )
 
 
-def _plain(value: Any) -> Any:
-    # The tables as JSON-ready values (a TOML date becomes its ISO text).
-    if isinstance(value, Mapping):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list):
-        return [_plain(v) for v in value]
-    if isinstance(value, (str, int, float, bool)) or value is None:
-        return value
-    return value.isoformat() if hasattr(value, "isoformat") else str(value)
-
-
 def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scenario>") -> TorsionScenario:
     """Validate a torsional scenario given as nested tables (as read from TOML).
 
@@ -576,7 +566,7 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
         rules,
         train,
         zeta,
-        _plain(data),
+        plain_tables(data),
         source,
         motor,
         parse_record(r, r.table(data, "record", "record", required=False)),
