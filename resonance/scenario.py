@@ -106,6 +106,7 @@ from .tables import (
     parse_record,
     parse_rules,
     parse_speed,
+    parse_vibration,
     read_scenario_bytes,
     read_scenario_file,
     rules_table,
@@ -409,14 +410,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     model = _model(r, r.table(data, "model", "model"))
     response = _response(r, r.table(data, "response", "response"), model.labels, high)
 
-    vibration = r.table(data, "vibration", "vibration", required=False)
-    r.known(vibration, ("group", "support"), "vibration")
-    group = r.integer(vibration, "group", "vibration.group", 2)
-    support = r.text(vibration, "support", "vibration.support", "rigid")
-    if group not in (1, 2) or support not in ("rigid", "flexible"):
-        raise r.fail(
-            "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
-        )
+    group, support = parse_vibration(r, r.table(data, "vibration", "vibration", required=False))
 
     whatif = r.table(data, "whatif", "whatif", required=False)
     r.known(whatif, ("vary_springs", "vary_masses", "tolerance"), "whatif")

@@ -87,6 +87,7 @@ from .tables import (
     parse_record,
     parse_rules,
     parse_speed,
+    parse_vibration,
     plain_tables,
     read_scenario_bytes,
 )
@@ -617,14 +618,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
                 _point(r, item.get("point"), f"{field}.point"),
             )
         )
-    vibration = r.table(data, "vibration", "vibration", required=False)
-    r.known(vibration, ("group", "support"), "vibration")
-    group = r.integer(vibration, "group", "vibration.group", 2)
-    support = r.text(vibration, "support", "vibration.support", "rigid")
-    if group not in (1, 2) or support not in ("rigid", "flexible"):
-        raise r.fail(
-            "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
-        )
+    group, support = parse_vibration(r, r.table(data, "vibration", "vibration", required=False))
     whatif = r.table(data, "whatif", "whatif", required=False)
     r.known(whatif, ("tolerance", "vary_mounts"), "whatif")
     labels = [m.label for m in mounts]

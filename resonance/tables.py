@@ -38,6 +38,7 @@ else:  # pragma: no cover - Python 3.10
     import tomli as tomllib
 
 __all__ = [
+    "parse_vibration",
     "plain_tables",
     "MotorSpec",
     "RecordSpec",
@@ -546,6 +547,36 @@ def parse_rule(r: TableReader, data: Mapping[str, Any]) -> MarginRule:
         return rule_by_name(name)
     except InputValueError as error:
         raise r.fail("margin.rule", str(error).removeprefix("rule: ")) from None
+
+
+def parse_vibration(r: TableReader, data: Mapping[str, Any]) -> tuple[int, str]:
+    """The ``[vibration]`` table: ISO 10816-3 machine group and declared support class.
+
+    Parameters
+    ----------
+    r : TableReader
+        The reader (its file name starts the errors).
+    data : mapping
+        The table (empty for the defaults: group 2, rigid).
+
+    Returns
+    -------
+    tuple of (int, str)
+        ``(group, support)``.
+
+    Raises
+    ------
+    ScenarioError
+        An unknown field, a group other than 1 or 2, a support other than rigid or flexible.
+    """
+    r.known(data, ("group", "support"), "vibration")
+    group = r.integer(data, "group", "vibration.group", 2)
+    support = r.text(data, "support", "vibration.support", "rigid")
+    if group not in (1, 2) or support not in ("rigid", "flexible"):
+        raise r.fail(
+            "vibration", f"got group {group!r}, support {support!r}; expected group 1 or 2, 'rigid' or 'flexible'"
+        )
+    return group, support
 
 
 def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
