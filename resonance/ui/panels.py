@@ -35,7 +35,7 @@ from .plots import (
 )
 from .report import write_html
 from .uncertainty_plots import fix_map_figure
-from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import Panel, caution_banner, factor_slider, slider_range, speed_slider, units_toggle, verdict_html
 
 __all__ = ["DesignPanel", "single_mode_panel", "multi_mode_panel", "WhatIfPanel", "RecordPanel"]
 
@@ -254,19 +254,7 @@ class WhatIfPanel(Panel):
         wide = w.Layout(width="520px")
         # Factors from x0.25 to x4 on a logarithmic scale.
         self.stiffness, self.mass = (
-            w.FloatLogSlider(
-                value=1.0,
-                base=10,
-                min=-0.6,
-                max=0.6,
-                step=0.002,
-                readout_format=".3f",
-                description=label,
-                continuous_update=False,
-                style=style,
-                layout=wide,
-            )
-            for label in ("stiffness x", "mass x")
+            factor_slider(label, 0.6, 0.002, "130px", "520px") for label in ("stiffness x", "mass x")
         )
         self.damping = _damping_slider(scenario)
         self.af_label = w.HTML(_af_text(scenario.model.damping_ratio))

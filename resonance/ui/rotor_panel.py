@@ -19,25 +19,9 @@ from .rotor_plots import (
     update_rotor_response_figure,
     update_speed_map_figure,
 )
-from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import Panel, caution_banner, factor_slider, slider_range, speed_slider, units_toggle, verdict_html
 
 __all__ = ["RotorPanel"]
-
-
-def _factor_slider(label: str) -> w.FloatLogSlider:
-    # Factors from x0.1 to x10 on a logarithmic scale.
-    return w.FloatLogSlider(
-        value=1.0,
-        base=10,
-        min=-1.0,
-        max=1.0,
-        step=0.01,
-        readout_format=".2f",
-        description=label,
-        continuous_update=False,
-        style={"description_width": "150px"},
-        layout=w.Layout(width="540px"),
-    )
 
 
 class RotorPanel(Panel):
@@ -57,8 +41,8 @@ class RotorPanel(Panel):
         self.original = scenario
         self.scenario = scenario
         self.speed = speed_slider(scenario.speed)
-        self.stiffness = _factor_slider("bearing stiffness x")
-        self.damping = _factor_slider("bearing damping x")
+        self.stiffness = factor_slider("bearing stiffness x", label_width="150px", width="540px")
+        self.damping = factor_slider("bearing damping x", label_width="150px", width="540px")
         self.shape_speed = w.IntSlider(
             value=round(scenario.speed.speed_max),
             min=0,

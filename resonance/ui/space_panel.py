@@ -15,28 +15,18 @@ from .space_plots import (
     update_space_response_figure,
     update_space_shape_figure,
 )
-from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import (
+    Panel,
+    caution_banner,
+    factor_slider,
+    modal_damping_slider,
+    slider_range,
+    speed_slider,
+    units_toggle,
+    verdict_html,
+)
 
 __all__ = ["SpacePanel"]
-
-_STYLE = {"description_width": "170px"}
-_LAYOUT = w.Layout(width="560px")
-
-
-def _factor(label: str) -> w.FloatLogSlider:
-    # Factors from x0.25 to x4 on a logarithmic scale.
-    return w.FloatLogSlider(
-        value=1.0,
-        base=10,
-        min=-0.6,
-        max=0.6,
-        step=0.01,
-        readout_format=".2f",
-        description=label,
-        continuous_update=False,
-        style=_STYLE,
-        layout=_LAYOUT,
-    )
 
 
 class SpacePanel(Panel):
@@ -58,21 +48,11 @@ class SpacePanel(Panel):
         self.original = scenario
         self.scenario = scenario
         self.speed = speed_slider(scenario.speed)
-        self.damping = w.FloatSlider(
-            value=scenario.damping_ratio,
-            min=0.0,
-            max=0.2,
-            step=0.0025,
-            readout_format=".4f",
-            description="modal damping ratio",
-            continuous_update=False,
-            style=_STYLE,
-            layout=_LAYOUT,
-        )
-        self.soil = _factor("soil shear modulus x")
+        self.damping = modal_damping_slider(scenario.damping_ratio)
+        self.soil = factor_slider("soil shear modulus x", 0.6)
         self.soil.disabled = scenario.soil is None
-        self.mounts = _factor("isolator stiffness x")
-        self.frame = _factor("frame stiffness x")
+        self.mounts = factor_slider("isolator stiffness x", 0.6)
+        self.frame = factor_slider("frame stiffness x", 0.6)
         self.frame.disabled = not scenario.beams
         self.units = units_toggle(scenario.units, "170px")
         self.verdict = w.HTML()
@@ -84,7 +64,7 @@ class SpacePanel(Panel):
             options=[(f"mode {i + 1}", i) for i in range(len(self.result.shapes))],
             value=0,
             description="mode shown in 3D",
-            style=_STYLE,
+            style={"description_width": "170px"},
         )
         self.interference_fig = interference_figure(self.result, self.system, widget=True, log_frequency=True)
         self.response_fig = space_response_figure(self.result, self.system, widget=True)

@@ -17,12 +17,18 @@ from .torsion_plots import (
     update_torque_figure,
     update_torsion_shape_figure,
 )
-from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import (
+    Panel,
+    caution_banner,
+    factor_slider,
+    modal_damping_slider,
+    slider_range,
+    speed_slider,
+    units_toggle,
+    verdict_html,
+)
 
 __all__ = ["TorsionPanel"]
-
-_STYLE = {"description_width": "170px"}
-_LAYOUT = w.Layout(width="560px")
 
 
 class TorsionPanel(Panel):
@@ -43,43 +49,11 @@ class TorsionPanel(Panel):
         self.original = scenario
         self.scenario = scenario
         self.speed = speed_slider(scenario.speed)
-        self.coupling = w.FloatLogSlider(
-            value=1.0,
-            base=10,
-            min=-1.0,
-            max=1.0,
-            step=0.01,
-            readout_format=".2f",
-            description="coupling stiffness x",
-            continuous_update=False,
-            style=_STYLE,
-            layout=_LAYOUT,
-        )
+        self.coupling = factor_slider("coupling stiffness x")
         if scenario.damping_ratio is not None:
-            self.damping: w.FloatSlider | w.FloatLogSlider = w.FloatSlider(
-                value=scenario.damping_ratio,
-                min=0.0,
-                max=0.2,
-                step=0.0025,
-                readout_format=".4f",
-                description="modal damping ratio",
-                continuous_update=False,
-                style=_STYLE,
-                layout=_LAYOUT,
-            )
+            self.damping: w.FloatSlider | w.FloatLogSlider = modal_damping_slider(scenario.damping_ratio)
         else:
-            self.damping = w.FloatLogSlider(
-                value=1.0,
-                base=10,
-                min=-1.0,
-                max=1.0,
-                step=0.01,
-                readout_format=".2f",
-                description="element dampers x",
-                continuous_update=False,
-                style=_STYLE,
-                layout=_LAYOUT,
-            )
+            self.damping = factor_slider("element dampers x")
         self.units = units_toggle(scenario.units, "170px")
         self.verdict = w.HTML()
         self.message = w.HTML()

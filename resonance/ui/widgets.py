@@ -92,6 +92,77 @@ def speed_slider(speed: OperatingRange) -> w.IntRangeSlider:
     )
 
 
+def factor_slider(
+    label: str, decades: float = 1.0, step: float = 0.01, label_width: str = "170px", width: str = "560px"
+) -> w.FloatLogSlider:
+    """A what-if factor on a logarithmic scale, starting at 1 (x0.1 to x10 for one decade each way).
+
+    Parameters
+    ----------
+    label : str
+        Its description (``"bearing stiffness x"``).
+    decades : float
+        How far it reaches each way, in decades (0.6: x0.25 to x4).
+    step : float
+        Step in decades.
+    label_width, width : str
+        CSS widths of the description and of the whole slider.
+
+    Returns
+    -------
+    ipywidgets.FloatLogSlider
+
+    Raises
+    ------
+    Nothing
+        Drawing only.
+    """
+    return w.FloatLogSlider(
+        value=1.0,
+        base=10,
+        min=-decades,
+        max=decades,
+        step=step,
+        readout_format=".3f" if step < 0.01 else ".2f",
+        description=label,
+        continuous_update=False,
+        style={"description_width": label_width},
+        layout=w.Layout(width=width),
+    )
+
+
+def modal_damping_slider(value: float, label_width: str = "170px", width: str = "560px") -> w.FloatSlider:
+    """A modal damping ratio, 0 to 0.2.
+
+    Parameters
+    ----------
+    value : float
+        The starting ratio [-].
+    label_width, width : str
+        CSS widths of the description and of the whole slider.
+
+    Returns
+    -------
+    ipywidgets.FloatSlider
+
+    Raises
+    ------
+    Nothing
+        Drawing only.
+    """
+    return w.FloatSlider(
+        value=value,
+        min=0.0,
+        max=0.2,
+        step=0.0025,
+        readout_format=".4f",
+        description="modal damping ratio",
+        continuous_update=False,
+        style={"description_width": label_width},
+        layout=w.Layout(width=width),
+    )
+
+
 def slider_range(slider: w.IntRangeSlider, original: OperatingRange) -> OperatingRange:
     """The range a speed slider shows, keeping the original skip bands that still lie inside it.
 
