@@ -26,6 +26,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .damping import modal_damping
 from .errors import InputTypeError, InputValueError
 from .frame import Beam, beam_matrices
 from .inputs import as_matrix, as_si, as_si_array
@@ -41,6 +42,7 @@ __all__ = [
     "SpaceMode",
     "SpaceModel",
     "box_inertia",
+    "equivalent_box",
     "orbit_major",
     "point_motion",
     "rotating_unbalance",
@@ -71,6 +73,34 @@ def _vector(value: object, name: str, kind: str = "length", sign: str = "any") -
 
 def _skew(r: np.ndarray) -> np.ndarray:
     return np.array([[0.0, -r[2], r[1]], [r[2], 0.0, -r[0]], [-r[1], r[0], 0.0]])
+
+
+def equivalent_box(mass: float, inertia: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The uniform box with a body's mass and principal moments: its sides and their directions.
+
+    Parameters
+    ----------
+    mass : float
+        [kg].
+    inertia : numpy.ndarray
+        Inertia tensor about the centre of gravity [kg m^2].
+
+    Returns
+    -------
+    sides : numpy.ndarray
+        Edge lengths [m] along the principal axes (the inverse of :func:`box_inertia`).
+    axes : numpy.ndarray
+        The principal axes as columns (global coordinates).
+
+    Raises
+    ------
+    Nothing
+        Plain arithmetic (a body's inertia is validated).
+    """
+    moments, axes = np.linalg.eigh(inertia)
+    i1, i2, i3 = moments
+    sides = np.sqrt(np.clip(6.0 / mass * np.array([i2 + i3 - i1, i1 + i3 - i2, i1 + i2 - i3]), 0.0, None))
+    return sides, axes
 
 
 def box_inertia(mass: object, lx: object, ly: object, lz: object) -> np.ndarray:
@@ -361,6 +391,7 @@ def space_model(
     beams: Sequence[Beam] = (),
     attached: Mapping[str, str] | None = None,
     fixed: Sequence[str] = (),
+    damping_ratio: float = 0.0,
 ) -> SpaceModel:
     """Assemble bodies, a frame and mounts into one model, refusing mechanisms.
 
@@ -381,6 +412,8 @@ def space_model(
         Frame nodes clamped to ground (all six coordinates held): column feet cast in, welded to an embedded
         plate. A very stiff mount would do the same but spoils the numerics; give anchors their real
         stiffness as mounts instead when they are not rigid.
+    damping_ratio : float
+        Modal damping on every mode [-], added to the mounts' dashpots (Clough & Penzien sec. 12-5).
 
     Returns
     -------
@@ -469,10 +502,12 @@ def space_model(
     if not owners:
         raise InputValueError("fixed: every node is held; nothing can move")
     labels = tuple(f"{o}.{d}" for o in owners for d in DIRECTIONS)
+    zeta = as_si(damping_ratio, "damping_ratio", "ratio", "nonnegative")
     for matrix in (mass, stiffness, damping):
-        # Rotations into element and mount axes leave round-off where an entry is zero: clear it.
-        matrix[np.abs(matrix) < 1e-13 * max(float(np.abs(matrix).max()), 1e-300)] = 0.0
+        _clear_roundoff(matrix)
     _refuse_mechanism(mass, stiffness, labels)
+    if zeta > 0.0:
+        damping = _clear_roundoff(damping + modal_damping(mass, stiffness, zeta))
     return SpaceModel(
         tuple(bodies),
         tuple(mounts),
@@ -482,6 +517,12 @@ def space_model(
         attached,
         tuple(beams),
     )
+
+
+def _clear_roundoff(matrix: np.ndarray) -> np.ndarray:
+    # Rotations into element and mount axes leave round-off where an entry is zero: clear it in place.
+    matrix[np.abs(matrix) < 1e-13 * max(float(np.abs(matrix).max()), 1e-300)] = 0.0
+    return matrix
 
 
 def _refuse_mechanism(mass: np.ndarray, stiffness: np.ndarray, labels: tuple[str, ...]) -> None:

@@ -49,14 +49,12 @@ from typing import Any
 
 import numpy as np
 
-from .damping import modal_damping
 from .errors import InputValueError
 from .excitations import Excitation, permissible_unbalance
 from .frame import Beam
 from .harmonic import convert_amplitude
 from .interference import FindingsTable, interference_check, verdict_line, verdict_of
 from .limits import iso_velocity_zone, support_class
-from .model import matrix_model
 from .modes import Mode
 from .record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
 from .rules import RuleSet
@@ -69,6 +67,7 @@ from .space import (
     SpaceMode,
     SpaceModel,
     box_inertia,
+    equivalent_box,
     orbit_major,
     rotating_unbalance,
     space_model,
@@ -338,14 +337,8 @@ class SpaceScenario:
             )
             for b in self.beams
         ]
-        model = space_model(self.bodies, mounts, self.nodes, beams, self.attached, self.fixed)
         zeta = self.damping_ratio if damping_ratio is None else damping_ratio
-        if zeta > 0.0:
-            m = model.model
-            damping = m.damping + modal_damping(m.mass, m.stiffness, zeta)
-            damping[np.abs(damping) < 1e-13 * float(np.abs(damping).max())] = 0.0  # round-off, not damping
-            model = dataclasses.replace(model, model=matrix_model(m.mass, m.stiffness, damping, m.labels))
-        return model
+        return space_model(self.bodies, mounts, self.nodes, beams, self.attached, self.fixed, zeta)
 
 
 def _point(r: TableReader, raw: Any, field: str) -> np.ndarray:
@@ -494,15 +487,9 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
             raise r.fail("space.soil.body", f"got {body_name!r}; expected one of {[b.name for b in bodies]}")
         if "point" in s:
             base = _point(r, s["point"], "space.soil.point")
-        else:  # the lowest face of the body's box: its centre minus half the height
-            half = (
-                math.sqrt(
-                    max(
-                        12.0 * (owner.inertia[0, 0] + owner.inertia[1, 1] - owner.inertia[2, 2]) / (2 * owner.mass), 0.0
-                    )
-                )
-                / 2
-            )
+        else:  # the lowest face of the body's (equivalent) box: its centre minus half its height
+            sides, axes = equivalent_box(owner.mass, owner.inertia)
+            half = 0.5 * float(np.abs(axes[2]) @ sides)  # the box's half-height (its extent along z)
             base = np.round(owner.center - np.array([0.0, 0.0, half]), 9)  # to the nanometre: no round-off
         lengths = {
             k: r.quantity(s, k, f"space.soil.{k}", "length", "positive")
@@ -814,6 +801,22 @@ class SpaceStudyResult:
         )
 
 
+def _structural_modes(shapes: tuple[SpaceMode, ...] | list[SpaceMode]) -> tuple[Mode, ...]:
+    # The modes in words as structural modes for the interference check.
+    return tuple(
+        Mode(
+            s.frequency,
+            s.damping_ratio,
+            f"mode {i + 1} ({s.words})",
+            "model",
+            kind="structural",
+            af_source="1/(2 zeta) of the model's damping",
+        )
+        for i, s in enumerate(shapes)
+        if s.frequency > 0.0
+    )
+
+
 def run_space_study(
     scenario: SpaceScenario,
     mount_factor: float = 1.0,
@@ -849,18 +852,7 @@ def run_space_study(
     """
     model = scenario.build(mount_factor, shear_factor, frame_factor=frame_factor)
     shapes = tuple(space_modes(model))
-    modes = tuple(
-        Mode(
-            s.frequency,
-            s.damping_ratio,
-            f"mode {i + 1} ({s.words})",
-            "model",
-            kind="structural",
-            af_source="1/(2 zeta) of the model's damping",
-        )
-        for i, s in enumerate(shapes)
-        if s.frequency > 0.0
-    )
+    modes = _structural_modes(shapes)
     findings = interference_check(list(modes), list(scenario.excitations), scenario.speed, scenario.rules)
     low, high = 0.5 * scenario.speed.speed_min, 1.3 * scenario.speed.speed_max
     grid = [np.linspace(low, high, points)]
@@ -905,11 +897,7 @@ def run_space_study(
             for ks in soils:
                 for kf in frames:
                     varied = scenario.build(mount_factor * km, shear_factor * ks, frame_factor=frame_factor * kf)
-                    found = [
-                        Mode(sh.frequency, sh.damping_ratio, f"mode {i + 1}", "model", kind="structural")
-                        for i, sh in enumerate(space_modes(varied))
-                        if sh.frequency > 0.0
-                    ]
+                    found = list(_structural_modes(space_modes(varied)))
                     table = interference_check(found, list(scenario.excitations), scenario.speed, scenario.rules)
                     corners.append((km, ks, kf, min(f.margin - f.required_margin for f in table)))
     return SpaceStudyResult(

@@ -11,6 +11,7 @@ import html
 import numpy as np
 import plotly.graph_objects as go
 
+from ..space import equivalent_box
 from ..space_study import SpaceStudyResult
 from ..units import UnitSystem, display_unit
 from .plots import OPERATING, vertical_bands
@@ -28,9 +29,7 @@ _EDGES = [(0, 1), (1, 3), (3, 2), (2, 0), (4, 5), (5, 7), (7, 6), (6, 4), (0, 4)
 
 def _corners(mass: float, inertia: np.ndarray, center: np.ndarray) -> np.ndarray:
     # The box with the body's mass and principal moments, along its principal axes (8 x 3).
-    moments, axes = np.linalg.eigh(inertia)
-    i1, i2, i3 = moments
-    sides = np.sqrt(np.clip(6.0 / mass * np.array([i2 + i3 - i1, i1 + i3 - i2, i1 + i2 - i3]), 1e-12, None))
+    sides, axes = equivalent_box(mass, inertia)
     signs = np.array([[sx, sy, sz] for sx in (-0.5, 0.5) for sy in (-0.5, 0.5) for sz in (-0.5, 0.5)])
     return center + (signs * sides) @ axes.T
 
