@@ -154,12 +154,7 @@ class SupportStudy:
             from .field.study import run_field_study
 
             field = run_field_study(scenario, base_dir)
-        uncertainty = None
-        if scenario.uncertainty:
-            from .uncertainty import run_uncertainty, uncertainty_spec
-
-            spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
-            uncertainty = run_uncertainty(scenario, spec, self.executor, self.progress)
+        uncertainty = _uncertainty(scenario, self.executor, self.progress)
         result = run_study(scenario)
         fixes = None
         if not result.findings.passed:
@@ -201,12 +196,7 @@ class RotorStudy:
         """See :func:`resonance.rotor.study.run_rotor_study`."""
         from .rotor.study import run_rotor_study
 
-        uncertainty = None
-        if scenario.uncertainty:
-            from .uncertainty import run_uncertainty, uncertainty_spec
-
-            spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
-            uncertainty = run_uncertainty(scenario, spec, self.executor, self.progress)
+        uncertainty = _uncertainty(scenario, self.executor, self.progress)
         return rotor_outcome(run_rotor_study(scenario, progress=self.progress), uncertainty=uncertainty)
 
 
@@ -234,17 +224,7 @@ class TorsionStudy:
         from .torsion_study import build_torsion_record, run_torsion_study
 
         result = run_torsion_study(scenario)
-        return StudyOutcome(
-            self.name,
-            scenario.title,
-            scenario.units,
-            result,
-            result.passed,
-            result.summary(scenario.units),
-            result.findings,
-            (),
-            build_torsion_record(result),
-        )
+        return _plain_outcome(self.name, scenario, result, build_torsion_record(result))
 
 
 class SpaceStudy:
@@ -271,17 +251,32 @@ class SpaceStudy:
         from .space_study import build_space_record, run_space_study
 
         result = run_space_study(scenario)
-        return StudyOutcome(
-            self.name,
-            scenario.title,
-            scenario.units,
-            result,
-            result.passed,
-            result.summary(scenario.units),
-            result.findings,
-            (),
-            build_space_record(result),
-        )
+        return _plain_outcome(self.name, scenario, result, build_space_record(result))
+
+
+def _uncertainty(scenario: Any, executor: Any, progress: bool) -> Any:
+    # The scenario's uncertainty study, when it has an [uncertainty] table.
+    if not scenario.uncertainty:
+        return None
+    from .uncertainty import run_uncertainty, uncertainty_spec
+
+    spec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
+    return run_uncertainty(scenario, spec, executor, progress)
+
+
+def _plain_outcome(kind: str, scenario: Any, result: Any, record: Record) -> StudyOutcome:
+    # The outcome of a kind whose verdict is its result's alone (torsion, space).
+    return StudyOutcome(
+        kind,
+        scenario.title,
+        scenario.units,
+        result,
+        result.passed,
+        result.summary(scenario.units),
+        result.findings,
+        (),
+        record,
+    )
 
 
 def support_outcome(
