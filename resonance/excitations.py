@@ -25,7 +25,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Literal
 
 import numpy as np
@@ -73,12 +73,16 @@ class Excitation:
         is ``"synchronous"``, any other order ``"order"``, a fixed frequency
         ``"fixed"``. ``"electrical"`` must be given (see :func:`line_frequency`,
         :func:`drive_electrical`).
+    source : str, optional
+        Where the excitation came from, in words, for the record (``"[[excitations]] entry 1"``,
+        ``"[motor]: checked by default for a drive-fed motor"``); not part of its identity.
     """
 
     label: str
     order: float | None = None
     frequency: float | None = None
     kind: ExcitationKind | None = None
+    source: str = field(default="", compare=False)
 
     def __post_init__(self) -> None:
         if (self.order is None) == (self.frequency is None):

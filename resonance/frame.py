@@ -70,10 +70,10 @@ class Beam:
             ("youngs_modulus", "pressure"),
             ("shear_modulus", "pressure"),
             ("density", "density"),
-            ("area", "ratio"),
-            ("iy", "ratio"),
-            ("iz", "ratio"),
-            ("torsion_constant", "ratio"),
+            ("area", "area"),
+            ("iy", "second_moment"),
+            ("iz", "second_moment"),
+            ("torsion_constant", "second_moment"),
         ):
             object.__setattr__(self, name, as_si(getattr(self, name), f"{where}: {name}", kind, "positive"))  # type: ignore[arg-type]
         if self.up is not None:

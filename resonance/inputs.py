@@ -55,6 +55,9 @@ PLAUSIBLE: dict[str, tuple[float, float]] = {
     "pressure": (1.0, 1e13),
     "stress": (1e-3, 1e13),
     "moment_stiffness": (1e-6, 1e14),
+    "moment_damping": (1e-9, 1e12),
+    "area": (1e-12, 1e4),
+    "second_moment": (1e-24, 1e6),
     "force": (1e-12, 1e12),
 }
 
@@ -167,7 +170,7 @@ def _magnitude(value: object, name: str, kind: QuantityKind) -> np.ndarray:
             )
         if value.dimensionality != ureg.Unit(unit).dimensionality:
             raise InputTypeError(
-                f"{name}: got {value:~P}, which is not a {kind}; expected a "
+                f"{name}: got {value:~P}, which is not a {kind.replace('_', ' ')}; expected a "
                 f"quantity convertible to {unit} or a plain number in {unit}"
             )
         value = value.to(unit).magnitude

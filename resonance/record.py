@@ -14,12 +14,14 @@ import json
 import math
 import os
 import platform
+from collections.abc import Sequence
 from dataclasses import dataclass
 from importlib import metadata
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from ._version import __version__
+from .excitations import Excitation
 from .interference import FindingsTable, verdict_line
 from .scenario import RecordSpec, scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
@@ -38,6 +40,8 @@ __all__ = [
     "Record",
     "basis_lines",
     "build_record",
+    "excitation_lines",
+    "excitation_rows",
     "header_lines",
     "methods_used",
     "record_head",
@@ -109,6 +113,58 @@ def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> 
         reference = next((r for key, r in _AF_REFERENCES.items() if key in source), "as stated")
         out.append({"method": f"Amplification factor: {source}", "reference": reference})
     return out
+
+
+def excitation_rows(excitations: Sequence[Excitation]) -> list[dict[str, Any]]:
+    """Every excitation a study checked, for the JSON record: label, kind, order or frequency, origin.
+
+    Parameters
+    ----------
+    excitations : sequence of Excitation
+        As checked.
+
+    Returns
+    -------
+    list of dict
+        ``{"label", "kind", "order", "frequency_hz", "source"}`` per excitation (order in the reference
+        shaft's speed, or a fixed frequency [Hz]; the other one None).
+
+    Raises
+    ------
+    Nothing
+        Pure data.
+    """
+    return [
+        {"label": e.label, "kind": e.kind, "order": e.order, "frequency_hz": e.frequency, "source": e.source or "given"}
+        for e in excitations
+    ]
+
+
+def excitation_lines(excitations: Sequence[Excitation], speed_of: str = "running speed") -> list[str]:
+    """Every excitation a study checked, one line each with its origin, for the text record.
+
+    Parameters
+    ----------
+    excitations : sequence of Excitation
+        As checked.
+    speed_of : str
+        What the orders are orders of, in words (``"the driver shaft's speed"``).
+
+    Returns
+    -------
+    list of str
+        A heading line and one indented line per excitation.
+
+    Raises
+    ------
+    Nothing
+        Pure text.
+    """
+    lines = [f"  excitations checked ({len(excitations)}; orders of {speed_of}):"]
+    for e in excitations:
+        value = f"{e.order:.6g}x" if e.order is not None else f"{e.frequency:.6g} Hz fixed"
+        lines.append(f"    - {e.label} [{e.kind}, {value}]: {e.source or 'given'}")
+    return lines
 
 
 @dataclass(frozen=True)
@@ -302,11 +358,8 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
     lines = header_lines("CALCULATION RECORD", s.title, s.description, data)
     lines += [
         "INPUTS",
-        f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm"
-        + (
-            f"; skip bands {', '.join(f'{a:g}-{b:g}' for a, b in s.speed.skip_bands)} rpm" if s.speed.skip_bands else ""
-        ),
-        "  excitations: " + ", ".join(f"{e.label} [{e.kind}]" for e in s.excitations),
+        f"  operating speed: {s.speed.describe()}",
+        *excitation_lines(s.excitations),
         "  masses: " + ", ".join(f"{m.name} {m.mass * m_factor:.5g} {m_unit}" for m in s.model.masses),
         "  springs: "
         + ", ".join(
@@ -402,6 +455,7 @@ def build_record(
     data: dict[str, Any] = {
         **record_head("resonance-record/2", s.title, s.source, s.sha256, s.record, created),
         "scenario": scenario_to_dict(s),
+        "excitations": excitation_rows(s.excitations),
         "assumptions": _assumptions(result),
         "methods": methods_used(METHODS, result.findings),
         "modes": modes,

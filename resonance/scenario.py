@@ -511,7 +511,9 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
         "speed": speed_table(scenario.speed),
-        "excitations": [excitation_table(e, scenario.motor) for e in scenario.excitations],
+        "excitations": [
+            excitation_table(e, scenario.motor) for e in scenario.excitations if not e.source.startswith("[motor]")
+        ],
         **({"motor": motor_table(scenario.motor)} if scenario.motor else {}),
         "margin": rules_table(scenario.rules),
         "model": {

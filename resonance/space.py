@@ -46,6 +46,7 @@ __all__ = [
     "orbit_major",
     "point_motion",
     "rotating_unbalance",
+    "unbalance_reference",
     "space_model",
     "space_modes",
     "space_response",
@@ -225,7 +226,7 @@ class Mount:
             ("stiffness", "stiffness"),
             ("damping", "damping"),
             ("rotational_stiffness", "moment_stiffness"),
-            ("rotational_damping", "ratio"),
+            ("rotational_damping", "moment_damping"),
         ):
             object.__setattr__(self, name, _vector(getattr(self, name), f"{where}: {name}", kind, "nonnegative"))
         if not (np.any(self.stiffness > 0.0) or np.any(self.rotational_stiffness > 0.0)):
@@ -669,17 +670,58 @@ def rotating_unbalance(body: str, point: object, axis: object, unbalance: object
     Returns
     -------
     PointLoad
-        ``F = m e w^2 (e1 + i e2)`` per frequency: two orthogonal components in quadrature in the plane normal
-        to the axis (``e1``, ``e2``, the axis right-handed), rotating with the shaft.
+        ``F = m e w^2 (e1 - i e2)`` per frequency: the force ``m e w^2 (e1 cos wt + e2 sin wt)``, turning
+        from ``e1`` towards ``e2`` with the shaft, right-handed about the axis (:func:`unbalance_reference`).
 
     Raises
     ------
     InputValueError
         A zero axis, a bad unbalance or frequency.
 
+    Notes
+    -----
+    The phase reference: at ``t = 0`` the unbalance mass, and the force it throws out, lie along ``e1``; a
+    quarter turn later along ``e2 = n x e1``. Every phase a study reports is a lag behind this force.
+
     References
     ----------
-    ISO 21940-11 (the force ``U w^2``); any rotordynamics text for the rotating vector.
+    ISO 21940-11 (the force ``U w^2``); S. S. Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 3.7
+    (rotating unbalance); J. M. Vance, *Rotordynamics of Turbomachinery*, 1988, ch. 2 (the synchronous orbit
+    turns with the rotor on an isotropic support; from memory).
+    """
+    e1, e2 = unbalance_reference(axis)
+    u = as_si(unbalance, "unbalance", "unbalance", "positive")
+    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
+    force = (u * w**2)[:, None] * (e1 - 1j * e2)[None, :]
+    return PointLoad(body, _vector(point, "point"), force)
+
+
+def unbalance_reference(axis: object) -> tuple[np.ndarray, np.ndarray]:
+    """Where an unbalance on a shaft of this direction sits at ``t = 0``, and a quarter turn later.
+
+    Parameters
+    ----------
+    axis : array_like
+        The shaft direction ``n`` (any length); the rotor spins right-handed about it.
+
+    Returns
+    -------
+    e1 : numpy.ndarray
+        The unit direction of the unbalance at ``t = 0``: ``n x h`` normalised, ``h`` the global axis least
+        aligned with ``n`` (x for a shaft along z: ``e1`` is then +y).
+    e2 : numpy.ndarray
+        ``n x e1``, where it is a quarter turn later (-x for a shaft along z).
+
+    Raises
+    ------
+    InputValueError
+        A zero or non-finite axis.
+
+    Examples
+    --------
+    >>> e1, e2 = unbalance_reference([0, 0, 1])
+    >>> e1.tolist(), e2.tolist()
+    ([0.0, 1.0, 0.0], [-1.0, 0.0, 0.0])
     """
     n = _vector(axis, "axis", "ratio")
     length = float(np.linalg.norm(n))
@@ -690,10 +732,7 @@ def rotating_unbalance(body: str, point: object, axis: object, unbalance: object
     e1 = np.cross(n, helper)
     e1 /= np.linalg.norm(e1)
     e2 = np.cross(n, e1)
-    u = as_si(unbalance, "unbalance", "unbalance", "positive")
-    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
-    force = (u * w**2)[:, None] * (e1 + 1j * e2)[None, :]
-    return PointLoad(body, _vector(point, "point"), force)
+    return e1 + 0.0, e2 + 0.0  # + 0.0: no negative zeros in what is shown
 
 
 def space_response(

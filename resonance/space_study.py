@@ -56,7 +56,16 @@ from .harmonic import convert_amplitude
 from .interference import FindingsTable, interference_check, verdict_line, verdict_of
 from .limits import iso_velocity_zone, support_class
 from .modes import Mode
-from .record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
+from .record import (
+    CAUTION,
+    Record,
+    basis_lines,
+    excitation_lines,
+    excitation_rows,
+    header_lines,
+    methods_used,
+    record_head,
+)
 from .rules import RuleSet
 from .soil import FootingImpedance, footing_impedance, soil_mount
 from .space import (
@@ -73,6 +82,7 @@ from .space import (
     space_model,
     space_modes,
     space_response,
+    unbalance_reference,
 )
 from .speed_range import OperatingRange
 from .tables import (
@@ -466,7 +476,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
                     _triple(r, item, "stiffness", field, "stiffness"),
                     _triple(r, item, "damping", field, "damping"),
                     _triple(r, item, "rotational_stiffness", field, "moment_stiffness"),
-                    _triple(r, item, "rotational_damping", field, "ratio"),
+                    _triple(r, item, "rotational_damping", field, "moment_damping"),
                 )
             )
         except ScenarioError:
@@ -507,6 +517,13 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
             lengths.get("width_y"),
             r.value(s.get("embedment", 0.0), "space.soil.embedment", "length", "nonnegative"),
         )
+        height = 2.0 * float(owner.center[2] - base[2])  # the block's height, its base below its centre
+        if soil.embedment > 0.0 and not soil.embedment <= height:
+            raise r.fail(
+                "space.soil.embedment",
+                f"got {soil.embedment:g} m, deeper than the block {body_name!r} ({height:.4g} m from its base to "
+                "its top); expected an embedment up to the block's height",
+            )
     nodes = []
     for i, item in enumerate(r.array(t, "nodes", "space.nodes", required=False)):
         field = f"space.nodes[{i}]"
@@ -531,7 +548,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         between = r.array(item, "between", f"{field}.between")
         if len(between) != 2 or not all(isinstance(x, str) for x in between):
             raise r.fail(f"{field}.between", f"got {between!r}; expected two node names")
-        kinds = ("pressure", "pressure", "density", "ratio", "ratio", "ratio", "ratio")
+        kinds = ("pressure", "pressure", "density", "area", "second_moment", "second_moment", "second_moment")
         values = [r.quantity(item, k, f"{field}.{k}", kind, "positive") for k, kind in zip(keys, kinds, strict=True)]  # type: ignore[arg-type]
         up = None
         if "up" in item:
@@ -556,6 +573,10 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         if not isinstance(item, Mapping):
             raise r.fail(field, f"got {item!r}; expected a table")
         r.known(item, ("body", "point", "axis", "amount", "balance_grade", "rotor_mass"), field)
+        if "amount" in item and ("balance_grade" in item or "rotor_mass" in item):
+            raise r.fail(
+                field, "gives amount and a balance grade; expected one of amount, or balance_grade with rotor_mass"
+            )
         if "amount" in item:
             amount = r.quantity(item, "amount", f"{field}.amount", "unbalance", "positive")
         elif "balance_grade" in item and "rotor_mass" in item:
@@ -940,11 +961,13 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
     f_unit, f_factor = display_unit("frequency", s.units)
     v_unit, v_factor = display_unit("velocity", s.units)
     m_unit, m_factor = display_unit("mass", s.units)
+    u_unit, u_factor = display_unit("unbalance", s.units)
     d_unit, d_factor = display_unit("displacement", s.units)
     footing = s.footing()
     data: dict[str, Any] = {
         **record_head("resonance-space-record/1", s.title, s.source, s.sha256, s.record, created),
         "scenario": s.tables,
+        "excitations": excitation_rows(s.excitations),
         "assumptions": [
             "Rigid bodies with small rotations on linear mounts; steel frames of Euler-Bernoulli beam elements with "
             "the section properties given; attached bodies rigidly fixed to their node.",
@@ -998,11 +1021,17 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
     lines = [
         *header_lines("CALCULATION RECORD (SUPPORT IN SPACE)", s.title, s.description, data),
         "INPUTS",
-        f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm",
+        f"  operating speed: {s.speed.describe()}",
         "  bodies: " + ", ".join(f"{b.name} {b.mass * m_factor:.5g} {m_unit}" for b in s.bodies),
         f"  mounts: {len(s.mounts)}; frame: {len(s.nodes)} nodes, {len(s.beams)} beams; soil: "
         + ("none" if s.soil is None else f"G {s.soil.shear_modulus / 1e6:.4g} MPa, nu {s.soil.poisson_ratio:g}"),
-        "  excitations: " + ", ".join(e.label for e in s.excitations),
+        *excitation_lines(s.excitations),
+        *(
+            f"  unbalance {u * u_factor:.4g} {u_unit} on {b} at {np.round(p, 4).tolist()} m, shaft along "
+            f"{np.round(a, 4).tolist()}: at t = 0 it points along {np.round(unbalance_reference(a)[0], 4).tolist()} "
+            "(the reference of every phase lag), turning right-handed about the shaft"
+            for b, p, a, u in s.unbalance
+        ),
         "",
         *basis_lines(data),
         "MODES",

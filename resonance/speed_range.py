@@ -46,6 +46,18 @@ class OperatingRange:
             out.append((start, self.speed_max))
         return tuple(out)
 
+    @property
+    def fixed(self) -> bool:
+        """True for a fixed-speed machine (``speed_min == speed_max``)."""
+        return self.speed_min == self.speed_max
+
+    def describe(self) -> str:
+        """The range in words for records: ``"fixed speed 1480 rpm"`` or ``"980 to 1480 rpm; skip bands ..."``."""
+        if self.fixed:
+            return f"fixed speed {self.speed_min:g} rpm"
+        skips = ", ".join(f"{a:g}-{b:g}" for a, b in self.skip_bands)
+        return f"{self.speed_min:g} to {self.speed_max:g} rpm" + (f"; skip bands {skips} rpm" if skips else "")
+
     def contains(self, speed: float) -> bool:
         """True when ``speed`` [rpm] is a speed of continuous operation."""
         return any(low <= speed <= high for low, high in self.intervals)

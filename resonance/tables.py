@@ -38,6 +38,7 @@ else:  # pragma: no cover - Python 3.10
     import tomli as tomllib
 
 __all__ = [
+    "MOTOR_MULTIPLES",
     "parse_vibration",
     "plain_tables",
     "MotorSpec",
@@ -83,12 +84,19 @@ class MotorSpec:
         Slip at the load of interest [-] (drive supply; 0 for a synchronous motor).
     line_frequency : float or None
         Supply frequency [Hz] (line supply).
+    multiples : tuple of float
+        The multiples of the electrical frequency the checks include (``[motor] electrical``, or the study
+        kind's default for the supply: :data:`MOTOR_MULTIPLES`).
+    multiples_given : bool
+        True when the scenario listed them.
     """
 
     supply: str
     poles: int | None
     slip: float
     line_frequency: float | None
+    multiples: tuple[float, ...] = ()
+    multiples_given: bool = False
 
     def excitation(self, multiple: float, label: str | None = None) -> Excitation:
         """The electrical excitation at ``multiple`` x the electrical frequency."""
@@ -98,6 +106,26 @@ class MotorSpec:
         assert self.line_frequency is not None
         e = line_frequency(self.line_frequency, multiple)
         return e if label is None else dataclasses.replace(e, label=label)
+
+    def sources(self) -> tuple[Excitation, ...]:
+        """The electrical excitations the motor declares: ``multiples`` x its electrical frequency.
+
+        Returns
+        -------
+        tuple of Excitation
+            One per multiple, each with its origin in ``source``.
+
+        Raises
+        ------
+        Nothing
+            The motor is validated.
+        """
+        why = "listed in [motor] electrical"
+        if not self.multiples_given:
+            why = f"checked by default for a {self.supply}-fed motor"
+        return tuple(
+            dataclasses.replace(self.excitation(m), source=f"[motor] ({self.supply}): {why}") for m in self.multiples
+        )
 
 
 @dataclass(frozen=True)
@@ -321,8 +349,19 @@ def excitation_table(e: Excitation, motor: MotorSpec | None = None) -> dict[str,
     return {**key, "label": e.label}
 
 
-def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
-    """The ``[motor]`` table: supply, poles and slip, or line frequency; None when absent.
+#: The multiples of the motor's electrical frequency checked when ``[motor]`` does not list them
+#: (``electrical = [...]``), by the kind of mode checked and the supply. Lateral and structural modes: twice
+#: the electrical frequency, the magnetic pull of an AC motor (common practice). Torsional modes: the
+#: electrical frequency and twice it on either supply (API 617, from memory), and on a drive also the
+#: six-pulse torque harmonics at 6 and 12 f_e (common practice, from memory).
+MOTOR_MULTIPLES: dict[str, dict[str, tuple[float, ...]]] = {
+    "lateral": {"drive": (2.0,), "line": (2.0,)},
+    "torsional": {"drive": (1.0, 2.0, 6.0, 12.0), "line": (1.0, 2.0)},
+}
+
+
+def parse_motor(r: TableReader, data: Mapping[str, Any], checks: str = "lateral") -> MotorSpec | None:
+    """The ``[motor]`` table: supply, poles and slip, or line frequency, and the multiples checked.
 
     Parameters
     ----------
@@ -330,21 +369,35 @@ def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
         The reader of the scenario's source.
     data : mapping
         The ``[motor]`` table (empty when absent).
+    checks : {"lateral", "torsional"}
+        The modes the study checks, which chooses the default multiples (:data:`MOTOR_MULTIPLES`).
 
     Returns
     -------
     MotorSpec or None
+        None when the table is absent.
 
     Raises
     ------
     ScenarioError
         An unknown supply, poles that are not even (2 to 96), a missing or too large slip, a field that
-        does not belong to the supply.
+        does not belong to the supply, an ``electrical`` list that is empty, repeats or is not positive.
     """
     if not data:
         return None
-    r.known(data, ("supply", "poles", "slip", "line_frequency"), "motor")
+    r.known(data, ("supply", "poles", "slip", "line_frequency", "electrical"), "motor")
     supply = r.text(data, "supply", "motor.supply")
+    if supply not in ("drive", "line"):
+        raise r.fail("motor.supply", f"got {supply!r}; expected 'drive' or 'line'")
+    given = "electrical" in data
+    multiples = MOTOR_MULTIPLES[checks][supply]
+    if given:
+        raw = r.array(data, "electrical", "motor.electrical")
+        if not raw:
+            raise r.fail("motor.electrical", "empty; list the multiples of the electrical frequency to check, e.g. [2]")
+        multiples = tuple(r.value(m, f"motor.electrical[{i}]", "ratio", "positive") for i, m in enumerate(raw))
+        if len(set(multiples)) != len(multiples):
+            raise r.fail("motor.electrical", f"got {raw!r}; a multiple is listed twice")
     if supply == "drive":
         if "line_frequency" in data:
             raise r.fail("motor.line_frequency", "a drive-fed motor's frequency follows the speed; remove it")
@@ -356,37 +409,41 @@ def parse_motor(r: TableReader, data: Mapping[str, Any]) -> MotorSpec | None:
         slip = r.value(data["slip"], "motor.slip", "ratio", "nonnegative")
         if not slip < 0.2:
             raise r.fail("motor.slip", f"got {slip:g}; expected a fraction below 0.2 (1.3 % slip is 0.013)")
-        return MotorSpec("drive", poles, slip, None)
-    if supply == "line":
-        for key in ("poles", "slip"):
-            if key in data:
-                raise r.fail(f"motor.{key}", "not used for a motor on the line; remove it")
-        f = r.quantity(data, "line_frequency", "motor.line_frequency", "frequency", "positive")
-        return MotorSpec("line", None, 0.0, f)
-    raise r.fail("motor.supply", f"got {supply!r}; expected 'drive' or 'line'")
+        return MotorSpec("drive", poles, slip, None, multiples, given)
+    for key in ("poles", "slip"):
+        if key in data:
+            raise r.fail(f"motor.{key}", "not used for a motor on the line; remove it")
+    f = r.quantity(data, "line_frequency", "motor.line_frequency", "frequency", "positive")
+    return MotorSpec("line", None, 0.0, f, multiples, given)
 
 
-def parse_excitations(r: TableReader, items: list[Any], motor: MotorSpec | None = None) -> tuple[Excitation, ...]:
-    """The ``[[excitations]]`` list: orders, fixed frequencies and electrical multiples, with distinct labels.
+def parse_excitations(
+    r: TableReader, items: list[Any], motor: MotorSpec | None = None, required: bool = True
+) -> tuple[Excitation, ...]:
+    """The ``[[excitations]]`` list and the motor's declared sources, with distinct labels.
 
     Parameters
     ----------
     r : TableReader
         The reader of the scenario's source.
     items : list
-        The ``[[excitations]]`` entries.
+        The ``[[excitations]]`` entries: orders, fixed frequencies and electrical multiples.
     motor : MotorSpec, optional
-        The motor electrical excitations refer to.
+        The motor: electrical entries refer to it, and each of its ``multiples`` that no entry already gives
+        is added (:meth:`MotorSpec.sources`), so a ``[motor]`` table alone is checked.
+    required : bool
+        Refuse a scenario with no excitation at all.
 
     Returns
     -------
     tuple of Excitation
+        The entries in order, then the motor's sources, each with its origin in ``source``.
 
     Raises
     ------
     ScenarioError
-        None given, an entry with not exactly one of order, frequency or electrical, an electrical
-        excitation without a motor, bad values, a label used twice.
+        None given (when required), an entry with not exactly one of order, frequency or electrical, an
+        electrical excitation without a motor, bad values, a label used twice.
     """
     out = []
     keys = ("order", "frequency", "electrical")
@@ -404,16 +461,20 @@ def parse_excitations(r: TableReader, items: list[Any], motor: MotorSpec | None 
         label = r.text(item, "label", f"{field}.label", "") or None
         if "order" in item:
             order = r.value(item["order"], f"{field}.order", "ratio", "positive")
-            out.append(Excitation(label or f"{order:g}x", order=order))
+            e = Excitation(label or f"{order:g}x", order=order)
         elif "frequency" in item:
             frequency = r.value(item["frequency"], f"{field}.frequency", "frequency", "positive")
-            out.append(Excitation(label or f"{frequency:g} Hz", frequency=frequency))
+            e = Excitation(label or f"{frequency:g} Hz", frequency=frequency)
         else:
             if motor is None:
                 raise r.fail(f"{field}.electrical", "needs a [motor] table (supply, poles and slip, or line_frequency)")
             multiple = r.value(item["electrical"], f"{field}.electrical", "ratio", "positive")
-            out.append(motor.excitation(multiple, label))
-    if not out:
+            e = motor.excitation(multiple, label)
+        out.append(dataclasses.replace(e, source=f"[[excitations]] entry {i + 1}"))
+    if motor is not None:
+        given = {(e.order, e.frequency) for e in out if e.kind == "electrical"}
+        out += [e for e in motor.sources() if (e.order, e.frequency) not in given]
+    if not out and required:
         raise r.fail("excitations", "empty; expected at least one excitation")
     labels = [e.label for e in out]
     repeated = sorted({x for x in labels if labels.count(x) > 1})
@@ -745,9 +806,10 @@ def motor_table(motor: MotorSpec) -> dict[str, Any]:
     Nothing
         Any motor is written.
     """
+    listed = {"electrical": list(motor.multiples)} if motor.multiples_given else {}
     if motor.supply == "drive":
-        return {"supply": "drive", "poles": motor.poles, "slip": motor.slip}
-    return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz"}
+        return {"supply": "drive", "poles": motor.poles, "slip": motor.slip, **listed}
+    return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz", **listed}
 
 
 def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str], overwrite: bool = False) -> Path:

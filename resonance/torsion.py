@@ -42,6 +42,7 @@ __all__ = [
     "TorsionalTrain",
     "TorqueResponse",
     "hollow_shaft_stiffness",
+    "stepped_shaft_stiffness",
     "scale_couplings",
     "scale_dampers",
     "torque_response",
@@ -93,6 +94,57 @@ def hollow_shaft_stiffness(
     if not d_in < d_out:
         raise InputValueError(f"inner_diameter: got {d_in:g} m, not below the outer diameter {d_out:g} m")
     return g * math.pi * (d_out**4 - d_in**4) / 32.0 / length_m
+
+
+def stepped_shaft_stiffness(shear_modulus: object, sections: Sequence[tuple[object, object, object]]) -> float:
+    """Torsional stiffness of a stepped round shaft: its sections in series, ``1/k = sum L_i / (G J_i)``.
+
+    Parameters
+    ----------
+    shear_modulus : float or pint.Quantity
+        G [Pa] (> 0), the same for every section.
+    sections : sequence of (length, outer_diameter, inner_diameter)
+        Each uniform section's length and diameters [m] (0 <= d < D), from one station to the other.
+
+    Returns
+    -------
+    float
+        [N m/rad].
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        No section, or a section as :func:`hollow_shaft_stiffness` refuses it (named by its index).
+
+    Notes
+    -----
+    Sections joined end to end carry the same torque and their twists add, so their compliances add
+    (springs in series). The inertia of the sections belongs to the stations, as for a uniform shaft.
+
+    References
+    ----------
+    S. S. Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 1.7 (springs in series); W. Ker Wilson,
+    *Practical Solution of Torsional Vibration Problems*, vol. 1 (equivalent length of stepped shafts;
+    from memory).
+
+    Examples
+    --------
+    >>> k1 = hollow_shaft_stiffness(80e9, 0.3, 0.1)
+    >>> k2 = hollow_shaft_stiffness(80e9, 0.2, 0.08)
+    >>> round(stepped_shaft_stiffness(80e9, [(0.3, 0.1, 0.0), (0.2, 0.08, 0.0)]) / (k1 * k2 / (k1 + k2)), 12)
+    1.0
+    """
+    if isinstance(sections, (str, bytes)) or not isinstance(sections, Sequence) or not sections:
+        raise InputValueError(f"sections: got {sections!r}; expected one or more (length, outer, inner) sections")
+    compliance = 0.0
+    for i, section in enumerate(sections):
+        if not isinstance(section, (tuple, list)) or len(section) != 3:
+            raise InputValueError(f"sections[{i}]: got {section!r}; expected (length, outer_diameter, inner_diameter)")
+        try:
+            compliance += 1.0 / hollow_shaft_stiffness(shear_modulus, *section)
+        except InputValueError as error:
+            raise InputValueError(f"sections[{i}]: {error}") from None
+    return 1.0 / compliance
 
 
 @dataclass(frozen=True)
@@ -147,7 +199,7 @@ class TorsionalShaft:
         object.__setattr__(
             self, "stiffness", as_si(self.stiffness, f"{where}: stiffness", "moment_stiffness", "positive")
         )
-        object.__setattr__(self, "damping", as_si(self.damping, f"{where}: damping", "ratio", "nonnegative"))
+        object.__setattr__(self, "damping", as_si(self.damping, f"{where}: damping", "moment_damping", "nonnegative"))
         if not self.label:
             object.__setattr__(self, "label", where)
         if self.outer_diameter is not None:
@@ -273,18 +325,21 @@ def torsional_train(
     stations: Sequence[Station],
     springs: Sequence[TorsionalShaft],
     meshes: Sequence[GearMesh] = (),
+    reference: str | None = None,
 ) -> TorsionalTrain:
-    """Assemble a train and refer it to the shaft of its first station.
+    """Assemble a train and refer it to its reference (driver) shaft.
 
     Parameters
     ----------
     stations : sequence of Station
-        The inertias (unique names); the first one's shaft is the reference.
+        The inertias (unique names).
     springs : sequence of TorsionalShaft or Coupling
-        Springs between stations of one shaft.
+        Springs between two different stations of one shaft (unique labels).
     meshes : sequence of GearMesh
         Gear meshes between shafts; every shaft must be reached from the reference through them (branched
         trains, one gear driving two pinions, are allowed).
+    reference : str, optional
+        The shaft every speed and order refers to (the driver's); the first station's shaft if omitted.
 
     Returns
     -------
@@ -293,8 +348,9 @@ def torsional_train(
     Raises
     ------
     InputValueError
-        No stations, repeated names, a spring or mesh naming a missing station, a spring across shafts, a
-        mesh within a shaft, shaft speeds that contradict each other, a disconnected train.
+        No stations, repeated names or element labels, a spring or mesh naming a missing station, a spring
+        from a station to itself or across shafts, a mesh within a shaft, shaft speeds that contradict each
+        other, a reference shaft no station is on, a station or group of stations joined to nothing.
     InputTypeError
         An item of the wrong type.
 
@@ -325,7 +381,12 @@ def torsional_train(
         if shaft_of[m.gear] == shaft_of[m.pinion]:
             raise InputValueError(f"meshes[{i}]: {m.gear!r} and {m.pinion!r} are on one shaft; a mesh joins two shafts")
     # Shaft speeds from the reference through the meshes (breadth first), checking for contradictions.
-    reference = stations[0].shaft
+    if reference is None:
+        reference = stations[0].shaft
+    elif reference not in shaft_of.values():
+        raise InputValueError(
+            f"reference: got {reference!r}, a shaft no station is on; expected one of {sorted(set(shaft_of.values()))}"
+        )
     ratio = {reference: 1.0}
     frontier = [reference]
     while frontier:
@@ -345,6 +406,7 @@ def torsional_train(
     missing = sorted({s.shaft for s in stations} - set(ratio))
     if missing:
         raise InputValueError(f"meshes: shaft {missing[0]!r} is not geared to the reference shaft {reference!r}")
+    _check_joined(stations, springs, meshes)
     # Referred degrees of freedom: rigid meshes merge their wheels.
     parent = {n: n for n in names}
 
@@ -448,7 +510,42 @@ def _factor(train: object, factor: object) -> float:
 
 
 def _rebuilt(train: TorsionalTrain, change: Callable[[TorsionalShaft], TorsionalShaft]) -> TorsionalTrain:
-    return torsional_train(train.stations, [change(s) for s in train.springs], train.meshes)
+    return torsional_train(train.stations, [change(s) for s in train.springs], train.meshes, train.reference)
+
+
+def _check_joined(stations: Sequence[Station], springs: Sequence[TorsionalShaft], meshes: Sequence[GearMesh]) -> None:
+    # Every element joins two different stations under a label of its own, and every station is reached from
+    # the first through springs and meshes: a dropped element would remove a mode and change the verdict.
+    names = [s.name for s in stations]
+    labels = [k.label for k in springs] + [f"mesh {m.gear}-{m.pinion}" for m in meshes]
+    repeated = sorted({x for x in labels if labels.count(x) > 1})
+    if repeated:
+        raise InputValueError(f"springs/meshes: label {repeated[0]!r} is used twice; expected a label per element")
+    group = {n: n for n in names}
+
+    def root(n: str) -> str:
+        while group[n] != n:
+            n = group[n]
+        return n
+
+    for i, k in enumerate(springs):
+        a, b = k.between
+        if a == b:
+            raise InputValueError(f"springs[{i}] ({k.label}): joins {a!r} to itself; expected two different stations")
+        for end in (a, b):
+            if end not in group:
+                raise InputValueError(
+                    f"springs[{i}] ({k.label}): names {end!r}, which is not a station; expected one of {names}"
+                )
+        group[root(a)] = root(b)
+    for m in meshes:
+        group[root(m.gear)] = root(m.pinion)
+    alone = [n for n in names if root(n) != root(names[0])]
+    if alone and len(names) > 1:
+        raise InputValueError(
+            f"stations: {', '.join(repr(n) for n in alone)} joined to nothing that reaches {names[0]!r}; "
+            "expected every station joined by a shaft, coupling or mesh"
+        )
 
 
 def _add(matrix: np.ndarray, i: int, j: int, value: float) -> None:

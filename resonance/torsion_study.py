@@ -42,6 +42,7 @@ from __future__ import annotations
 
 import dataclasses
 import datetime as _dt
+import math
 import os
 from collections.abc import Mapping
 from dataclasses import dataclass
@@ -54,7 +55,16 @@ from .errors import InputValueError
 from .excitations import Excitation, shaft_order
 from .interference import FindingsTable, interference_check, verdict_line, verdict_of
 from .modes import Mode
-from .record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
+from .record import (
+    CAUTION,
+    Record,
+    basis_lines,
+    excitation_lines,
+    excitation_rows,
+    header_lines,
+    methods_used,
+    record_head,
+)
 from .rules import RuleSet
 from .speed_range import OperatingRange
 from .tables import (
@@ -79,6 +89,7 @@ from .torsion import (
     TorsionalShape,
     TorsionalTrain,
     hollow_shaft_stiffness,
+    stepped_shaft_stiffness,
     torque_response,
     torsional_mode_list,
     torsional_shapes,
@@ -433,13 +444,24 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
     r.known(data, ("scenario", "speed", "excitations", "motor", "margin", "torsion", "record"), "")
     title, description, units = parse_head(r, data)
     speed = parse_speed(r, r.table(data, "speed", "speed"))
-    motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
-    given = parse_excitations(r, r.array(data, "excitations", "excitations"), motor) if "excitations" in data else ()
+    motor = parse_motor(r, r.table(data, "motor", "motor", required=False), "torsional")
+    given = parse_excitations(r, r.array(data, "excitations", "excitations", required=False), motor, required=False)
     rules = parse_rules(r, r.table(data, "margin", "margin", required=False))
     t = r.table(data, "torsion", "torsion")
     r.known(
         t,
-        ("damping_ratio", "shaft_orders", "stations", "shafts", "couplings", "meshes", "rated_torque", "forcing"),
+        (
+            "damping_ratio",
+            "driver_shaft",
+            "shaft_orders",
+            "shaft_excitations",
+            "stations",
+            "shafts",
+            "couplings",
+            "meshes",
+            "rated_torque",
+            "forcing",
+        ),
         "torsion",
     )
     zeta = None
@@ -457,63 +479,41 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
         stations.append(
             Station(r.text(item, "name", f"{field}.name"), inertia, r.text(item, "shaft", f"{field}.shaft", "driver"))
         )
+    driver = _driver_shaft(r, t, stations)
     springs: list[TorsionalShaft] = []
     allowables: dict[str, Allowable] = {}
     for key, kind in (("shafts", TorsionalShaft), ("couplings", Coupling)):
         for i, item in enumerate(r.array(t, key, f"torsion.{key}", required=False)):
             field = f"torsion.{key}[{i}]"
-            if not isinstance(item, Mapping):
-                raise r.fail(field, f"got {item!r}; expected a table with between and stiffness")
-            allowed = [
-                "between",
-                "stiffness",
-                "damping",
-                "label",
-                "outer_diameter",
-                "inner_diameter",
-                "allowable_torque",
-            ]
-            shaft_only = ["length", "shear_modulus", "allowable_stress"]
-            r.known(item, [*allowed, *(shaft_only if key == "shafts" else [])], field)
-            between = r.array(item, "between", f"{field}.between")
-            if len(between) != 2 or not all(isinstance(b, str) for b in between):
-                raise r.fail(f"{field}.between", f"got {between!r}; expected two station names")
-            d_out = (
-                r.value(item["outer_diameter"], f"{field}.outer_diameter", "length", "positive")
-                if "outer_diameter" in item
-                else None
-            )
-            d_in = r.value(item.get("inner_diameter", 0.0), f"{field}.inner_diameter", "length", "nonnegative")
-            if "stiffness" in item:
-                k = r.quantity(item, "stiffness", f"{field}.stiffness", "moment_stiffness", "positive")
-            elif key == "shafts" and d_out is not None:
-                try:
-                    k = hollow_shaft_stiffness(
-                        r.quantity(item, "shear_modulus", f"{field}.shear_modulus", "pressure", "positive"),
-                        r.quantity(item, "length", f"{field}.length", "length", "positive"),
-                        d_out,
-                        d_in,
-                    )
-                except InputValueError as error:
-                    raise r.fail(field, str(error)) from None
-            else:
+            spring, allowed = _parse_spring(r, item, field, kind)
+            if spring.label in allowables:
                 raise r.fail(
-                    f"{field}.stiffness", "missing; expected a stiffness (or a shaft's length, diameters and G)"
+                    f"{field}.label", f"got {spring.label!r}, used by another element; expected a label of its own"
                 )
-            damping = r.value(item.get("damping", 0.0), f"{field}.damping", "ratio", "nonnegative")
-            label = r.text(item, "label", f"{field}.label", f"{between[0]}-{between[1]}")
-            allowables[label] = _allowable(r, item, field, d_out)
-            try:
-                springs.append(kind((between[0], between[1]), k, damping, label, d_out, d_in))
-            except InputValueError as error:
-                raise r.fail(field, str(error)) from None
+            allowables[spring.label] = allowed
+            springs.append(spring)
     meshes, teeth = [], []
     for i, item in enumerate(r.array(t, "meshes", "torsion.meshes", required=False)):
         field = f"torsion.meshes[{i}]"
         if not isinstance(item, Mapping):
             raise r.fail(field, f"got {item!r}; expected a table with gear, pinion and ratio")
-        r.known(item, ("gear", "pinion", "ratio", "stiffness", "gear_teeth", "allowable_torque"), field)
-        ratio = r.quantity(item, "ratio", f"{field}.ratio", "ratio", "positive")
+        r.known(item, ("gear", "pinion", "ratio", "stiffness", "gear_teeth", "pinion_teeth", "allowable_torque"), field)
+        z_gear = _teeth(r, item, "gear_teeth", field)
+        z_pinion = _teeth(r, item, "pinion_teeth", field)
+        if z_pinion is not None and z_gear is None:
+            raise r.fail(f"{field}.gear_teeth", "missing; give the gear's teeth beside the pinion's")
+        if "ratio" in item:
+            ratio = r.quantity(item, "ratio", f"{field}.ratio", "ratio", "positive")
+            if z_gear is not None and z_pinion is not None and not math.isclose(ratio, z_gear / z_pinion, rel_tol=1e-6):
+                raise r.fail(
+                    f"{field}.ratio",
+                    f"got {ratio:g}, but {z_gear} / {z_pinion} teeth give {z_gear / z_pinion:.6g}; "
+                    "expected the ratio of the teeth (or leave the ratio out)",
+                )
+        elif z_gear is not None and z_pinion is not None:
+            ratio = z_gear / z_pinion
+        else:
+            raise r.fail(f"{field}.ratio", "missing; expected the speed ratio, or the gear's and the pinion's teeth")
         mesh_k: float | None = None
         if "stiffness" in item:
             mesh_k = r.value(item["stiffness"], f"{field}.stiffness", "moment_stiffness", "positive")
@@ -530,32 +530,50 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
             if mesh_k is None:
                 raise r.fail(f"{field}.allowable_torque", "a rigid mesh carries no modelled twist; give its stiffness")
             allowables[f"mesh {meshes[-1].gear}-{meshes[-1].pinion}"] = _allowable(r, item, field, None)
-        if "gear_teeth" in item:
-            z = r.integer(item, "gear_teeth", f"{field}.gear_teeth")
-            if z < 1:
-                raise r.fail(f"{field}.gear_teeth", f"got {z}; expected a whole number >= 1")
-            teeth.append((meshes[-1], z))
+        if z_gear is not None:
+            teeth.append((i, meshes[-1], z_gear))
     try:
-        train = torsional_train(stations, springs, meshes)
+        train = torsional_train(stations, springs, meshes, driver)
     except InputValueError as error:
         text = str(error)
         head = text.split(":", 1)[0].split(" ")[0].split("[")[0]
-        where = {"springs": "torsion.shafts/couplings", "meshes": "torsion.meshes", "stations": "torsion.stations"}
+        where = {
+            "springs": "torsion.shafts/couplings",
+            "springs/meshes": "torsion.shafts/couplings/meshes",
+            "meshes": "torsion.meshes",
+            "stations": "torsion.stations",
+            "reference": "torsion.driver_shaft",
+        }
         raise r.fail(where.get(head, "torsion"), text) from None
+    if train.model.size < 2:
+        raise r.fail(
+            "torsion.stations",
+            f"the train has {len(stations)} station(s) moving as one inertia: no torsional mode to check; "
+            "expected two or more stations joined by shafts, couplings or compliant meshes",
+        )
     orders = []
     for i, n in enumerate(r.array(t, "shaft_orders", "torsion.shaft_orders", required=False) or [1, 2]):
         orders.append(r.value(n, f"torsion.shaft_orders[{i}]", "ratio", "positive"))
     excitations = list(given)
     for shaft in train.speed_ratio:
-        excitations += [shaft_order(train, shaft, n, f"{n:g}x {shaft} shaft") for n in orders]
+        given_at = "torsion.shaft_orders" if "shaft_orders" in t else "torsion.shaft_orders (default 1x and 2x)"
+        excitations += [
+            dataclasses.replace(shaft_order(train, shaft, n, f"{n:g}x {shaft} shaft"), source=f"{given_at}, {shaft!r}")
+            for n in orders
+        ]
     shaft_of = {s.name: s.shaft for s in stations}
-    for mesh, z in teeth:
+    for i, mesh, z in teeth:
         excitations.append(
-            shaft_order(train, shaft_of[mesh.gear], float(z), f"gear mesh {mesh.gear}-{mesh.pinion} ({z} teeth)")
+            dataclasses.replace(
+                shaft_order(train, shaft_of[mesh.gear], float(z), f"gear mesh {mesh.gear}-{mesh.pinion} ({z} teeth)"),
+                source=f"torsion.meshes[{i}].gear_teeth ({z} x the speed of shaft {shaft_of[mesh.gear]!r})",
+            )
         )
+    excitations += _shaft_excitations(r, t, train)
     labels = [e.label for e in excitations]
     if len(set(labels)) != len(labels):
-        raise r.fail("excitations", f"labels {labels} repeat; expected distinct labels")
+        repeated = sorted({x for x in labels if labels.count(x) > 1})
+        raise r.fail("excitations", f"label {repeated[0]!r} is used twice; expected distinct labels")
     forcing = _parse_forcing(r, t, train, {e.label: e for e in excitations})
     return TorsionScenario(
         title,
@@ -574,6 +592,135 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
         forcing,
         allowables,
     )
+
+
+def _driver_shaft(r: TableReader, t: Mapping[str, Any], stations: list[Station]) -> str:
+    # The shaft whose speed [speed] gives: named, or the one called "driver", or the only one. Never the
+    # order of the stations, which would silently move every order and margin to another shaft's speed.
+    shafts = list(dict.fromkeys(st.shaft for st in stations))
+    if "driver_shaft" in t:
+        name = r.text(t, "driver_shaft", "torsion.driver_shaft")
+        if name not in shafts:
+            raise r.fail("torsion.driver_shaft", f"got {name!r}, a shaft no station is on; expected one of {shafts}")
+        return name
+    if "driver" in shafts:
+        return "driver"
+    if len(shafts) == 1:
+        return shafts[0]
+    raise r.fail(
+        "torsion.driver_shaft",
+        f"missing; the stations are on shafts {shafts} and none is called 'driver': name the shaft whose speed "
+        "[speed] gives",
+    )
+
+
+def _parse_spring(
+    r: TableReader, item: Any, field: str, kind: type[TorsionalShaft]
+) -> tuple[TorsionalShaft, Allowable]:
+    # A shaft (stiffness, uniform section or stepped sections) or a coupling, with its allowable.
+    if not isinstance(item, Mapping):
+        raise r.fail(field, f"got {item!r}; expected a table with between and stiffness")
+    allowed = ["between", "stiffness", "damping", "label", "outer_diameter", "inner_diameter", "allowable_torque"]
+    shaft_only = ["length", "shear_modulus", "sections", "allowable_stress"]
+    r.known(item, [*allowed, *(shaft_only if kind is TorsionalShaft else [])], field)
+    between = r.array(item, "between", f"{field}.between")
+    if len(between) != 2 or not all(isinstance(b, str) for b in between):
+        raise r.fail(f"{field}.between", f"got {between!r}; expected two station names")
+    if between[0] == between[1]:
+        raise r.fail(f"{field}.between", f"got {between!r}; expected two different stations")
+    d_out = (
+        r.value(item["outer_diameter"], f"{field}.outer_diameter", "length", "positive")
+        if "outer_diameter" in item
+        else None
+    )
+    d_in = r.value(item.get("inner_diameter", 0.0), f"{field}.inner_diameter", "length", "nonnegative")
+    ways = [k for k in ("stiffness", "length", "sections") if k in item]
+    if len(ways) > 1:
+        raise r.fail(field, f"gives {' and '.join(ways)}; expected one of stiffness, length (uniform) or sections")
+    if "stiffness" in item:
+        k = r.quantity(item, "stiffness", f"{field}.stiffness", "moment_stiffness", "positive")
+    elif "sections" in item:
+        if "outer_diameter" in item or "inner_diameter" in item:
+            raise r.fail(f"{field}.outer_diameter", "the sections give the diameters; remove it")
+        g = r.quantity(item, "shear_modulus", f"{field}.shear_modulus", "pressure", "positive")
+        k, d_out, d_in = _stepped(r, item, field, g)
+    elif "length" in item and d_out is not None:
+        try:
+            k = hollow_shaft_stiffness(
+                r.quantity(item, "shear_modulus", f"{field}.shear_modulus", "pressure", "positive"),
+                r.quantity(item, "length", f"{field}.length", "length", "positive"),
+                d_out,
+                d_in,
+            )
+        except InputValueError as error:
+            raise r.fail(field, str(error)) from None
+    else:
+        raise r.fail(
+            f"{field}.stiffness",
+            "missing; expected a stiffness (or a shaft's length, diameters and G, or its sections and G)",
+        )
+    damping = r.value(item.get("damping", 0.0), f"{field}.damping", "moment_damping", "nonnegative")
+    label = r.text(item, "label", f"{field}.label", f"{between[0]}-{between[1]}")
+    allowable = _allowable(r, item, field, d_out)
+    try:
+        return kind((between[0], between[1]), k, damping, label, d_out, d_in), allowable
+    except InputValueError as error:
+        raise r.fail(field, str(error)) from None
+
+
+def _stepped(r: TableReader, item: Mapping[str, Any], field: str, g: float) -> tuple[float, float, float]:
+    # A stepped shaft's sections in series; the stress is taken at the section of least modulus (the largest).
+    sections = []
+    for j, sec in enumerate(r.array(item, "sections", f"{field}.sections")):
+        where = f"{field}.sections[{j}]"
+        if not isinstance(sec, Mapping):
+            raise r.fail(where, f"got {sec!r}; expected a table with length and outer_diameter")
+        r.known(sec, ("length", "outer_diameter", "inner_diameter"), where)
+        sections.append(
+            (
+                r.quantity(sec, "length", f"{where}.length", "length", "positive"),
+                r.quantity(sec, "outer_diameter", f"{where}.outer_diameter", "length", "positive"),
+                r.value(sec.get("inner_diameter", 0.0), f"{where}.inner_diameter", "length", "nonnegative"),
+            )
+        )
+    if not sections:
+        raise r.fail(f"{field}.sections", "empty; expected one or more sections")
+    try:
+        k = stepped_shaft_stiffness(g, sections)
+    except InputValueError as error:
+        raise r.fail(f"{field}.{str(error).split(':', 1)[0]}", str(error).split(": ", 1)[1]) from None
+    _, d_out, d_in = min(sections, key=lambda x: (x[1] ** 4 - x[2] ** 4) / x[1])
+    return k, d_out, d_in
+
+
+def _teeth(r: TableReader, item: Mapping[str, Any], key: str, field: str) -> int | None:
+    if key not in item:
+        return None
+    z = r.integer(item, key, f"{field}.{key}")
+    if not 1 <= z <= 10_000:
+        raise r.fail(f"{field}.{key}", f"got {str(z)[:20]}; expected a whole number from 1 to 10000")
+    return z
+
+
+def _shaft_excitations(r: TableReader, t: Mapping[str, Any], train: TorsionalTrain) -> list[Excitation]:
+    # Orders of any shaft's own speed (a screw compressor's lobe pass, a pump's vane pass on the output shaft).
+    out = []
+    for i, item in enumerate(r.array(t, "shaft_excitations", "torsion.shaft_excitations", required=False)):
+        field = f"torsion.shaft_excitations[{i}]"
+        if not isinstance(item, Mapping):
+            raise r.fail(field, f"got {item!r}; expected a table with shaft, order and label")
+        r.known(item, ("shaft", "order", "label"), field)
+        shaft = r.text(item, "shaft", f"{field}.shaft")
+        if shaft not in train.speed_ratio:
+            raise r.fail(f"{field}.shaft", f"got {shaft!r}; expected one of {sorted(train.speed_ratio)}")
+        order = r.quantity(item, "order", f"{field}.order", "ratio", "positive")
+        label = r.text(item, "label", f"{field}.label", f"{order:g}x {shaft} shaft")
+        out.append(
+            dataclasses.replace(
+                shaft_order(train, shaft, order, label), source=f"{field} ({order:g} x the speed of shaft {shaft!r})"
+            )
+        )
+    return out
 
 
 def _allowable(r: TableReader, item: Mapping[str, Any], field: str, d_out: float | None) -> Allowable:
@@ -616,6 +763,11 @@ def _parse_forcing(
             if rated is None:
                 raise r.fail(f"{field}.fraction_of_rated", "needs torsion.rated_torque (the driver's rated torque)")
             fraction = r.value(item["fraction_of_rated"], f"{field}.fraction_of_rated", "ratio", "positive")
+            if not fraction <= 10.0:
+                raise r.fail(
+                    f"{field}.fraction_of_rated",
+                    f"got {fraction:g}; expected a fraction of the rated torque up to 10 (0.01 is 1 %)",
+                )
             # The driver's rated torque taken to the station's shaft (power is the same on every shaft).
             torque = fraction * rated / train.speed_ratio[shaft_of[station]]
         label = r.text(item, "label", f"{field}.label", f"{source} at {station}")
@@ -791,7 +943,9 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
             "fatigue design belongs to the governing code and a qualified engineer.",
         ],
         "methods": methods_used(TORSION_METHODS + (FORCED_METHOD if result.torque else ()), result.findings),
+        "driver_shaft": train.reference,
         "speed_ratios": dict(train.speed_ratio),
+        "excitations": excitation_rows(s.excitations),
         "modes": [
             {
                 "frequency_hz": m.frequency,
@@ -809,12 +963,15 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
     lines = [
         *header_lines("CALCULATION RECORD (TORSION)", s.title, s.description, data),
         "INPUTS",
-        f"  driver speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm",
+        f"  driver speed: {s.speed.describe()}",
         "  shafts: " + ", ".join(f"{name} x{ratio:.4g}" for name, ratio in train.speed_ratio.items()),
         "  stations: "
         + ", ".join(f"{st.name} {st.inertia * j_factor:.4g} {j_unit} ({st.shaft})" for st in train.stations),
         "  elements: " + ", ".join(f"{sp.label} {sp.stiffness * k_factor:.4g} {k_unit}" for sp in train.springs),
-        "  excitations: " + ", ".join(e.label for e in s.excitations),
+        f"  driver shaft: {train.reference!r} (stations "
+        + ", ".join(st.name for st in train.stations if st.shaft == train.reference)
+        + "); [speed] and every order are of its speed",
+        *excitation_lines(s.excitations, f"the driver shaft {train.reference!r}"),
         "",
         *basis_lines(data),
         "TORSIONAL MODES",

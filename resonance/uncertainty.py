@@ -604,8 +604,11 @@ def _rotor_variant(scenario: RotorScenario, inputs: Sequence[UncertainInput], ro
     speed = scenario.speed
     low = speed.speed_min * factor.get("speed_min", 1.0)
     high = speed.speed_max * factor.get("speed_max", 1.0)
-    if not low < high or (speed.skip_bands and not (low < speed.skip_bands[0][0] and speed.skip_bands[-1][1] < high)):
-        raise InputValueError("speed_min/speed_max: the factors make the speed range empty or cross a skip band")
+    if not low <= high or (speed.skip_bands and not (low < speed.skip_bands[0][0] and speed.skip_bands[-1][1] < high)):
+        raise InputValueError(
+            "speed_min/speed_max: the [uncertainty] factors put the minimum speed above the maximum or across a "
+            "skip band; narrow their bounds"
+        )
     if high >= scenario.sweep_max:
         raise InputValueError(f"speed_max: the factors reach the rotor's sweep_max {scenario.sweep_max:g} rpm")
     return scenario.replace(bearings=bearings, speed=operating_range(low, high, speed.skip_bands))

@@ -119,6 +119,9 @@ QuantityKind = Literal[
     "pressure",
     "stress",
     "moment_stiffness",
+    "moment_damping",
+    "area",
+    "second_moment",
     "torque",
     "time",
 ]
@@ -145,6 +148,9 @@ _DISPLAY: dict[str, tuple[str, str, str]] = {
     "pressure": ("Pa", "GPa", "psi"),
     "stress": ("Pa", "MPa", "psi"),
     "moment_stiffness": ("N*m/rad", "kN*m/rad", "lbf*in/rad"),
+    "moment_damping": ("N*m*s/rad", "N*m*s/rad", "lbf*in*s/rad"),
+    "area": ("m**2", "cm**2", "in**2"),
+    "second_moment": ("m**4", "cm**4", "in**4"),
     "torque": ("N*m", "N*m", "lbf*ft"),
     "time": ("s", "s", "s"),
 }
@@ -161,6 +167,12 @@ _LABELS: dict[str, str] = {
     "g*mm": "g·mm",
     "oz*in": "oz·in",
     "m/s**2": "m/s²",
+    "N*m*s/rad": "N·m·s/rad",
+    "lbf*in*s/rad": "lbf·in·s/rad",
+    "cm**2": "cm²",
+    "in**2": "in²",
+    "cm**4": "cm⁴",
+    "in**4": "in⁴",
     "dimensionless": "",
 }
 

@@ -120,9 +120,10 @@ def evaluate_variants(
             raise InputValueError(f"{name}: expected finite factors > 0")
         base = scenario.speed.speed_min if name == "speed_min" else scenario.speed.speed_max
         edge[:, column] = base * values
-    if np.any(lows >= highs):
+    if np.any(lows > highs):  # equal: a fixed-speed machine
         raise InputValueError(
-            "speed_min/speed_max: the factors make the speed range empty or cross a skip band; narrow their bounds"
+            "speed_min/speed_max: the [uncertainty] factors put a minimum speed above a maximum or across a skip "
+            "band; narrow their bounds"
         )
     required = []
     for e in scenario.excitations:

@@ -28,6 +28,7 @@ from resonance.space import (
     space_model,
     space_modes,
     space_response,
+    unbalance_reference,
 )
 
 M, LX, LY, LZ = 20000.0, 4.0, 2.0, 1.5  # an invented block [kg, m]
@@ -352,3 +353,30 @@ def test_frame_element_in_a_plane_equals_the_rotors_beam_element():
     assert_allclose(
         flip @ m[np.ix_(xz, xz)] @ flip, beam_translational_mass(RHO * AREA, length, 0.0), rtol=1e-12, atol=1e-15
     )
+
+
+def test_the_unbalance_turns_with_the_rotor_and_sits_along_e1_at_time_zero():
+    # One body on an isotropic mount at its centre of gravity, a shaft along +z: below resonance the centre
+    # moves in phase with the force U w^2 / (k - m w^2) (Rao, Mechanical Vibrations, 6th ed., sec. 3.7), the
+    # orbit turns counterclockwise seen from +z, with the rotor (synchronous forward whirl of a Jeffcott rotor
+    # on isotropic supports: Vance, Rotordynamics of Turbomachinery, 1988, ch. 2, from memory).
+    m, k, u_me = 500.0, 4e7, 0.002
+    body = RigidBody("rotor", m, [0, 0, 0], box_inertia(m, 1.0, 1.0, 1.0))
+    mount = Mount("bearing", [0, 0, 0], "rotor", stiffness=[k, k, k], rotational_stiffness=[1e7] * 3)
+    model = space_model([body], [mount])
+    f = np.array([10.0, 20.0])  # below sqrt(k / m) / 2 pi = 45 Hz
+    load = rotating_unbalance("rotor", [0, 0, 0], [0, 0, 1], u_me, f)
+    u = space_response(model, [load], f, [("rotor", [0, 0, 0])])[:, 0, :]
+    w = 2 * math.pi * f
+    e1, e2 = unbalance_reference([0, 0, 1])
+    assert_allclose(e1, [0, 1, 0], atol=1e-15)
+    assert_allclose(e2, [-1, 0, 0], atol=1e-15)
+    for i, wi in enumerate(w):
+        t = np.linspace(0.0, 2 * math.pi / wi, 9)[:-1]
+        x = np.real(u[i, 0] * np.exp(1j * wi * t))
+        y = np.real(u[i, 1] * np.exp(1j * wi * t))
+        radius = u_me * wi**2 / (k - m * wi**2)
+        # t = 0: along e1 (+y); a quarter turn later along e2 (-x): the right-handed sense about +z.
+        assert_allclose([x[0], y[0]], radius * e1[:2], atol=1e-12 * radius)
+        assert_allclose([x[2], y[2]], radius * e2[:2], atol=1e-12 * radius)
+        assert np.all(x * np.gradient(y) - y * np.gradient(x) > 0)  # counterclockwise seen from +z

@@ -13,8 +13,10 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from numpy.testing import assert_allclose
 
 from resonance.cli import main
+from resonance.errors import InputTypeError
 from resonance.tables import ScenarioError, read_scenario_file
 
 DEMO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_skid_block.toml"
@@ -62,6 +64,13 @@ def test_the_demo_runs_through_check_with_its_records(tmp_path, capsys):
         (lambda t: t["space"]["probes"][0].update(body="motor"), "space: body: got 'motor'"),
         (lambda t: t["margin"].pop("flat"), "margin.flat: missing"),
         (lambda t: t["whatif"].update(vary_mounts=["spring 9"]), "whatif.vary_mounts: names 'spring 9'"),
+        # An embedment deeper than the block would raise the soil's stiffness 1.7x to 5.5x (issue of record).
+        (lambda t: t["space"]["soil"].update(embedment="9 m"), "space.soil.embedment: got 9 m, deeper than the block"),
+        (
+            lambda t: t["space"]["unbalance"][0].update(amount="1 kg*mm"),
+            "space.unbalance[0]: gives amount and a balance grade",
+        ),
+        (lambda t: t["space"]["mounts"][0].update(rotational_damping=["3 %", 0, 0]), "rotational_damping[0]"),
     ],
 )
 def test_bad_space_scenarios_exit_2_naming_file_and_field(tmp_path, capsys, edit, field):
@@ -239,3 +248,22 @@ def test_a_force_at_another_order_adds_in_quadrature():
     tables["space"]["forces"][0]["force"] = ["1 N", "2 N"]
     with pytest.raises(ScenarioError, match=r"space\.forces\[0\]\.force: got"):
         parse_space_scenario(tables, "one.toml")
+
+
+def test_section_properties_and_rotational_damping_take_units():
+    # 40 cm^2 = 4e-3 m^2, 120 in^4 = 120 x 0.0254^4 m^4 (NIST SP 811: 1 in = 0.0254 m exactly), 1 kN m s/rad.
+    from resonance.space_study import parse_space_scenario
+
+    tables = _tables()
+    tables["space"]["mounts"][0]["rotational_damping"] = ["1 kN*m*s/rad", 0, 0]
+    scenario = parse_space_scenario(tables, "b.toml")
+    mount = next(m for m in scenario.mounts if m.label == tables["space"]["mounts"][0]["label"])
+    assert_allclose(mount.rotational_damping, [1e3, 0, 0], rtol=1e-12)
+    from resonance.frame import Beam
+    from resonance.units import ureg
+
+    q = ureg.Quantity
+    b = Beam("girder", "a", "b", 210e9, 80e9, 7850.0, q(40, "cm**2"), q(120, "in**4"), q(80, "in**4"), q(2, "cm**4"))
+    assert_allclose([b.area, b.iy, b.iz, b.torsion_constant], [4e-3, 120 * 0.0254**4, 80 * 0.0254**4, 2e-8], rtol=1e-12)
+    with pytest.raises(InputTypeError, match=r"area: got 0\.78 %, which is not a area"):
+        Beam("girder", "a", "b", 210e9, 80e9, 7850.0, q(0.78, "%"), 1e-5, 1e-5, 1e-6)

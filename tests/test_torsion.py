@@ -368,7 +368,7 @@ def test_demo_train_runs_through_check(tmp_path, capsys):
         (
             lambda t: (
                 t["torsion"]["shafts"][1].update(stiffness="170 kN*m/rad")
-                or [t["torsion"]["shafts"][1].pop(k) for k in ("outer_diameter", "inner_diameter")]
+                or [t["torsion"]["shafts"][1].pop(k) for k in ("outer_diameter", "inner_diameter", "length")]
             ),
             r"torsion\.shafts\[1\]\.allowable_stress: needs the section's outer_diameter",
         ),

@@ -7,7 +7,7 @@ record panel's record closes with it). Cells whose output is a live widget view 
 ``nbval-ignore-output`` (widget model ids change at every run).
 
 Run after changing a notebook's cells or anything that changes what they print:
-``python tools/build_notebooks.py`` (executes with stored widget state off, so
+``python tools/build_notebooks.py [04 07 ...]`` (executes with stored widget state off, so
 each notebook stays a few KB; see ../shared/STACK.md).
 """
 
@@ -286,7 +286,11 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
 
 
 def main() -> None:
+    # Optional arguments pick notebooks by the start of their name (``04 07``); none: every notebook.
+    wanted = sys.argv[1:]
     for name, cells in NOTEBOOKS.items():
+        if wanted and not any(name.startswith(w) for w in wanted):
+            continue
         for number, cell in enumerate(cells):
             cell["id"] = f"cell-{number}"  # stable ids keep re-builds' diffs to what changed
             cell["source"] = cell["source"].rstrip()

@@ -6,7 +6,16 @@ import datetime as _dt
 from typing import Any
 
 from ..interference import verdict_line
-from ..record import CAUTION, Record, basis_lines, header_lines, methods_used, record_head
+from ..record import (
+    CAUTION,
+    Record,
+    basis_lines,
+    excitation_lines,
+    excitation_rows,
+    header_lines,
+    methods_used,
+    record_head,
+)
 from ..uncertainty import UncertaintyResult, uncertainty_lines
 from ..units import display_unit
 from .scenario import rotor_scenario_to_dict
@@ -81,6 +90,7 @@ def build_rotor_record(
     data: dict[str, Any] = {
         **record_head("resonance-rotor-record/2", s.title, s.source, s.sha256, s.record, created),
         "scenario": rotor_scenario_to_dict(s),
+        "excitations": excitation_rows(s.excitations),
         "assumptions": _assumptions(result),
         "methods": methods_used(ROTOR_METHODS, result.findings),
         "critical_speeds": [
@@ -112,13 +122,13 @@ def build_rotor_record(
     lines = [
         *header_lines("CALCULATION RECORD (ROTOR)", s.title, s.description, data),
         "INPUTS",
-        f"  operating speed: {s.speed.speed_min:g} to {s.speed.speed_max:g} rpm; sweep to {s.sweep_max:g} rpm",
+        f"  operating speed: {s.speed.describe()}; sweep to {s.sweep_max:g} rpm",
         f"  shaft: {len(s.sections)} sections, {result.rotor.nodes - 1} elements, "
         f"{result.rotor.node_z[-1] * l_factor:.4g} {l_unit} long; discs: "
         + (", ".join(f"{d.label} {d.mass * m_factor:.5g} {m_unit} at station {d.station}" for d in s.discs) or "none"),
         "  bearings: "
         + ", ".join(f"{b.label} at station {b.station}" + (" (speed table)" if b.speeds else "") for b in s.bearings),
-        f"  excitations: {', '.join(f'{e.label} [{e.kind}]' for e in s.excitations)}",
+        *excitation_lines(s.excitations),
         f"  margin rules: {s.rules.description}",
         "",
         *basis_lines(data),

@@ -491,7 +491,9 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
     return {
         "scenario": {"title": scenario.title, "description": scenario.description, "units": scenario.units},
         "speed": speed_table(scenario.speed),
-        "excitations": [excitation_table(e, scenario.motor) for e in scenario.excitations],
+        "excitations": [
+            excitation_table(e, scenario.motor) for e in scenario.excitations if not e.source.startswith("[motor]")
+        ],
         **({"motor": motor_table(scenario.motor)} if scenario.motor else {}),
         "margin": rules_table(scenario.rules),
         **({"record": dataclasses.asdict(scenario.record)} if scenario.record != RecordSpec() else {}),
