@@ -13,6 +13,7 @@ worst first, that renders the same way as text, JSON and HTML.
 
 from __future__ import annotations
 
+import dataclasses
 import html
 import json
 import math
@@ -30,7 +31,7 @@ from .units import UnitSystem, display_unit
 
 Verdict = Literal["PASS", "FAIL", "EXEMPT"]
 
-__all__ = ["Finding", "FindingsTable", "interference_check", "verdict_line", "verdict_of"]
+__all__ = ["judge_damped", "Finding", "FindingsTable", "interference_check", "verdict_line", "verdict_of"]
 
 
 @dataclass(frozen=True)
@@ -63,6 +64,14 @@ class Finding:
         was chosen for it.
     margin_rule : MarginRule or None
         The rule object itself (for the keep-clear bands of the plots).
+    damped : str
+        Where the heavily damped rule (:class:`~resonance.rules.DampedModeRule`) exempts the mode from the
+        margin: the criterion in words (AF, its source, the rule); empty otherwise.
+    amplitude : str
+        The amplitude criterion as evaluated by the study (predicted vibration, where, the limit); empty
+        until a study judges it (:func:`judge_damped`).
+    amplitude_passed : bool or None
+        The amplitude criterion's result; None until judged.
     """
 
     mode: Mode
@@ -76,31 +85,38 @@ class Finding:
     rule_source: str
     scope: str = ""
     margin_rule: MarginRule | None = None
+    damped: str = ""
+    amplitude: str = ""
+    amplitude_passed: bool | None = None
 
     @property
     def exempt(self) -> bool:
-        """True when the rule requires no margin at this mode's AF (the API ``AF < 2.5`` exemption)."""
+        """True when no margin is required: the API ``AF < 2.5`` exemption, or a heavily damped mode."""
         return self.required_margin == 0.0
 
     @property
     def exemption(self) -> str | None:
-        """The exemption used, in words, or None."""
+        """The exemption used, in words (with the amplitude criterion and its values where judged), or None."""
         if not self.exempt:
             return None
+        if self.damped:
+            return f"{self.damped}; {self.amplitude or 'the amplitude criterion is not evaluated here'}"
         af = self.mode.amplification_factor
         why = " (below 2.5: critically damped)" if isinstance(self.margin_rule, ApiLateralRule) else ""
         return f"{self.rule} requires no separation margin for AF {af:.2f}{why}"
 
     @property
     def passed(self) -> bool:
-        """True when the margin meets the requirement (an exemption passes, but is reported)."""
-        return self.exempt or self.margin >= self.required_margin
+        """True when the margin meets the requirement (an exemption passes, unless its amplitude fails)."""
+        if self.exempt:
+            return self.amplitude_passed is not False
+        return self.margin >= self.required_margin
 
     @property
     def verdict(self) -> Verdict:
         """``"PASS"``, ``"FAIL"`` or ``"EXEMPT"`` (no margin required by the rule's exemption)."""
         if self.exempt:
-            return "EXEMPT"
+            return "EXEMPT" if self.passed else "FAIL"
         return "PASS" if self.passed else "FAIL"
 
     @property
@@ -132,6 +148,8 @@ class Finding:
             "rule_source": self.rule_source,
             "rule_scope": self.scope,
             "exemption": self.exemption,
+            "amplitude_criterion": self.amplitude or None,
+            "amplitude_passed": self.amplitude_passed,
             "verdict": self.verdict,
         }
 
@@ -240,7 +258,7 @@ class FindingsTable:
                     f.location,
                     f"{f.margin:.{precision}f}",
                     f"{f.required_margin:.{precision}f}",
-                    f.rule,
+                    "amplitude (heavily damped)" if f.damped else f.rule,
                     f.verdict,
                 )
             )
@@ -274,6 +292,11 @@ class FindingsTable:
             met = len(self) - len(exempt)
             return f"{self.verdict}: {met} of {len(self)} checks meet the required margin{note}"
         worst = failures[0]
+        if worst.exempt:  # a heavily damped mode whose amplitude fails
+            return (
+                f"FAIL: {len(failures)} of {len(self)} checks fail; worst {worst.mode.label} x "
+                f"{worst.excitation.label}: {worst.exemption}{note}"
+            )
         # Enough digits that a shortfall never reads "15.0 % < 15.0 %".
         digits = next((d for d in (1, 2, 3) if round(worst.margin, d) < round(worst.required_margin, d)), 4)
         return (
@@ -285,9 +308,13 @@ class FindingsTable:
     def rules_used(self) -> list[str]:
         """Each rule applied, once, with the pairs it was applied to (for the record's methods)."""
         out: dict[str, set[str]] = {}
+        damped: set[str] = set()
         for f in self.findings:
             out.setdefault(f"{f.rule} ({f.rule_source})", set()).add(f.scope.split(":")[0])
-        return [f"{rule}: applied to {', '.join(sorted(scopes))}" for rule, scopes in out.items()]
+            if f.damped:
+                damped.add(f.damped.split(": ", 1)[-1])
+        lines = [f"{rule}: applied to {', '.join(sorted(scopes))}" for rule, scopes in out.items()]
+        return lines + [f"heavily damped modes {rule}" for rule in sorted(damped)]
 
     def af_sources(self) -> list[str]:
         """Where the AF of each mode checked came from, once per source (for the record's methods)."""
@@ -331,6 +358,13 @@ def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, ru
         coincidence = None
     required = rule.required(max(af, 1.0), side)
     margin_words = "flat margin in frequency, both sides" if is_flat(rule) else f"margin from the AF ({mode.af_source})"
+    damped = ""
+    if scoped.damped is not None and af < scoped.damped.af_below:
+        required = 0.0
+        damped = (
+            f"heavily damped (AF {af:.2f} < {scoped.damped.af_below:g}, {mode.af_source}): judged by the predicted "
+            f"vibration against the limit, not by separation ({scoped.damped.source})"
+        )
     return Finding(
         mode,
         excitation,
@@ -343,6 +377,35 @@ def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, ru
         rule.source,
         f"{scoped.scope}: {scoped.basis}; {margin_words}",
         rule,
+        damped,
+    )
+
+
+def judge_damped(findings: FindingsTable, amplitude: str, passed: bool) -> FindingsTable:
+    """The findings with each heavily damped exemption judged by the study's amplitude criterion.
+
+    Parameters
+    ----------
+    findings : FindingsTable
+        From :func:`interference_check` with a rule set whose ``damped`` rule applied.
+    amplitude : str
+        The criterion as evaluated, in words with its values (``"predicted 1x 1.9 mm/s RMS at ..., limit
+        2.8 mm/s (zone B/C boundary)"``).
+    passed : bool
+        Whether the predicted vibration meets the limit.
+
+    Returns
+    -------
+    FindingsTable
+        The same findings, the heavily damped ones carrying ``amplitude`` and failing where it fails.
+
+    Raises
+    ------
+    Nothing
+        Pure data.
+    """
+    return FindingsTable(
+        tuple(dataclasses.replace(f, amplitude=amplitude, amplitude_passed=passed) if f.damped else f for f in findings)
     )
 
 

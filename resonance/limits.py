@@ -28,6 +28,7 @@ __all__ = [
     "iso_velocity_zone",
     "iso_velocity_zone_limits",
     "support_class",
+    "zone_criterion",
 ]
 
 #: A support is rigid when its lowest natural frequency is at least this multiple of the main
@@ -76,6 +77,55 @@ def iso_velocity_zone_limits(group: MachineGroup, support: SupportClass) -> tupl
             f"group/support: got ({group!r}, {support!r}); expected group 1 or 2 and support 'rigid' or 'flexible'"
         )
     return tuple(v * 1e-3 for v in _ZONES_MM_S[key])  # type: ignore[return-value]
+
+
+def zone_criterion(
+    velocity_rms: float, speed: float, where: str, group: MachineGroup, support: SupportClass
+) -> tuple[str, bool]:
+    """The predicted vibration against the long-term limit (ISO zone B/C boundary), in words and as a pass.
+
+    The criterion a heavily damped support mode is judged by (:class:`~resonance.rules.DampedModeRule`):
+    zones A and B allow unrestricted long-term operation (ISO 10816-3 sec. 5.3.1, from memory).
+
+    Parameters
+    ----------
+    velocity_rms : float
+        The largest predicted velocity over the speeds of continuous operation [m/s RMS].
+    speed : float
+        Where it occurs [rpm].
+    where : str
+        The point it is read at, in words.
+    group : {1, 2}
+        ISO machine group.
+    support : {"rigid", "flexible"}
+        The support class whose boundaries are used.
+
+    Returns
+    -------
+    text : str
+        The criterion with its values (mm/s RMS, the ISO unit).
+    passed : bool
+        True in zone A or B.
+
+    Raises
+    ------
+    InputValueError
+        A bad group, support or velocity.
+
+    Examples
+    --------
+    >>> zone_criterion(1.9e-3, 1480.0, "'fan DE bearing'", 2, "rigid")[1]
+    True
+    """
+    limit = iso_velocity_zone_limits(group, support)[1]
+    zone = iso_velocity_zone(velocity_rms, group, support)[0]
+    passed = zone in ("A", "B")
+    return (
+        f"predicted 1x {velocity_rms * 1e3:.3g} mm/s RMS at {speed:.0f} rpm at {where} "
+        f"{'within' if passed else 'ABOVE'} the ISO 10816-3 B/C boundary {limit * 1e3:.3g} mm/s (group {group}, "
+        f"{support} support; an estimate): zone {zone}",
+        passed,
+    )
 
 
 def iso_velocity_zone(velocity_rms: object, group: MachineGroup, support: SupportClass) -> list[str]:

@@ -494,6 +494,8 @@ def build_record(
             ],
             "tuned_factors": field.tuned.factors if field.tuned else {},
             "tuned_findings": field.tuned_study.findings.to_records() if field.tuned_study else [],
+            "governing_findings": field.governing.to_records(),
+            "verdict_basis": field.verdict_basis,
             "passed": field.passed,
             "summary": field.summary(),
         }

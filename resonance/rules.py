@@ -32,7 +32,7 @@ from .excitations import EXCITATION_KINDS, ExcitationKind
 from .margins import ApiLateralRule, FlatRule, MarginRule
 from .modes import MODE_KINDS, ModeKind
 
-__all__ = ["TORSIONAL_RULE", "RuleSet", "ScopedRule", "as_rule_set", "is_flat", "scope_words"]
+__all__ = ["TORSIONAL_RULE", "DampedModeRule", "RuleSet", "ScopedRule", "as_rule_set", "is_flat", "scope_words"]
 
 #: The torsional separation rule: 10 % from every excitation (API Std 617 / RP 684, from memory).
 TORSIONAL_RULE = FlatRule(10.0, name="torsional 10 %", source="API Std 617 8th ed. / API RP 684 2nd ed. (from memory)")
@@ -96,6 +96,50 @@ def scope_words(mode_kind: ModeKind, excitation_kind: ExcitationKind) -> str:
 
 
 @dataclass(frozen=True)
+class DampedModeRule:
+    """Heavily damped modes are judged by the predicted vibration, not by separation.
+
+    A structural mode whose amplification factor is below ``af_below`` does not amplify: a block on soil
+    with radiation damping of 0.2 to 0.7 of critical is the usual case. The trade judges such a mode by the
+    predicted amplitude at the machine against the vibration limit (common practice; ACI 351.3R discusses
+    both criteria, from memory), as API RP 684 asks no separation margin of a rotor mode with AF < 2.5
+    (from memory). Its findings are ``EXEMPT`` from the margin and carry the amplitude criterion; a study
+    that cannot evaluate the amplitude must not use this rule, and a failing amplitude fails the finding.
+
+    Attributes
+    ----------
+    af_below : float
+        The AF under which a mode is judged by amplitude [-] (2.5, after API RP 684's critically damped).
+    kinds : tuple of str
+        The mode kinds it applies to (structural modes only by default).
+    source : str
+        Where the rule comes from, for the record.
+    """
+
+    af_below: float = 2.5
+    kinds: tuple[ModeKind, ...] = ("structural",)
+    source: str = "common practice; ACI 351.3R and API RP 684's AF < 2.5 (from memory)"
+
+    def __post_init__(self) -> None:
+        if not (isinstance(self.af_below, (int, float)) and 1.0 < self.af_below <= 10.0):
+            raise InputValueError(
+                f"af_below: got {self.af_below!r}; expected an amplification factor above 1, up to 10"
+            )
+        for kind in self.kinds:
+            if kind not in MODE_KINDS:
+                raise InputValueError(f"kinds: got {kind!r}; expected mode kinds from {MODE_KINDS}")
+
+    @property
+    def description(self) -> str:
+        """The rule and its scope in words."""
+        kinds = ", ".join(f"{k} modes" for k in self.kinds)
+        return (
+            f"{kinds} with AF below {self.af_below:g}: judged by the predicted vibration against the limit, not by "
+            f"separation ({self.source})"
+        )
+
+
+@dataclass(frozen=True)
 class ScopedRule:
     """The rule chosen for one pair, and why.
 
@@ -107,11 +151,14 @@ class ScopedRule:
         The pair it was chosen for, in words.
     basis : str
         Why this rule: the default for the pair, or the scenario's override.
+    damped : DampedModeRule or None
+        The heavily damped rule where it may apply to the pair (not where the pair has an override).
     """
 
     rule: MarginRule
     scope: str
     basis: str
+    damped: DampedModeRule | None = None
 
 
 @dataclass(frozen=True)
@@ -132,7 +179,11 @@ class RuleSet:
         Torsional modes against every excitation (10 %, API 617, from memory).
     overrides : tuple of (mode kind, excitation kind, MarginRule)
         Pairs with a rule of their own; rules that depend on the AF are
-        allowed only for rotor lateral modes against 1x.
+        allowed only for rotor lateral modes against 1x. An override also
+        keeps the heavily damped rule off its pair.
+    damped : DampedModeRule or None
+        Heavily damped modes judged by amplitude (None: every mode by separation). Only a study that
+        evaluates the predicted vibration sets it (supports and supports in space).
 
     Examples
     --------
@@ -147,8 +198,11 @@ class RuleSet:
     flat: FlatRule | None = None
     torsional: FlatRule = TORSIONAL_RULE
     overrides: tuple[tuple[ModeKind, ExcitationKind, MarginRule], ...] = ()
+    damped: DampedModeRule | None = None
 
     def __post_init__(self) -> None:
+        if self.damped is not None and not isinstance(self.damped, DampedModeRule):
+            raise InputTypeError(f"damped: got {type(self.damped).__name__}; expected a DampedModeRule or None")
         if self.flat is not None and not is_flat(self.flat):
             raise InputTypeError(f"flat: got {type(self.flat).__name__}; expected a FlatRule (a percentage)")
         if not is_flat(self.torsional):
@@ -179,16 +233,17 @@ class RuleSet:
         for m, e, rule in self.overrides:
             if (m, e) == (mode_kind, excitation_kind):
                 return ScopedRule(rule, scope, "override for this pair")
+        damped = self.damped if self.damped is not None and mode_kind in self.damped.kinds else None
         if mode_kind == "torsional":
-            return ScopedRule(self.torsional, scope, "torsional rule")
+            return ScopedRule(self.torsional, scope, "torsional rule", damped)
         if (mode_kind, excitation_kind) == ("rotor-lateral", "synchronous"):
-            return ScopedRule(self.lateral_1x, scope, "rotor lateral rule at 1x")
+            return ScopedRule(self.lateral_1x, scope, "rotor lateral rule at 1x", damped)
         if self.flat is None:
             raise InputValueError(
                 f"flat: missing; a {scope} needs a flat separation margin in percent "
                 "(10 to 20 % is common practice, no single source): give margin.flat in the scenario"
             )
-        return ScopedRule(self.flat, scope, "flat margin, in frequency, the same on both sides")
+        return ScopedRule(self.flat, scope, "flat margin, in frequency, the same on both sides", damped)
 
     @property
     def description(self) -> str:
@@ -201,6 +256,8 @@ class RuleSet:
             )
         parts.append(f"torsional modes: {self.torsional.name} ({self.torsional.source})")
         parts += [f"{scope_words(m, e)}: {r.name} ({r.source})" for m, e, r in self.overrides]
+        if self.damped is not None:
+            parts.append(self.damped.description)
         return "; ".join(parts)
 
 

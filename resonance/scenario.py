@@ -429,7 +429,7 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
         raise r.fail("whatif.tolerance", f"got {tolerance:g}; expected a fraction below 1 (0.3 is +/- 30 %)")
 
     motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
-    rules = parse_rules(r, r.table(data, "margin", "margin", required=False))
+    rules = parse_rules(r, r.table(data, "margin", "margin", required=False), judges_amplitude=True)
     if rules.flat is None:
         raise r.fail(
             "margin.flat",
@@ -437,6 +437,8 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
             "the percentage (10 to 20 % is common practice, no single source), e.g. flat = 15",
         )
     uncertainty = r.table(data, "uncertainty", "uncertainty", required=False)
+    if "uncertainty" in data and not uncertainty:
+        raise r.fail("uncertainty", "empty; give its inputs (or remove the table)")
     return Scenario(
         title=title,
         description=description,
@@ -515,7 +517,7 @@ def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
             excitation_table(e, scenario.motor) for e in scenario.excitations if not e.source.startswith("[motor]")
         ],
         **({"motor": motor_table(scenario.motor)} if scenario.motor else {}),
-        "margin": rules_table(scenario.rules),
+        "margin": rules_table(scenario.rules, judges_amplitude=True),
         "model": {
             "damping_ratio": m.damping_ratio,
             "masses": [{"name": x.name, "mass": f"{x.mass!r} kg"} for x in m.masses],

@@ -53,8 +53,8 @@ from .errors import InputValueError
 from .excitations import Excitation, permissible_unbalance
 from .frame import Beam
 from .harmonic import convert_amplitude
-from .interference import FindingsTable, interference_check, verdict_line, verdict_of
-from .limits import iso_velocity_zone, support_class
+from .interference import FindingsTable, interference_check, judge_damped, verdict_line, verdict_of
+from .limits import iso_velocity_zone, support_class, zone_criterion
 from .modes import Mode
 from .record import (
     CAUTION,
@@ -389,7 +389,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     title, description, units = parse_head(r, data)
     speed = parse_speed(r, r.table(data, "speed", "speed"))
     motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
-    rules = parse_rules(r, r.table(data, "margin", "margin", required=False))
+    rules = parse_rules(r, r.table(data, "margin", "margin", required=False), judges_amplitude=True)
     if rules.flat is None:
         raise r.fail("margin.flat", "missing; supports are kept a flat margin from every excitation, e.g. flat = 15")
     t = r.table(data, "space", "space")
@@ -878,6 +878,7 @@ def run_space_study(
     low, high = 0.5 * scenario.speed.speed_min, 1.3 * scenario.speed.speed_max
     grid = [np.linspace(low, high, points)]
     grid += [np.array([60.0 * m.frequency]) for m in modes if low < 60.0 * m.frequency < high]
+    grid += [np.linspace(a, b, 2 if a < b else 1) for a, b in scenario.speed.intervals]  # a fixed speed too
     speed = np.unique(np.concatenate(grid))
     f = speed / 60.0
     loads = [rotating_unbalance(b, p, a, u, f) for b, p, a, u in scenario.unbalance]
@@ -908,6 +909,13 @@ def run_space_study(
         i = int(np.argmax(v_run))
         zone = iso_velocity_zone(max(float(v_run[i]), 0.0), scenario.group, used)[0]  # type: ignore[arg-type]
         peaks.append((float(v_run[i]), float(speed[i]), zone))
+    if any(f.damped for f in findings):
+        if peaks and loads:
+            k = max(range(len(peaks)), key=lambda j: peaks[j][0])
+            text, ok = zone_criterion(peaks[k][0], peaks[k][1], repr(scenario.probes[k][0]), scenario.group, used)  # type: ignore[arg-type]
+        else:
+            text, ok = "no unbalance and probe to predict the vibration: the amplitude cannot be judged", False
+        findings = judge_damped(findings, text, ok)
     corners: list[tuple[float, float, float, float]] = []
     t = scenario.tolerance
     if band and t > 0.0:

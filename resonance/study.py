@@ -15,8 +15,8 @@ from .errors import InputValueError
 from .excitations import unbalance_force
 from .frf import model_receptance
 from .harmonic import convert_amplitude, velocity_amplitude
-from .interference import FindingsTable, interference_check, verdict_line, verdict_of
-from .limits import RIGID_SUPPORT_RATIO, iso_velocity_zone, iso_velocity_zone_limits, support_class
+from .interference import FindingsTable, interference_check, judge_damped, verdict_line, verdict_of
+from .limits import RIGID_SUPPORT_RATIO, iso_velocity_zone, iso_velocity_zone_limits, support_class, zone_criterion
 from .margins import HalfPower, half_power_points
 from .model import MatrixModel
 from .modes import Mode, ModeSet, modal_properties
@@ -322,6 +322,17 @@ def run_study(
     computed = support_class(min(m.frequency for m in modes), scenario.speed.speed_max)
     used = "rigid" if "rigid" in (computed, scenario.vibration.support) else "flexible"
     zone = iso_velocity_zone(v_run[k], scenario.vibration.group, used)[0]  # type: ignore[arg-type]
+    if any(f.damped for f in findings):
+        findings = judge_damped(
+            findings,
+            *zone_criterion(
+                float(v_run[k]),
+                float(running[k]),
+                repr(scenario.response.measure_at),
+                scenario.vibration.group,  # type: ignore[arg-type]
+                used,  # type: ignore[arg-type]
+            ),
+        )
     try:
         half_power: HalfPower | None = half_power_points(speed, displacement)
     except InputValueError:

@@ -28,7 +28,7 @@ from .excitations import EXCITATION_KINDS, Excitation, drive_electrical, line_fr
 from .inputs import Sign, as_si, parse_quantity
 from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from .modes import MODE_KINDS
-from .rules import TORSIONAL_RULE, RuleSet, is_flat
+from .rules import TORSIONAL_RULE, DampedModeRule, RuleSet, is_flat
 from .speed_range import OperatingRange, operating_range
 from .units import UNIT_SYSTEMS, QuantityKind, UnitSystem
 
@@ -513,7 +513,7 @@ def parse_percent(r: TableReader, raw: Any, field: str) -> float:
     return float(raw)
 
 
-def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
+def parse_rules(r: TableReader, data: Mapping[str, Any], judges_amplitude: bool = False) -> RuleSet:
     """The ``[margin]`` table as a :class:`~resonance.rules.RuleSet` (see :mod:`resonance.scenario`).
 
     Parameters
@@ -522,6 +522,10 @@ def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
         The reader of the scenario's source.
     data : mapping
         The ``[margin]`` table (empty when absent).
+    judges_amplitude : bool
+        The study predicts vibration against a limit, so heavily damped structural modes are judged by it
+        (:class:`~resonance.rules.DampedModeRule`, on by default; ``heavily_damped = false`` turns it off,
+        ``damped_af_below`` sets its AF). Elsewhere those two fields are refused.
 
     Returns
     -------
@@ -530,9 +534,32 @@ def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
     Raises
     ------
     ScenarioError
-        An unknown field or rule, a bad percentage, a pair of unknown kinds, an AF rule outside its scope.
+        An unknown field or rule, a bad percentage, a pair of unknown kinds, an AF rule outside its scope, a
+        heavily damped field in a study that does not judge amplitude.
     """
-    r.known(data, ("rule", "table", "name", "source", "flat", "torsional", "pairs"), "margin")
+    damped_keys = ("heavily_damped", "damped_af_below")
+    r.known(data, ("rule", "table", "name", "source", "flat", "torsional", "pairs", *damped_keys), "margin")
+    damped: DampedModeRule | None = None
+    if judges_amplitude:
+        on = data.get("heavily_damped", True)
+        if not isinstance(on, bool):
+            raise r.fail("margin.heavily_damped", f"got {on!r}; expected true or false")
+        if on:
+            af = r.value(data.get("damped_af_below", 2.5), "margin.damped_af_below", "ratio", "positive")
+            try:
+                damped = DampedModeRule(af)
+            except InputValueError as error:
+                raise r.fail("margin.damped_af_below", str(error).split(": ", 1)[1]) from None
+        elif "damped_af_below" in data:
+            raise r.fail("margin.damped_af_below", "heavily_damped is false; remove one of the two")
+    else:
+        for key in damped_keys:
+            if key in data:
+                raise r.fail(
+                    f"margin.{key}",
+                    "this kind of study does not predict vibration against a limit, so no mode is judged by "
+                    "amplitude here; remove it",
+                )
     lateral = parse_rule(r, data)
     flat: FlatRule | None = None
     if "flat" in data:
@@ -561,7 +588,7 @@ def parse_rules(r: TableReader, data: Mapping[str, Any]) -> RuleSet:
             raise r.fail(f"{field}.rule", str(error).removeprefix("rule: ")) from None
         overrides.append((mode, excitation, rule))
     try:
-        return RuleSet(lateral, flat, torsional, tuple(overrides))
+        return RuleSet(lateral, flat, torsional, tuple(overrides), damped)
     except InputValueError as error:
         raise r.fail("margin.pairs", str(error).split(": ", 1)[1]) from None
 
@@ -723,13 +750,15 @@ def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], s
         raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
 
 
-def rules_table(rules: RuleSet) -> dict[str, Any]:
+def rules_table(rules: RuleSet, judges_amplitude: bool = False) -> dict[str, Any]:
     """A rule set as a ``[margin]`` table.
 
     Parameters
     ----------
     rules : RuleSet
         The rules to write.
+    judges_amplitude : bool
+        As for :func:`parse_rules`: the heavily damped rule is on unless the table says otherwise.
 
     Returns
     -------
@@ -750,6 +779,10 @@ def rules_table(rules: RuleSet) -> dict[str, Any]:
         out["pairs"] = [
             {"mode": m, "excitation": e, "rule": rule_table(rule)["rule"]} for m, e, rule in rules.overrides
         ]
+    if judges_amplitude and rules.damped is None:
+        out["heavily_damped"] = False
+    elif rules.damped is not None and rules.damped.af_below != DampedModeRule().af_below:
+        out["damped_af_below"] = rules.damped.af_below
     return out
 
 

@@ -97,6 +97,23 @@ class UncertainInput:
     b: float
     bounds: tuple[float, float] = (-math.inf, math.inf)
 
+    def __post_init__(self) -> None:
+        # Never another distribution than the one named: an unknown name is refused, not replaced.
+        if self.distribution not in ("uniform", "normal", "lognormal"):
+            raise InputValueError(
+                f"{self.vary}: distribution: got {self.distribution!r}; expected 'uniform', 'normal' or 'lognormal'"
+            )
+        for name, value in (("a", self.a), ("b", self.b)):
+            if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+                raise InputValueError(f"{self.vary}: {name}: got {value!r}; expected a finite number")
+        if self.distribution == "uniform" and not 0.0 < self.a < self.b:
+            raise InputValueError(f"{self.vary}: got low {self.a!r} and high {self.b!r}; expected 0 < low < high")
+        if self.distribution != "uniform" and not (self.a > 0.0 and self.b > 0.0):
+            raise InputValueError(f"{self.vary}: got {self.a!r} and {self.b!r}; expected two values > 0")
+        low, high = self.bounds
+        if not low < high:
+            raise InputValueError(f"{self.vary}: bounds: got {self.bounds!r}; expected low below high")
+
     def _frozen(self) -> Any:
         if self.distribution == "uniform":
             return scipy.stats.uniform(self.a, self.b - self.a)
@@ -165,6 +182,19 @@ class UncertaintySpec:
     sampling: Sampling = "lhs"
     seed: int = 0
     max_failure_probability: float | None = None
+
+    def __post_init__(self) -> None:
+        # Never another sampler than the one named, and never a study of nothing.
+        if self.sampling not in ("lhs", "sobol"):
+            raise InputValueError(f"sampling: got {self.sampling!r}; expected 'lhs' or 'sobol'")
+        if not self.inputs or not all(isinstance(x, UncertainInput) for x in self.inputs):
+            raise InputValueError(f"inputs: got {self.inputs!r}; expected one or more UncertainInput")
+        if isinstance(self.samples, bool) or not isinstance(self.samples, int) or not 16 <= self.samples <= 1_000_000:
+            raise InputValueError(f"samples: got {self.samples!r}; expected a whole number from 16 to 1000000")
+        if self.sampling == "sobol" and self.samples & (self.samples - 1):
+            raise InputValueError(f"samples: got {self.samples}; Sobol' sampling needs a power of two")
+        if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
+            raise InputValueError(f"seed: got {self.seed!r}; expected a whole number >= 0")
 
 
 def _targets(scenario: Scenario | RotorScenario) -> list[str]:
@@ -248,6 +278,8 @@ def uncertainty_spec(
                 raise r.fail(f"{field}.bounds", f"got [{lo:g}, {hi:g}]; expected low below high")
             bounds = (lo, hi)
         inputs.append(UncertainInput(vary, kind, a, b, bounds))  # type: ignore[arg-type]
+    if not inputs:
+        raise r.fail("uncertainty.inputs", "empty; expected at least one uncertain input")
     names = [x.vary for x in inputs]
     if len(set(names)) != len(names):
         raise r.fail("uncertainty.inputs", f"{names} names an input twice; expected each at most once")

@@ -40,7 +40,7 @@ from .impact import Frf, Pole, impact_frf, rfp_fit, stability_diagram
 from .readers import CoastDown, DataFileError, read_coastdown, read_impact
 from .tuning import TunedModel, TuningParameter, tune_model
 
-__all__ = ["FieldSpec", "FieldStudyResult", "field_spec", "run_field_study"]
+__all__ = ["SAME_MODE", "FieldSpec", "FieldStudyResult", "field_spec", "run_field_study"]
 
 T = TypeVar("T")
 
@@ -178,6 +178,11 @@ def field_spec(scenario: Scenario, base_dir: str | os.PathLike[str] = ".") -> Fi
     )
 
 
+#: A tuned-model mode this close in frequency to a measured one (a fraction of it) is that mode (common practice
+#: for pairing measured and predicted modes by frequency where shapes are not measured).
+SAME_MODE = 0.03
+
+
 @dataclass(frozen=True)
 class FieldStudyResult:
     """What the measurements say, next to what the model said.
@@ -224,10 +229,42 @@ class FieldStudyResult:
         )
 
     @property
+    def governing(self) -> FindingsTable:
+        """The findings that govern: every measured one, and the tuned model's for the modes not measured.
+
+        A measured mode governs where it was measured: a tuned-model mode within
+        :data:`SAME_MODE` in frequency of a measured one is that mode, and its model findings are superseded.
+        """
+        measured = tuple(self.findings) if self.findings is not None else ()
+        if self.tuned_study is None:
+            return FindingsTable(measured)
+        seen = [f.mode.frequency for f in measured]
+        unmeasured = tuple(
+            f for f in self.tuned_study.findings if not any(abs(f.mode.frequency - m) <= SAME_MODE * m for m in seen)
+        )
+        return FindingsTable(measured + unmeasured)
+
+    @property
     def passed(self) -> bool:
-        """Measured margins pass, and so does the tuned model when there is one."""
-        measured = self.findings is None or self.findings.passed
-        return measured and (self.tuned_study is None or self.tuned_study.passed)
+        """The governing findings pass, and so does the tuned model's predicted vibration when there is one."""
+        return self.governing.passed and (self.tuned_study is None or self.tuned_study.vibration_passed)
+
+    @property
+    def verdict_basis(self) -> str:
+        """Why the field verdict is what it is, in words: which findings govern."""
+        measured_failed = self.findings is not None and not self.findings.passed
+        parts = []
+        if self.findings is not None:
+            parts.append(f"measured margins {'FAIL' if measured_failed else 'pass'} and govern the modes measured")
+        if self.tuned_study is not None:
+            rest = FindingsTable(tuple(f for f in self.governing if f not in tuple(self.findings or ())))
+            parts.append(
+                "the tuned model covers the modes and speeds not measured"
+                + (f" ({'FAIL' if not rest.passed else 'pass'})" if len(rest) else " (none left)")
+            )
+            if not self.tuned_study.vibration_passed:
+                parts.append("the tuned model's predicted vibration is outside zones A and B")
+        return "; ".join(parts) or "nothing measured to judge"
 
     def summary(self) -> str:
         """A few lines: resonances, measured margins, impact modes, tuning."""
@@ -241,7 +278,10 @@ class FieldStudyResult:
             )
             or "none"
         )
-        lines = [f"Field verdict: {'PASS' if self.passed else 'FAIL'}", f"Coast-down resonances: {res}"]
+        lines = [
+            f"Field verdict: {'PASS' if self.passed else 'FAIL'} ({self.verdict_basis})",
+            f"Coast-down resonances: {res}",
+        ]
         if self.fit is not None:
             lines.append(
                 "Fitted: "
@@ -260,7 +300,10 @@ class FieldStudyResult:
             )
         if self.tuned is not None and self.tuned_study is not None:
             lines.append(self.tuned.summary())
-            lines.append(f"Tuned model: {self.tuned_study.findings.summary()}")
+            lines.append(
+                f"Tuned model (all its modes; where a mode was measured, the measurement governs): "
+                f"{self.tuned_study.findings.summary()}"
+            )
         return "\n".join(lines)
 
 

@@ -386,7 +386,7 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         motor,
         parse_record(r, r.table(data, "record", "record", required=False)),
         None,
-        dict(u) if (u := r.table(data, "uncertainty", "uncertainty", required=False)) else None,
+        _uncertainty_table(r, data),
     )
     others = [e.label for e in scenario.excitations if e.kind != "synchronous"]
     if others and scenario.rules.flat is None:
@@ -547,3 +547,11 @@ def load_rotor_scenario(path: str | os.PathLike[str]) -> RotorScenario:
     """
     data, sha256 = read_scenario_bytes(path)
     return parse_rotor_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
+
+
+def _uncertainty_table(r: TableReader, data: Mapping[str, Any]) -> dict[str, Any] | None:
+    # The [uncertainty] table as given; an empty one is refused rather than silently running nothing.
+    table = r.table(data, "uncertainty", "uncertainty", required=False)
+    if "uncertainty" in data and not table:
+        raise r.fail("uncertainty", "empty; give its inputs (or remove the table)")
+    return dict(table) if table else None
