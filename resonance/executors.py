@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import contextlib
 import os
+import re
 from collections.abc import Callable, Iterator, Sequence
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from typing import Any, Protocol
@@ -22,6 +23,7 @@ from typing import Any, Protocol
 from .errors import InputValueError
 
 __all__ = [
+    "MAX_WORKERS",
     "DaskExecutor",
     "Executor",
     "ProcessExecutor",
@@ -38,6 +40,10 @@ class Executor(Protocol):
         self, function: Callable[[Any], Any], items: Sequence[Any], done: Callable[[], None] | None = None
     ) -> list[Any]:
         """Run every item; call ``done()`` as each finishes."""
+
+
+#: The most local worker processes this tool starts (each imports numpy and scipy: about 100 MB apiece).
+MAX_WORKERS = 64
 
 
 class SerialExecutor:
@@ -111,9 +117,13 @@ class DaskExecutor:
         if isinstance(client, Client):
             self.client = client
         elif isinstance(client, str) and client:
+            if not re.fullmatch(r"(tcp|tls|inproc|ucx)://[^\s:/]+:\d{1,5}", client):
+                raise InputValueError(
+                    f"scheduler: got {client!r}; expected an address with its port, like tcp://127.0.0.1:8786"
+                )
             try:
                 self.client = Client(client, timeout="10s")
-            except (OSError, TimeoutError) as error:
+            except (OSError, TimeoutError, ValueError) as error:
                 raise InputValueError(f"scheduler: cannot reach {client!r} ({error})") from None
         else:
             raise InputValueError(f"scheduler: got {client!r}; expected an address like tcp://host:8786 or a Client")
@@ -152,9 +162,13 @@ def executor_for(where: Any = None) -> Executor:
     if where is None:
         return SerialExecutor()
     if isinstance(where, int) and not isinstance(where, bool):
-        if where < 0:
-            raise InputValueError(f"workers: got {where}; expected 0 (one per core) or more")
-        return ProcessExecutor(where or (os.cpu_count() or 1))
+        cores = os.cpu_count() or 1
+        if not 0 <= where <= MAX_WORKERS:
+            raise InputValueError(
+                f"workers: got {where}; expected 0 (one per core, {cores} here) to {MAX_WORKERS} local processes "
+                "(a larger cluster: --scheduler)"
+            )
+        return ProcessExecutor(where or cores)
     return DaskExecutor(where)
 
 

@@ -184,7 +184,17 @@ def run_fleet(
         if not folder.exists():
             if not folder.parent.is_dir():
                 raise InputValueError(f"--summary: the folder {folder.parent} does not exist")
-            folder.mkdir()
+            try:
+                folder.mkdir()
+            except OSError as error:
+                raise InputValueError(f"--summary: cannot make the folder {folder} ({error.strerror})") from None
+        # Permission bits do not stop root, and a read-only mount shows none: try writing before any work.
+        probe = folder / ".summary.partial"
+        try:
+            probe.write_bytes(b"")
+            probe.unlink()
+        except OSError as error:
+            raise InputValueError(f"--summary: cannot write in the folder {folder} ({error.strerror})") from None
     names = _record_names(files)
     items = [(str(f), None if folder is None else str(folder), n) for f, n in zip(files, names, strict=True)]
     with progress_bar(len(items), "fleet", progress) as tick:

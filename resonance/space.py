@@ -465,7 +465,17 @@ def space_model(
                 raise InputValueError(
                     f"beam {beam.label!r}: names {end!r}, which is not a node; expected one of {sorted(node_at)}"
                 )
-        kb, mb = beam_matrices(beam, node_at[beam.node_a].point, node_at[beam.node_b].point)
+    ends = {e for beam in beams for e in (beam.node_a, beam.node_b)}
+    for node in node_at:
+        if node not in ends and node not in attached.values():
+            raise InputValueError(
+                f"node {node!r}: joined to no beam and carrying no body; expected every frame node at a beam's end"
+            )
+    for beam in beams:
+        try:
+            kb, mb = beam_matrices(beam, node_at[beam.node_a].point, node_at[beam.node_b].point)
+        except InputValueError as error:
+            raise InputValueError(f"beam {beam.label!r}: {str(error).removeprefix('beam: ')}") from None
         dofs = [*range(6 * owners.index(beam.node_a), 6 * owners.index(beam.node_a) + 6)]
         dofs += [*range(6 * owners.index(beam.node_b), 6 * owners.index(beam.node_b) + 6)]
         stiffness[np.ix_(dofs, dofs)] += kb
@@ -540,7 +550,8 @@ def _refuse_mechanism(mass: np.ndarray, stiffness: np.ndarray, labels: tuple[str
         if w2[0] < 1e-11:
             shape = root * v[:, 0]
     if shape is not None:
-        dominant = labels[int(np.argmax(np.abs(shape) * np.sqrt(np.diag(mass))))]
+        weight = np.abs(shape) * np.sqrt(np.diag(mass))
+        dominant = labels[int(np.argmax(weight if np.any(weight > 0.0) else np.abs(shape)))]
         body, direction = dominant.rsplit(".", 1)
         raise InputValueError(
             f"mounts: the model has a rigid-body mechanism: {body!r} moves freely ({_WORDS[direction]}); "
@@ -810,7 +821,13 @@ def orbit_major(displacement: np.ndarray) -> np.ndarray:
     With ``u = a + i b`` the path is ``a cos wt - b sin wt``; its largest squared length is the largest
     eigenvalue of ``[[a.a, -a.b], [-a.b, b.b]]``.
     """
-    a, b = displacement.real, displacement.imag
+    try:
+        u = np.asarray(displacement, dtype=complex)
+    except (TypeError, ValueError):
+        raise InputTypeError(f"displacement: got {displacement!r}; expected complex amplitudes (... x 3)") from None
+    if u.ndim < 1 or u.shape[-1] != 3 or not np.all(np.isfinite(u)):
+        raise InputValueError(f"displacement: got shape {u.shape}; expected finite complex amplitudes (... x 3)")
+    a, b = u.real, u.imag
     aa, bb, ab = (a * a).sum(-1), (b * b).sum(-1), (a * b).sum(-1)
     mean, half = 0.5 * (aa + bb), np.sqrt(0.25 * (aa - bb) ** 2 + ab**2)
     return np.sqrt(mean + half)

@@ -6,24 +6,51 @@ bearings in every direction and the ISO zones; the record keeps it all.
 A scenario file with a ``[space]`` table (see ``notebooks/scenarios/fan_skid_block.toml``)::
 
     [space]
-    damping_ratio = 0.02                 # modal, on top of the mounts' and the soil's dashpots
+    damping_ratio = 0.02   # modal, on top of the mounts' and the soil's dashpots
+    # A body by its box or by its 3 x 3 inertia tensor (inertia = [["70000 kg*m**2", ...], [...], [...]]).
     bodies = [
       { name = "fan", mass = "2400 kg", center = ["0 m", "0 m", "1.9 m"], box = ["2.0 m", "1.4 m", "1.5 m"] },
-      { name = "block", mass = "52000 kg", center = ["0 m", "0 m", "0.6 m"],
-        inertia = [["70000 kg*m**2", "0 kg*m**2", ...], [...], [...]] },   # or box = [lx, ly, lz]
+      { name = "block", mass = "52000 kg", center = ["0 m", "0 m", "0.6 m"], box = ["5 m", "4 m", "1.2 m"] },
     ]
-    mounts = [{ label = "isolator 1", body = "fan", other = "block", point = ["0.9 m", "0.6 m", "1.2 m"],
-                stiffness = ["1.5 kN/mm", "1.5 kN/mm", "4 kN/mm"], damping = ["3 kN*s/m", "3 kN*s/m", "6 kN*s/m"] }]
-    soil = { body = "block", shear_modulus = "70 MPa", poisson_ratio = 0.33, density = "1900 kg/m**3",
-             width_x = "5 m", width_y = "4 m", embedment = "0.5 m" }   # or radius = "..."
-    nodes = [{ name = "n1", point = [...] }]                                 # a steel frame (optional)
-    beams = [{ label = "rail", between = ["n1", "n2"], youngs_modulus = "210 GPa", shear_modulus = "81 GPa",
-               density = "7850 kg/m**3", area = 0.004, iy = 2e-5, iz = 4e-6, torsion_constant = 2e-7 }]
-    fixed = ["n1"]                    # frame nodes held
-    attached = { fan = "n3" }         # bodies fixed rigidly to a node
-    unbalance = [{ body = "fan", point = [...], axis = [1, 0, 0], amount = "2500 g*mm" }]   # or balance_grade
-    forces = [{ body = "fan", point = [...], force = ["0 N", "300 N", "0 N"], order = 2 }]  # and/or moment
-    probes = [{ label = "fan DE bearing", body = "fan", point = [...] }]
+    # An unbalance by amount, or by balance_grade with rotor_mass; forces take force and/or moment.
+    unbalance = [{ body = "fan", point = ["0.9 m", "0 m", "1.9 m"], axis = [1, 0, 0], amount = "2500 g*mm" }]
+    forces = [{ body = "fan", point = ["0 m", "0 m", "1.9 m"], force = ["0 N", "300 N", "0 N"], order = 2 }]
+    probes = [{ label = "fan DE bearing", body = "fan", point = ["0.9 m", "0 m", "1.9 m"] }]
+
+    [[space.mounts]]     # one table per mount (or an inline table on one line each)
+    label = "isolator 1"
+    body = "fan"
+    other = "block"
+    point = ["0.9 m", "0.6 m", "1.2 m"]
+    stiffness = ["1.5 kN/mm", "1.5 kN/mm", "4 kN/mm"]
+    damping = ["3 kN*s/m", "3 kN*s/m", "6 kN*s/m"]
+
+    [space.soil]         # the footing: width_x and width_y, or radius
+    body = "block"
+    shear_modulus = "70 MPa"
+    poisson_ratio = 0.33
+    density = "1900 kg/m**3"
+    width_x = "5 m"
+    width_y = "4 m"
+    embedment = "0.5 m"
+
+A steel frame (optional) adds nodes, beams, fixed nodes and bodies attached rigidly to nodes::
+
+    [space]
+    nodes = [{ name = "n1", point = ["0 m", "0 m", "0.2 m"] }, { name = "n2", point = ["2 m", "0 m", "0.2 m"] }]
+    fixed = ["n1"]
+    attached = { fan = "n2" }
+
+    [[space.beams]]
+    label = "rail"
+    between = ["n1", "n2"]
+    youngs_modulus = "210 GPa"
+    shear_modulus = "81 GPa"
+    density = "7850 kg/m**3"
+    area = "40 cm**2"
+    iy = "2000 cm**4"
+    iz = "400 cm**4"
+    torsion_constant = "20 cm**4"
 
 The soil is the footing under its body's base (the lowest face of the body's box, or of the box with the
 same principal moments for a body given by its inertia, or ``point``), with the
@@ -664,16 +691,32 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         motor,
         parse_record(r, r.table(data, "record", "record", required=False)),
     )
+    for key, labels in (
+        ("bodies", [b.name for b in bodies]),
+        ("mounts", [m.label for m in mounts]),
+        ("probes", [p[0] for p in probes]),
+        ("nodes", [n.name for n in nodes]),
+        ("beams", [b.label for b in beams]),
+    ):
+        repeated = sorted({x for x in labels if labels.count(x) > 1})
+        if repeated:
+            i = [j for j, x in enumerate(labels) if x == repeated[0]][1]
+            raise r.fail(f"space.{key}[{i}]", f"{repeated[0]!r} is used twice; expected a name or label of its own")
     try:
         model = scenario.build()
-        for _label, body, point in scenario.probes:
-            model.motion(body, point)
-        for body, point, _axis, _amount in scenario.unbalance:
-            model.motion(body, point)
-        for body, point, *_ in scenario.forces:
-            model.motion(body, point)
     except InputValueError as error:
         raise r.fail("space", str(error)) from None
+    # Each point read or loaded names its table and entry when its body or point is wrong.
+    for key, items in (
+        ("probes", [(b, p) for _label, b, p in scenario.probes]),
+        ("unbalance", [(b, p) for b, p, _axis, _amount in scenario.unbalance]),
+        ("forces", [(b, p) for b, p, *_ in scenario.forces]),
+    ):
+        for i, (body, point) in enumerate(items):
+            try:
+                model.motion(body, point)
+            except InputValueError as error:
+                raise r.fail(f"space.{key}[{i}].body", str(error).removeprefix("body: ")) from None
     return scenario
 
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from .errors import InputValueError
+from .errors import InputTypeError, InputValueError
 from .inputs import as_si
 
 __all__ = ["OperatingRange", "operating_range"]
@@ -97,9 +97,13 @@ def operating_range(
         raise InputValueError(
             f"speed_max: got {high:g} rpm, below speed_min = {low:g} rpm; expected speed_min <= speed_max"
         )
+    if isinstance(skip_bands, (str, bytes)) or not isinstance(skip_bands, Sequence):
+        raise InputTypeError(
+            f"skip_bands: got {skip_bands!r}; expected a list of (low, high) speed pairs, e.g. [(1150, 1250)]"
+        )
     bands = []
     for i, band in enumerate(skip_bands):
-        if len(band) != 2:
+        if isinstance(band, (str, bytes)) or not isinstance(band, Sequence) or len(band) != 2:
             raise InputValueError(f"skip_bands[{i}]: got {band!r}; expected a pair (low, high)")
         a = as_si(band[0], f"skip_bands[{i}] low", "speed", "positive")
         b = as_si(band[1], f"skip_bands[{i}] high", "speed", "positive")

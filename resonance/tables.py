@@ -15,6 +15,7 @@ from __future__ import annotations
 import dataclasses
 import hashlib
 import os
+import re
 import sys
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
@@ -747,7 +748,22 @@ def read_scenario_bytes(path: str | os.PathLike[str]) -> tuple[dict[str, Any], s
     try:
         return tomllib.loads(raw.decode("utf-8")), hashlib.sha256(raw).hexdigest()
     except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
-        raise ScenarioError(f"{name}: is not valid TOML ({error})") from None
+        raise ScenarioError(f"{name}: is not valid TOML ({error}){_inline_hint(error, raw)}") from None
+    except ValueError as error:  # an integer of thousands of digits: Python refuses to convert it
+        raise ScenarioError(f"{name}: holds a number too long to read ({str(error).split(':')[0]})") from None
+
+
+def _inline_hint(error: Exception, raw: bytes) -> str:
+    # TOML 1.0 keeps an inline table on one line; the parser's own words do not say so. An error on a line
+    # after an unclosed "{" (strings aside) is that mistake.
+    found = re.search(r"at line (\d+)", str(error))
+    if not found:
+        return ""
+    before = b"\n".join(raw.split(b"\n")[: int(found.group(1))]).decode("utf-8", "replace")
+    before = re.sub(r'"(?:[^"\\\n]|\\.)*"', "", before)  # strings may hold braces
+    if before.count("{") > before.count("}"):
+        return "; TOML 1.0 keeps an inline table { ... } on one line: write it on one line or as a [[table]]"
+    return ""
 
 
 def rules_table(rules: RuleSet, judges_amplitude: bool = False) -> dict[str, Any]:

@@ -21,7 +21,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -367,6 +367,8 @@ def torsional_train(
         ("springs", springs, TorsionalShaft),
         ("meshes", meshes, GearMesh),
     ):
+        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
+            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
         for i, item in enumerate(items):
             if not isinstance(item, kind):
                 raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
@@ -754,6 +756,8 @@ def torque_response(
     zeta = None if damping_ratio is None else as_si(damping_ratio, "damping_ratio", "ratio", "nonnegative")
     shaft_of = {s.name: s.shaft for s in train.stations}
     load = np.zeros(train.model.size)
+    if not isinstance(torques, Mapping) or not torques:
+        raise InputTypeError(f"torques: got {torques!r}; expected a mapping of station names to torques")
     for name, torque in torques.items():
         if name not in shaft_of:
             raise InputValueError(

@@ -3,21 +3,40 @@
 A scenario file with a ``[torsion]`` table describes a drive train (see ``notebooks/scenarios/
 compressor_train.toml``)::
 
-    [speed]                      # the driver shaft's speeds of continuous operation
+    [speed]              # the driver shaft's speeds of continuous operation
     min = "1200 rpm"
     max = "1500 rpm"
 
+    [motor]
+    supply = "drive"
+    poles = 4
+    slip = 0.01
+    electrical = [1, 2]  # the multiples of f_e checked (default on a drive: 1, 2, 6 and 12)
+
     [torsion]
-    damping_ratio = 0.02         # modal damping for every mode (optional; else the elements' dampers)
-    shaft_orders = [1, 2]        # each shaft's orders checked (default 1x and 2x)
+    damping_ratio = 0.02  # modal damping for every mode (optional; else the elements' dampers)
+    shaft_orders = [1, 2]  # each shaft's orders checked (default 1x and 2x)
+    driver_shaft = "driver"  # the shaft [speed] gives (default: the shaft called "driver", or the only one)
     stations = [
-      { name = "motor", inertia = "6 kg*m**2" },                       # on the driver shaft
+      { name = "motor", inertia = "6 kg*m**2" },
+      { name = "gear", inertia = "1.1 kg*m**2" },
       { name = "pinion", inertia = "0.05 kg*m**2", shaft = "hs" },
+      { name = "compressor", inertia = "0.4 kg*m**2", shaft = "hs" },
     ]
-    couplings = [{ between = ["motor", "gear"], stiffness = "40 kN*m/rad", damping = 30, label = "coupling" }]
-    shafts = [{ between = ["pinion", "compressor"], length = "0.6 m", outer_diameter = "60 mm",
-                shear_modulus = "80 GPa", label = "hs shaft" }]          # or stiffness = "..."
-    meshes = [{ gear = "gear", pinion = "pinion", ratio = 3.2, gear_teeth = 97 }]
+    meshes = [{ gear = "gear", pinion = "pinion", gear_teeth = 96, pinion_teeth = 30 }]   # or ratio = 3.2
+    shaft_excitations = [{ shaft = "hs", order = 4, label = "lobe pass" }]   # orders of any shaft's own speed
+
+    [[torsion.couplings]]
+    between = ["motor", "gear"]
+    stiffness = "40 kN*m/rad"
+    damping = "30 N*m*s/rad"
+    label = "coupling"
+
+    [[torsion.shafts]]   # by stiffness; by length, diameters and G; or by stepped sections in series
+    between = ["pinion", "compressor"]
+    shear_modulus = "80 GPa"
+    label = "hs shaft"
+    sections = [{ length = "0.4 m", outer_diameter = "60 mm" }, { length = "0.2 m", outer_diameter = "55 mm" }]
 
 Every station's, shaft's and mesh's 1x and 2x (``shaft_orders``), each gear mesh (teeth x the gear's shaft
 speed), the motor's electrical frequencies and any ``[[excitations]]`` are checked against every torsional
@@ -26,12 +45,16 @@ mode by the torsional rule (10 % unless ``margin.torsional`` says otherwise; API
 Where a margin cannot be met, harmonic torques and allowables give the forced response::
 
     [torsion]
-    rated_torque = "7.6 kN*m"    # the driver's rated torque (for fraction_of_rated)
-    forcing = [
-      { label = "air-gap pulsation", station = "motor", excitation = "2 f_e (drive, 4 poles, slip 0.01)",
-        fraction_of_rated = 0.01 },                 # or torque = "76 N*m" (on the station's own shaft)
-    ]
-    couplings = [{ ..., allowable_torque = "1.9 kN*m" }]   # shafts: allowable_torque and/or allowable_stress
+    rated_torque = "7.6 kN*m"  # the driver's rated torque (for fraction_of_rated)
+    # A torque as a fraction of the rated one, or torque = "76 N*m" on the station's own shaft.
+    # Each coupling or shaft may carry allowable_torque; a shaft with diameters also allowable_stress.
+    couplings = [{ between = ["motor", "gear"], stiffness = "40 kN*m/rad", allowable_torque = "1.9 kN*m" }]
+
+    [[torsion.forcing]]
+    label = "air-gap pulsation"
+    station = "motor"
+    excitation = "2 f_e (drive, 4 poles, slip 0.01)"
+    fraction_of_rated = 0.01
 
 ``excitation`` is the label of a checked excitation: the torque has its frequency at every speed. Each
 element's largest dynamic torque (and shear stress) over the operating speeds is compared with its

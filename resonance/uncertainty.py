@@ -107,9 +107,11 @@ class UncertainInput:
             if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
                 raise InputValueError(f"{self.vary}: {name}: got {value!r}; expected a finite number")
         if self.distribution == "uniform" and not 0.0 < self.a < self.b:
-            raise InputValueError(f"{self.vary}: got low {self.a!r} and high {self.b!r}; expected 0 < low < high")
+            raise InputValueError(
+                f"{self.vary}: a (low) {self.a!r}, b (high) {self.b!r}; expected 0 < a < b for a uniform factor"
+            )
         if self.distribution != "uniform" and not (self.a > 0.0 and self.b > 0.0):
-            raise InputValueError(f"{self.vary}: got {self.a!r} and {self.b!r}; expected two values > 0")
+            raise InputValueError(f"{self.vary}: a {self.a!r}, b {self.b!r}; expected a > 0 and b > 0")
         low, high = self.bounds
         if not low < high:
             raise InputValueError(f"{self.vary}: bounds: got {self.bounds!r}; expected low below high")
@@ -187,7 +189,12 @@ class UncertaintySpec:
         # Never another sampler than the one named, and never a study of nothing.
         if self.sampling not in ("lhs", "sobol"):
             raise InputValueError(f"sampling: got {self.sampling!r}; expected 'lhs' or 'sobol'")
-        if not self.inputs or not all(isinstance(x, UncertainInput) for x in self.inputs):
+        inputs = self.inputs
+        if (
+            not isinstance(inputs, (tuple, list))
+            or not inputs
+            or not all(isinstance(x, UncertainInput) for x in inputs)
+        ):
             raise InputValueError(f"inputs: got {self.inputs!r}; expected one or more UncertainInput")
         if isinstance(self.samples, bool) or not isinstance(self.samples, int) or not 16 <= self.samples <= 1_000_000:
             raise InputValueError(f"samples: got {self.samples!r}; expected a whole number from 16 to 1000000")

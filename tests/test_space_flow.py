@@ -61,7 +61,7 @@ def test_the_demo_runs_through_check_with_its_records(tmp_path, capsys):
         (lambda t: t["space"].pop("soil"), "space: mounts: the model has a rigid-body mechanism: 'block'"),
         (lambda t: t["space"]["soil"].update(poisson_ratio=0.5), "space: poisson_ratio: got 0.5"),
         (lambda t: t["space"]["bodies"][1].update(mass="1,000 kg"), "space.bodies[1].mass"),
-        (lambda t: t["space"]["probes"][0].update(body="motor"), "space: body: got 'motor'"),
+        (lambda t: t["space"]["probes"][0].update(body="motor"), "space.probes[0].body: got 'motor'"),
         (lambda t: t["margin"].pop("flat"), "margin.flat: missing"),
         (lambda t: t["whatif"].update(vary_mounts=["spring 9"]), "whatif.vary_mounts: names 'spring 9'"),
         # An embedment deeper than the block would raise the soil's stiffness 1.7x to 5.5x (issue of record).

@@ -14,15 +14,25 @@ convention or text with a unit. Example (see
       { length = "200 mm", outer_diameter = "90 mm", elements = 4 },
       { length = "1.0 m", outer_diameter = "110 mm", elements = 20, material = "steel" },
     ]
-    discs = [{ station = 2, mass = "380 kg", polar_inertia = "38 kg*m**2",
-               diametral_inertia = "20 kg*m**2", label = "impeller" }]
-    bearings = [
-      { station = 1, label = "NDE", kxx = "300 kN/mm", kyy = "200 kN/mm", cxx = "30 kN*s/m", cyy = "30 kN*s/m" },
-      # speed-dependent: lists of values at `speeds`
-      { station = 3, label = "DE", speeds = ["0 rpm", "4500 rpm"], kxx = ["250 kN/mm", "350 kN/mm"],
-        kyy = ["180 kN/mm", "260 kN/mm"], cxx = "30 kN*s/m", cyy = "30 kN*s/m" },
-    ]
+    discs = [{ station = 2, mass = "380 kg", polar_inertia = "38 kg*m**2", diametral_inertia = "20 kg*m**2" }]
     unbalance = [{ station = 2, balance_grade = 2.5, phase = 0 }]   # or amount = "500 g*mm"
+
+    [[rotor.bearings]]
+    station = 1
+    label = "NDE"
+    kxx = "300 kN/mm"
+    kyy = "200 kN/mm"
+    cxx = "30 kN*s/m"
+    cyy = "30 kN*s/m"
+
+    [[rotor.bearings]]   # speed-dependent: lists of values at `speeds`
+    station = 3
+    label = "DE"
+    speeds = ["0 rpm", "4500 rpm"]
+    kxx = ["250 kN/mm", "350 kN/mm"]
+    kyy = ["180 kN/mm", "260 kN/mm"]
+    cxx = "30 kN*s/m"
+    cyy = "30 kN*s/m"
 
 Errors name the file and the field, as for support scenarios.
 """

@@ -145,7 +145,7 @@ def update_space_shape_figure(fig: go.Figure, result: SpaceStudyResult, mode: in
     mode = min(max(mode, 0), len(result.shapes) - 1)
     rest, pairs = _geometry(result, None)
     moved, _ = _geometry(result, mode)
-    mounts = np.array([m.point for m in result.model.mounts])
+    mounts = np.array([m.point for m in result.model.mounts]).reshape(-1, 3)  # none: a frame on fixed feet
     shape = result.shapes[mode]
     with fig.batch_update():
         for trace, points in ((fig.data[0], rest), (fig.data[1], moved)):

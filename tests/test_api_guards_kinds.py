@@ -1,0 +1,201 @@
+"""The newer kinds' Python API refuses what it cannot use, with the package's errors naming the parameter.
+
+The same sweep as tests/test_api_guards.py (after python-control's sweep of its functions): every public
+constructor and function of the torsion, space, frame, soil, speed-range and uncertainty modules that takes
+user values is called once with good (invented) values, then once per parameter with text, NaN, infinity,
+None, an object, and a negative or zero value where the parameter must be positive. Every bad call must
+raise ``InputValueError`` or ``InputTypeError`` naming the parameter: never AttributeError,
+ZeroDivisionError, an unpacking error or silent acceptance. Results built by the package are left out.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from test_api_guards import NONE, _bad_values
+
+import resonance as R
+from resonance import frame, soil, space, speed_range, torsion, uncertainty
+
+TRAIN = torsion.torsional_train(
+    [torsion.Station("m", 2.0), torsion.Station("f", 1.0)], [torsion.Coupling(("m", "f"), 1e5, label="c")]
+)
+BODY = space.RigidBody("skid", 500.0, [0.0, 0.0, 0.0], space.box_inertia(500.0, 2.0, 1.0, 0.5))
+MOUNT = space.Mount("pad", [0.0, 0.0, -0.25], "skid", stiffness=[1e7, 1e7, 1e7], rotational_stiffness=[1e6] * 3)
+MODEL = space.space_model([BODY], [MOUNT])
+
+# name: (callable, good keyword arguments, {parameter: "+" positive | "0" nonnegative | "*" any sign})
+CASES = {
+    "Station": (torsion.Station, {"name": "m", "inertia": 2.0}, {"inertia": "+"}),
+    "TorsionalShaft": (
+        torsion.TorsionalShaft,
+        {"between": ("a", "b"), "stiffness": 1e5, "damping": 10.0},
+        {"stiffness": "+", "damping": "0"},
+    ),
+    "Coupling": (torsion.Coupling, {"between": ("a", "b"), "stiffness": 1e5}, {"stiffness": "+", "damping": "0"}),
+    "GearMesh": (torsion.GearMesh, {"gear": "g", "pinion": "p", "ratio": 3.2}, {"ratio": "+"}),
+    "hollow_shaft_stiffness": (
+        torsion.hollow_shaft_stiffness,
+        {"shear_modulus": 80e9, "length": 1.0, "outer_diameter": 0.1},
+        {"shear_modulus": "+", "length": "+", "outer_diameter": "+", "inner_diameter": "0"},
+    ),
+    "stepped_shaft_stiffness": (
+        torsion.stepped_shaft_stiffness,
+        {"shear_modulus": 80e9, "sections": [(1.0, 0.1, 0.0)]},
+        {"shear_modulus": "+", "sections": "*"},
+    ),
+    "scale_couplings": (torsion.scale_couplings, {"train": TRAIN, "factor": 1.2}, {"train": "*", "factor": "+"}),
+    "scale_dampers": (torsion.scale_dampers, {"train": TRAIN, "factor": 1.2}, {"train": "*", "factor": "+"}),
+    "torque_response": (
+        torsion.torque_response,
+        {"train": TRAIN, "torques": {"m": 10.0}, "frequency": [5.0, 10.0]},
+        {"train": "*", "torques": "*", "frequency": "+"},
+    ),
+    "torsional_mode_list": (torsion.torsional_mode_list, {"train": TRAIN}, {"train": "*", "damping_ratio": "0"}),
+    "torsional_modes": (torsion.torsional_modes, {"train": TRAIN}, {"train": "*"}),
+    "torsional_shapes": (torsion.torsional_shapes, {"train": TRAIN}, {"train": "*"}),
+    "torsional_train": (
+        torsion.torsional_train,
+        {
+            "stations": [torsion.Station("m", 2.0), torsion.Station("f", 1.0)],
+            "springs": [torsion.Coupling(("m", "f"), 1e5)],
+        },
+        {"stations": "*", "springs": "*", "meshes": "*"},
+    ),
+    "RigidBody": (
+        space.RigidBody,
+        {"name": "skid", "mass": 500.0, "center": [0.0, 0.0, 0.0], "inertia": space.box_inertia(500.0, 2.0, 1.0, 0.5)},
+        {"mass": "+", "center": "*", "inertia": "*"},
+    ),
+    "Mount": (
+        space.Mount,
+        {"label": "pad", "point": [0.0, 0.0, 0.0], "body": "skid", "stiffness": [1e7, 1e7, 1e7]},
+        {"point": "*", "stiffness": "0", "damping": "0", "rotational_stiffness": "0", "rotational_damping": "0"},
+    ),
+    "FrameNode": (space.FrameNode, {"name": "n1", "point": [0.0, 0.0, 1.0]}, {"point": "*"}),
+    "box_inertia": (
+        space.box_inertia,
+        {"mass": 500.0, "lx": 2.0, "ly": 1.0, "lz": 0.5},
+        {"mass": "+", "lx": "+", "ly": "+", "lz": "+"},
+    ),
+    "rotating_unbalance": (
+        space.rotating_unbalance,
+        {"body": "skid", "point": [0.0, 0.0, 0.0], "axis": [1.0, 0.0, 0.0], "unbalance": 1e-3, "frequency": [10.0]},
+        {"point": "*", "axis": "*", "unbalance": "+", "frequency": "0"},
+    ),
+    "unbalance_reference": (space.unbalance_reference, {"axis": [0.0, 0.0, 1.0]}, {"axis": "*"}),
+    "space_modes": (space.space_modes, {"model": MODEL}, {"model": "*"}),
+    "space_response": (
+        space.space_response,
+        {
+            "model": MODEL,
+            "loads": [space.rotating_unbalance("skid", [0, 0, 0], [1, 0, 0], 1e-3, [10.0])],
+            "frequency": [10.0],
+            "points": [("skid", [0.0, 0.0, 0.0])],
+        },
+        {"model": "*", "frequency": "0"},
+    ),
+    "orbit_major": (space.orbit_major, {"displacement": np.ones((1, 3), dtype=complex)}, {"displacement": "*"}),
+    "Beam": (
+        frame.Beam,
+        {
+            "label": "girder",
+            "node_a": "a",
+            "node_b": "b",
+            "youngs_modulus": 2.1e11,
+            "shear_modulus": 8e10,
+            "density": 7850.0,
+            "area": 4e-3,
+            "iy": 5e-5,
+            "iz": 3e-5,
+            "torsion_constant": 1e-6,
+        },
+        {
+            "youngs_modulus": "+",
+            "shear_modulus": "+",
+            "density": "+",
+            "area": "+",
+            "iy": "+",
+            "iz": "+",
+            "torsion_constant": "+",
+        },
+    ),
+    "footing_impedance": (
+        soil.footing_impedance,
+        {
+            "shear_modulus": 60e6,
+            "poisson_ratio": 0.33,
+            "density": 1900.0,
+            "mass": 5e4,
+            "rocking_inertia_x": 4e4,
+            "rocking_inertia_y": 6e4,
+            "torsion_inertia": 8e4,
+            "radius": 2.0,
+        },
+        {"shear_modulus": "+", "density": "+", "mass": "+", "radius": "+"},
+    ),
+    "operating_range": (
+        speed_range.operating_range,
+        {"speed_min": 1000.0, "speed_max": 2000.0, "skip_bands": [(1200.0, 1300.0)]},
+        {"speed_min": "+", "speed_max": "+", "skip_bands": "*"},
+    ),
+    "UncertainInput": (
+        uncertainty.UncertainInput,
+        {"vary": "spring:soil", "distribution": "uniform", "a": 0.8, "b": 1.2},
+        {"distribution": "*", "a": "+", "b": "+"},
+    ),
+    "UncertaintySpec": (
+        uncertainty.UncertaintySpec,
+        {"inputs": (uncertainty.UncertainInput("spring:soil", "uniform", 0.8, 1.2),), "samples": 64},
+        {"inputs": "*", "samples": "+", "sampling": "*", "seed": "0"},
+    ),
+}
+
+EXTRA = {  # values of the wrong shape or kind that are not in the shared table
+    "skip_bands": [(1, 2), 5, [(1200.0,)], [(1300.0, 1200.0)]],
+    "sections": [[], [(1.0, 0.1)], "abc"],
+    "stations": [[], [1, 2]],
+    "springs": [[1]],
+    "meshes": [[1]],
+    "axis": [[0.0, 0.0, 0.0], [1.0, 0.0]],
+    "center": [[0.0, 0.0]],
+    "point": [[0.0, 0.0]],
+    "inertia": [np.eye(2), -np.eye(3)],
+    "torques": [{"nowhere": 1.0}, {"m": "abc"}, []],
+    "displacement": [np.ones(2), np.ones((2, 2))],
+    "distribution": ["gamma"],
+    "sampling": ["mc"],
+    "inputs": [()],
+}
+
+OPTIONAL = {"damping_ratio"}  # None is their documented default
+
+SWEEP = [
+    pytest.param(name, parameter, bad, id=f"{name}-{parameter}-{bad!r}"[:80])
+    for name, (_, _, params) in CASES.items()
+    for parameter, sign in params.items()
+    for bad in _bad_values(sign) + EXTRA.get(parameter, [])
+    if not (bad is NONE and parameter in OPTIONAL)
+]
+
+
+@pytest.mark.parametrize("name", sorted(CASES))
+def test_good_call_works(name):
+    function, good, _ = CASES[name]
+    function(**good)
+
+
+@pytest.mark.parametrize(("name", "parameter", "bad"), SWEEP)
+def test_bad_value_raises_the_package_error_naming_the_parameter(name, parameter, bad):
+    function, good, _ = CASES[name]
+    arguments = dict(good)
+    flat = isinstance(good.get(parameter), list) and all(isinstance(x, float) for x in good[parameter])
+    if flat and bad is not NONE and not isinstance(bad, (list, tuple, np.ndarray, dict)):
+        arguments[parameter] = np.full(np.shape(good[parameter]), bad, dtype=object).tolist()
+    else:
+        arguments[parameter] = bad
+    with pytest.raises((R.InputValueError, R.InputTypeError)) as caught:
+        function(**arguments)
+    text = str(caught.value)
+    words = parameter.split("_")[0]
+    assert words in text or parameter in text, text
