@@ -40,7 +40,11 @@ __all__ = [
     "ExcitationKind",
     "api_design_unbalance",
     "blade_pass",
+    "SLIP_LOADS",
+    "SlipLoad",
     "drive_electrical",
+    "drive_electrical_law",
+    "induction_slip",
     "electrical_order",
     "fixed_frequency",
     "gear_mesh",
@@ -76,6 +80,10 @@ class Excitation:
     source : str, optional
         Where the excitation came from, in words, for the record (``"[[excitations]] entry 1"``,
         ``"[motor]: checked by default for a drive-fed motor"``); not part of its identity.
+    law : tuple of (float, float), optional
+        For a source whose frequency is not proportional to the speed (a drive-fed induction motor whose
+        slip follows the load): ``(speed [rpm], frequency [Hz])`` points, both increasing, interpolated
+        linearly and extended by the end slopes. ``order`` is then its order at the rated speed, for display.
     """
 
     label: str
@@ -83,6 +91,7 @@ class Excitation:
     frequency: float | None = None
     kind: ExcitationKind | None = None
     source: str = field(default="", compare=False)
+    law: tuple[tuple[float, float], ...] = ()
 
     def __post_init__(self) -> None:
         if (self.order is None) == (self.frequency is None):
@@ -102,6 +111,22 @@ class Excitation:
             raise InputValueError(f"excitation {self.label!r}: kind {self.kind!r} needs an order, not a frequency")
         elif self.kind == "fixed" and self.order is not None:
             raise InputValueError(f"excitation {self.label!r}: kind 'fixed' needs a frequency, not an order")
+        if self.law:
+            points = np.asarray(self.law, dtype=float)
+            if (
+                self.order is None
+                or points.ndim != 2
+                or points.shape[1] != 2
+                or len(points) < 2
+                or not np.all(np.isfinite(points))
+                or not np.all(points > 0.0)
+                or not (np.all(np.diff(points[:, 0]) > 0.0) and np.all(np.diff(points[:, 1]) > 0.0))
+            ):
+                raise InputValueError(
+                    f"excitation {self.label!r}: law: expected two or more (speed, frequency) points > 0, both "
+                    "increasing, beside a nominal order"
+                )
+            object.__setattr__(self, "law", tuple((float(a), float(b)) for a, b in points))
 
     @property
     def tracks_speed(self) -> bool:
@@ -111,6 +136,9 @@ class Excitation:
     def frequency_at(self, speed: object) -> np.ndarray:
         """Excitation frequency [Hz] at running speeds [rpm]."""
         n = as_si_array(speed, "speed", "speed", "nonnegative")
+        if self.law:
+            speeds, frequencies = np.array(self.law).T
+            return _extended_interp(n, speeds, frequencies)
         if self.order is not None:
             return self.order * n / 60.0
         assert self.frequency is not None  # exactly one of order, frequency is set
@@ -123,7 +151,42 @@ class Excitation:
         """
         if self.order is None:
             return None
-        return 60.0 * natural_frequency / self.order
+        return float(self.coincidence_speeds(np.array([natural_frequency]))[0])
+
+    def coincidence_speeds(self, natural_frequency: np.ndarray) -> np.ndarray:
+        """Running speeds [rpm] at which this speed-following source excites each frequency [Hz] (vectorized).
+
+        Parameters
+        ----------
+        natural_frequency : numpy.ndarray
+            Frequencies [Hz], any shape.
+
+        Returns
+        -------
+        numpy.ndarray
+            ``60 f / order``, or the speed at which the ``law`` reaches ``f``.
+
+        Raises
+        ------
+        InputValueError
+            A fixed-frequency source (it does not follow the speed).
+        """
+        if self.order is None:
+            raise InputValueError(f"excitation {self.label!r}: a fixed frequency has no coincidence speed")
+        f = np.asarray(natural_frequency, dtype=float)
+        if self.law:
+            speeds, frequencies = np.array(self.law).T
+            return _extended_interp(f, frequencies, speeds)
+        return 60.0 * f / self.order
+
+
+def _extended_interp(x: np.ndarray, xp: np.ndarray, fp: np.ndarray) -> np.ndarray:
+    # Linear interpolation, extended beyond the table by its end slopes (a law is tabulated over a wide span).
+    y = np.interp(x, xp, fp)
+    low = (fp[1] - fp[0]) / (xp[1] - xp[0])
+    high = (fp[-1] - fp[-2]) / (xp[-1] - xp[-2])
+    y = np.where(x < xp[0], fp[0] + (x - xp[0]) * low, y)
+    return np.where(x > xp[-1], fp[-1] + (x - xp[-1]) * high, y)
 
 
 def _count(value: object, name: str) -> int:
@@ -383,6 +446,113 @@ def drive_electrical(poles: int, slip: object = 0.0, multiple: float = 1.0, labe
     name = "f_e" if n == 1.0 else f"{n:g} f_e"
     detail = f"drive, {int(poles)} poles" + (f", slip {s:g}" if s else "")
     return Excitation(label if label is not None else f"{name} ({detail})", order=order, kind="electrical")
+
+
+SlipLoad = Literal["constant torque", "quadratic torque"]
+SLIP_LOADS: tuple[SlipLoad, ...] = ("constant torque", "quadratic torque")
+
+
+def induction_slip(speed: object, rated_speed: object, rated_slip: object, load: SlipLoad) -> np.ndarray:
+    """The slip of a drive-fed induction motor at each speed, from its slip at rated speed and the load's law.
+
+    Parameters
+    ----------
+    speed : array_like or pint.Quantity
+        Shaft speeds [rpm] (> 0).
+    rated_speed : float or pint.Quantity
+        The speed at which ``rated_slip`` holds [rpm] (> 0).
+    rated_slip : float
+        Slip there [-], in [0, 0.2).
+    load : {"constant torque", "quadratic torque"}
+        The load's torque against speed: constant (conveyors, reciprocating compressors), or growing with the
+        square of the speed (fans, centrifugal pumps and compressors: the affinity laws).
+
+    Returns
+    -------
+    numpy.ndarray
+        ``s = D / (n + D)`` [-], ``D`` the slip speed ``n_s - n`` [rpm]: ``D_r`` for a constant torque,
+        ``D_r (n / n_r)^2`` for a quadratic one, ``D_r = s_r n_r / (1 - s_r)``.
+
+    Raises
+    ------
+    InputValueError, InputTypeError
+        Speeds not > 0, a slip outside [0, 0.2), an unknown load.
+
+    Notes
+    -----
+    On a drive that keeps the flux constant (V/f), the torque near synchronous speed is proportional to the
+    slip speed, whatever the supply frequency; so the slip speed follows the load torque.
+
+    References
+    ----------
+    A. E. Fitzgerald, C. Kingsley and S. D. Umans, *Electric Machinery*, 6th ed., 2003, ch. 6 and 11 (the
+    linear torque-slip region; constant volts per hertz; from memory). The affinity laws for fans and pumps:
+    common practice.
+
+    Examples
+    --------
+    >>> s = induction_slip([750.0, 1500.0], 1500.0, 0.01, "quadratic torque")
+    >>> [round(float(x), 5) for x in s]
+    [0.00503, 0.01]
+    """
+    n = as_si_array(speed, "speed", "speed", "positive")
+    n_r = as_si(rated_speed, "rated_speed", "speed", "positive")
+    s_r = as_si(rated_slip, "rated_slip", "ratio", "nonnegative")
+    if not s_r < 0.2:
+        raise InputValueError(f"rated_slip: got {s_r:g}; expected a fraction below 0.2 (1.3 % slip is 0.013)")
+    if load not in SLIP_LOADS:
+        raise InputValueError(f"load: got {load!r}; expected one of {list(SLIP_LOADS)}")
+    d_r = s_r * n_r / (1.0 - s_r)
+    d = np.full(n.shape, d_r) if load == "constant torque" else d_r * (n / n_r) ** 2
+    return d / (n + d)
+
+
+def drive_electrical_law(
+    poles: int, multiple: float, speed: object, slip: object, nominal_slip: float, label: str
+) -> Excitation:
+    """An electrical excitation of a drive-fed motor whose slip changes with speed (see :func:`induction_slip`).
+
+    Parameters
+    ----------
+    poles : int
+        Number of poles (even, >= 2).
+    multiple : float
+        Multiple of the electrical frequency [-] (> 0).
+    speed : array_like
+        Shaft speeds [rpm] (> 0, increasing) at which the slip is known.
+    slip : array_like
+        The slip at each [-], in [0, 1).
+    nominal_slip : float
+        The slip whose order is shown beside the label (at rated speed).
+    label : str
+        Name shown in tables.
+
+    Returns
+    -------
+    Excitation
+        Kind ``"electrical"`` with the ``law`` ``f = multiple p n / (120 (1 - s(n)))``.
+
+    Raises
+    ------
+    InputValueError
+        Poles, slips or speeds out of range, or a law whose frequency does not rise with the speed.
+
+    Examples
+    --------
+    >>> e = drive_electrical_law(4, 2, [1000.0, 1500.0], [0.005, 0.01], 0.01, "2 f_e")
+    >>> round(float(e.frequency_at(1500.0)[0]), 4), round(e.coincidence_speed(e.frequency_at(1000.0)[0]), 6)
+    (101.0101, 1000.0)
+    """
+    n = as_si_array(speed, "speed", "speed", "positive")
+    s = as_si_array(slip, "slip", "ratio", "nonnegative")
+    if n.shape != s.shape or np.any(s >= 1.0):
+        raise InputValueError("slip: expected one slip in [0, 1) per speed")
+    order = electrical_order(poles, nominal_slip, multiple)
+    m = as_si(multiple, "multiple", "ratio", "positive")
+    frequency = m * int(poles) * n / (120.0 * (1.0 - s))
+    return Excitation(
+        label, order=order, kind="electrical", law=tuple(zip(n.tolist(), frequency.tolist(), strict=True))
+    )
 
 
 def permissible_unbalance(grade: object, rotor_mass: object, speed: object) -> float:

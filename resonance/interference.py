@@ -21,9 +21,11 @@ from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
 from typing import Literal
 
+import numpy as np
+
 from .errors import InputTypeError, InputValueError
 from .excitations import Excitation
-from .margins import ApiLateralRule, Location, MarginRule, Side, range_margin
+from .margins import ApiLateralRule, Location, MarginRule, Side, range_margin, range_margins
 from .modes import Mode
 from .rules import RuleSet, as_rule_set, is_flat
 from .speed_range import OperatingRange
@@ -341,14 +343,44 @@ class FindingsTable:
         )
 
 
-def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, rules: RuleSet) -> Finding:
+def _mode_findings(
+    mode: Mode, excitations: Sequence[Excitation], speed_range: OperatingRange, rules: RuleSet
+) -> list[Finding]:
+    # One mode against every excitation: the AF once, the order excitations' margins in one vectorized call.
     af = mode.amplification_factor
+    follow = [e for e in excitations if e.order is not None]
+    by_source: dict[int, tuple[float, float, Location, Side]] = {}
+    if follow:
+        speeds = np.array([float(e.coincidence_speeds(np.array(mode.frequency))) for e in follow])
+        lows, highs = np.array(speed_range.intervals, dtype=float).T
+        margins, locations, above = range_margins(speeds, lows, highs)
+        words: tuple[Location, ...] = ("below", "inside", "above")
+        for e, n, m, loc, up in zip(follow, speeds, margins, locations, above, strict=True):
+            by_source[id(e)] = (float(n), float(m), words[int(loc) + 1], "above" if bool(up) else "below")
+    required: dict[tuple[int, str], float] = {}  # one rule at one side asks the same of one mode
+    return [_finding(mode, e, speed_range, rules, af, by_source.get(id(e)), required) for e in excitations]
+
+
+def _finding(
+    mode: Mode,
+    excitation: Excitation,
+    speed_range: OperatingRange,
+    rules: RuleSet,
+    af: float | None = None,
+    order_margin: tuple[float, float, Location, Side] | None = None,
+    cache: dict[tuple[int, str], float] | None = None,
+) -> Finding:
+    af = mode.amplification_factor if af is None else af
     scoped = rules.rule_for(mode.kind, excitation.kind)  # type: ignore[arg-type]
     rule = scoped.rule
     if excitation.order is not None:
-        # For an order n the speed margin equals the frequency margin of f_n from the band n N / 60 sweeps.
-        speed = 60.0 * mode.frequency / excitation.order
-        margin, location, side = range_margin(speed, speed_range)
+        # For an order n the speed margin equals the frequency margin of f_n from the band n N / 60 sweeps; a
+        # source whose frequency follows a law (a slip that follows the load) is judged by its coincidence speed.
+        if order_margin is None:
+            speed = float(excitation.coincidence_speeds(np.array(mode.frequency)))
+            margin, location, side = range_margin(speed, speed_range)
+        else:
+            speed, margin, location, side = order_margin
         coincidence: float | None = speed
     else:
         fe = float(excitation.frequency)  # type: ignore[arg-type]
@@ -356,7 +388,13 @@ def _finding(mode: Mode, excitation: Excitation, speed_range: OperatingRange, ru
         side = "below" if mode.frequency < fe else "above"
         location = "inside" if margin == 0.0 else side
         coincidence = None
-    required = rule.required(max(af, 1.0), side)
+    key = (id(rule), side)
+    if cache is not None and key in cache:
+        required = cache[key]
+    else:
+        required = rule.required(max(af, 1.0), side)
+        if cache is not None:
+            cache[key] = required
     margin_words = "flat margin in frequency, both sides" if is_flat(rule) else f"margin from the AF ({mode.af_source})"
     damped = ""
     if scoped.damped is not None and af < scoped.damped.af_below:
@@ -475,7 +513,7 @@ def interference_check(
             "(build one with resonance.operating_range)"
         )
     rule_set = as_rule_set(rules)
-    return FindingsTable(tuple(_finding(m, e, speed_range, rule_set) for m in modes for e in excitations))
+    return FindingsTable(tuple(f for m in modes for f in _mode_findings(m, excitations, speed_range, rule_set)))
 
 
 def verdict_of(passed: bool, findings: FindingsTable) -> str:

@@ -1057,6 +1057,23 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
             }
             for k, ((label, _b, _p), (v, n, z)) in enumerate(zip(s.probes, result.peak_velocity, strict=True))
         ],
+        # Each probe's 1x response over the whole speed axis, so a reviewer can redraw it (SI; phase lag
+        # behind the unbalance force, whose t = 0 position the inputs name).
+        "response_curves": {
+            "speed_rpm": [float(x) for x in result.speed],
+            "probes": [
+                {
+                    "probe": label,
+                    "displacement_0_pk_m": np.abs(result.displacement[:, k, :]).round(15).tolist(),
+                    "phase_lag_deg": np.degrees(np.mod(-np.angle(result.displacement[:, k, :]), 2 * np.pi))
+                    .round(3)
+                    .tolist(),
+                    "velocity_rms_m_s": result.velocity_rms[:, k, :].round(12).tolist(),
+                    "axes": ["x", "y", "z"],
+                }
+                for k, (label, _b, _p) in enumerate(s.probes)
+            ],
+        },
         "tolerance_band": {
             "tolerance": s.tolerance,
             "combinations": [

@@ -22,10 +22,19 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 import tomli_w
 
 from .errors import InputTypeError, InputValueError
-from .excitations import EXCITATION_KINDS, Excitation, drive_electrical, line_frequency
+from .excitations import (
+    EXCITATION_KINDS,
+    SLIP_LOADS,
+    Excitation,
+    drive_electrical,
+    drive_electrical_law,
+    induction_slip,
+    line_frequency,
+)
 from .inputs import Sign, as_si, parse_quantity
 from .margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from .modes import MODE_KINDS
@@ -98,12 +107,43 @@ class MotorSpec:
     line_frequency: float | None
     multiples: tuple[float, ...] = ()
     multiples_given: bool = False
+    load: str = "constant slip"
+    rated_speed: float | None = None
+    slip_table: tuple[tuple[float, float], ...] = ()
+
+    @property
+    def slip_words(self) -> str:
+        """How the slip is taken, in words, for the record."""
+        if self.supply != "drive":
+            return "on the line: fixed frequencies"
+        if self.slip_table:
+            return (
+                "slip from [motor] slip_table against speed ("
+                + ", ".join(f"{s:g} at {n:g} rpm" for n, s in self.slip_table)
+                + "), held at its end values beyond it"
+            )
+        if self.load == "constant slip":
+            return f"constant slip {self.slip:g} (its value at the load of interest)"
+        return f"slip {self.slip:g} at {self.rated_speed:g} rpm, following a {self.load} load"
 
     def excitation(self, multiple: float, label: str | None = None) -> Excitation:
         """The electrical excitation at ``multiple`` x the electrical frequency."""
         if self.supply == "drive":
             assert self.poles is not None  # validated with the supply
-            return drive_electrical(self.poles, self.slip, multiple, label)
+            if self.load == "constant slip" and not self.slip_table:
+                return drive_electrical(self.poles, self.slip, multiple, label)
+            name = "f_e" if multiple == 1.0 else f"{multiple:g} f_e"
+            speeds = np.geomspace(1.0, 1e5, 401)  # wide enough for any machine; the law extends beyond it
+            if self.slip_table:
+                table = np.array(self.slip_table)
+                slips = np.interp(speeds, table[:, 0], table[:, 1])
+                detail, nominal = "slip from the table", float(table[-1, 1])
+            else:
+                assert self.rated_speed is not None  # validated with the load
+                slips = induction_slip(speeds, self.rated_speed, self.slip, self.load)  # type: ignore[arg-type]
+                detail, nominal = f"slip {self.slip:g} at {self.rated_speed:g} rpm, {self.load}", self.slip
+            text = label if label is not None else f"{name} (drive, {self.poles} poles, {detail})"
+            return drive_electrical_law(self.poles, multiple, speeds, slips, nominal, text)
         assert self.line_frequency is not None
         e = line_frequency(self.line_frequency, multiple)
         return e if label is None else dataclasses.replace(e, label=label)
@@ -124,6 +164,8 @@ class MotorSpec:
         why = "listed in [motor] electrical"
         if not self.multiples_given:
             why = f"checked by default for a {self.supply}-fed motor"
+        if self.supply == "drive":
+            why += f"; {self.slip_words}"
         return tuple(
             dataclasses.replace(self.excitation(m), source=f"[motor] ({self.supply}): {why}") for m in self.multiples
         )
@@ -386,7 +428,9 @@ def parse_motor(r: TableReader, data: Mapping[str, Any], checks: str = "lateral"
     """
     if not data:
         return None
-    r.known(data, ("supply", "poles", "slip", "line_frequency", "electrical"), "motor")
+    r.known(
+        data, ("supply", "poles", "slip", "line_frequency", "electrical", "load", "rated_speed", "slip_table"), "motor"
+    )
     supply = r.text(data, "supply", "motor.supply")
     if supply not in ("drive", "line"):
         raise r.fail("motor.supply", f"got {supply!r}; expected 'drive' or 'line'")
@@ -405,17 +449,50 @@ def parse_motor(r: TableReader, data: Mapping[str, Any], checks: str = "lateral"
         poles = r.integer(data, "poles", "motor.poles")
         if not 2 <= poles <= 96 or poles % 2:
             raise r.fail("motor.poles", f"got {poles!r}; expected an even whole number from 2 to 96")
+        if "slip_table" in data:
+            for key in ("slip", "load", "rated_speed"):
+                if key in data:
+                    raise r.fail(f"motor.{key}", "the slip_table gives the slip at every speed; remove it")
+            table = _slip_table(r, r.array(data, "slip_table", "motor.slip_table"))
+            return MotorSpec("drive", poles, table[-1][1], None, multiples, given, "table", None, table)
         if "slip" not in data:
             raise r.fail("motor.slip", "missing; expected the slip at the load of interest (0 for a synchronous motor)")
         slip = r.value(data["slip"], "motor.slip", "ratio", "nonnegative")
         if not slip < 0.2:
             raise r.fail("motor.slip", f"got {slip:g}; expected a fraction below 0.2 (1.3 % slip is 0.013)")
-        return MotorSpec("drive", poles, slip, None, multiples, given)
-    for key in ("poles", "slip"):
+        load = r.text(data, "load", "motor.load", "constant slip")
+        if load not in ("constant slip", *SLIP_LOADS):
+            raise r.fail("motor.load", f"got {load!r}; expected one of {['constant slip', *SLIP_LOADS]}")
+        rated = None
+        if load != "constant slip":
+            rated = r.quantity(data, "rated_speed", "motor.rated_speed", "speed", "positive")
+        elif "rated_speed" in data:
+            raise r.fail("motor.rated_speed", "a constant slip needs no rated speed; give load too, or remove it")
+        return MotorSpec("drive", poles, slip, None, multiples, given, load, rated)
+    for key in ("poles", "slip", "load", "rated_speed", "slip_table"):
         if key in data:
             raise r.fail(f"motor.{key}", "not used for a motor on the line; remove it")
     f = r.quantity(data, "line_frequency", "motor.line_frequency", "frequency", "positive")
     return MotorSpec("line", None, 0.0, f, multiples, given)
+
+
+def _slip_table(r: TableReader, raw: list[Any]) -> tuple[tuple[float, float], ...]:
+    # [[speed, slip], ...]: speeds increasing, slips in [0, 0.2).
+    rows: list[tuple[float, float]] = []
+    for i, row in enumerate(raw):
+        field = f"motor.slip_table[{i}]"
+        if not isinstance(row, list) or len(row) != 2:
+            raise r.fail(field, f'got {row!r}; expected [speed, slip], e.g. ["1500 rpm", 0.012]')
+        n = r.value(row[0], f"{field}[0]", "speed", "positive")
+        s = r.value(row[1], f"{field}[1]", "ratio", "nonnegative")
+        if not s < 0.2:
+            raise r.fail(f"{field}[1]", f"got {s:g}; expected a fraction below 0.2")
+        if rows and not n > rows[-1][0]:
+            raise r.fail(f"{field}[0]", f"got {n:g} rpm; expected speeds in increasing order")
+        rows.append((n, s))
+    if len(rows) < 2:
+        raise r.fail("motor.slip_table", "expected two or more [speed, slip] rows")
+    return tuple(rows)
 
 
 def parse_excitations(
@@ -855,8 +932,13 @@ def motor_table(motor: MotorSpec) -> dict[str, Any]:
     Nothing
         Any motor is written.
     """
-    listed = {"electrical": list(motor.multiples)} if motor.multiples_given else {}
+    listed: dict[str, Any] = {"electrical": list(motor.multiples)} if motor.multiples_given else {}
     if motor.supply == "drive":
+        if motor.slip_table:
+            table = [[f"{n!r} rpm", s] for n, s in motor.slip_table]
+            return {"supply": "drive", "poles": motor.poles, "slip_table": table, **listed}
+        if motor.load != "constant slip":
+            listed.update(load=motor.load, rated_speed=f"{motor.rated_speed!r} rpm")
         return {"supply": "drive", "poles": motor.poles, "slip": motor.slip, **listed}
     return {"supply": "line", "line_frequency": f"{motor.line_frequency!r} Hz", **listed}
 

@@ -979,7 +979,7 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
             for m, sh in zip(result.modes, result.shapes, strict=True)
         ],
         "findings": result.findings.to_records(),
-        "forced_response": _forced_record(result.torque),
+        "forced_response": _forced_record(result.torque, train, result.modes),
         "verdict": result.verdict,
         "cautions": CAUTION,
     }
@@ -1015,19 +1015,46 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
     return Record(data, "\n".join(lines))
 
 
-def _forced_record(torque: TorqueSweep | None) -> dict[str, Any] | None:
-    # The forced response in SI for the JSON record.
+def _forced_record(torque: TorqueSweep | None, train: TorsionalTrain, modes: tuple[Mode, ...]) -> dict[str, Any] | None:
+    # The forced response in SI for the JSON record: the curves over the speeds, each element's torque at every
+    # coincidence of a case's excitation with a mode, and the shaft each torque is on.
     if torque is None:
         return None
+    shaft_of = _element_shafts(train)
+    coincidences = []
+    for j, case in enumerate(torque.cases):
+        for mode in modes:
+            n_c = case.excitation.coincidence_speed(mode.frequency)
+            if n_c is None or not np.any(np.isclose(torque.speed, n_c, rtol=1e-12)):
+                continue
+            i = int(np.argmin(np.abs(torque.speed - n_c)))
+            coincidences.append(
+                {
+                    "case": case.label,
+                    "mode": mode.label,
+                    "speed_rpm": float(torque.speed[i]),
+                    "element_torque_n_m": {label: float(v[j, i]) for label, v in torque.element_torque.items()},
+                }
+            )
     return {
         "cases": [
             {"label": c.label, "station": c.station, "excitation": c.excitation.label, "torque_n_m": c.torque}
             for c in torque.cases
         ],
         "speed_rpm": [float(torque.speed[0]), float(torque.speed[-1])] if torque.speed.size else [],
+        "curves": {
+            "speed_rpm": [float(x) for x in torque.speed],
+            "element_torque_n_m": {
+                label: {"shaft": shaft_of.get(label, ""), "per_case": values.round(9).tolist()}
+                for label, values in torque.element_torque.items()
+            },
+            "shear_stress_pa": {label: values.round(3).tolist() for label, values in torque.shear_stress.items()},
+        },
+        "at_coincidences": coincidences,
         "elements": [
             {
                 "element": row.element,
+                "shaft": shaft_of.get(row.element, ""),
                 "peak_torque_n_m": row.peak_torque,
                 "at_speed_rpm": row.speed,
                 "peak_shear_stress_pa": row.peak_stress,
@@ -1040,6 +1067,15 @@ def _forced_record(torque: TorqueSweep | None) -> dict[str, Any] | None:
         ],
         "passed": torque.passed,
     }
+
+
+def _element_shafts(train: TorsionalTrain) -> dict[str, str]:
+    # The shaft each element's torque is on, in words (a mesh's torque is on its pinion's shaft).
+    shaft_of = {st.name: st.shaft for st in train.stations}
+    out = {label: f"shaft {shaft_of[a]!r}" for label, a, _b, _k in train.elements if not label.startswith("mesh ")}
+    for m in train.meshes:
+        out[f"mesh {m.gear}-{m.pinion}"] = f"shaft {shaft_of[m.pinion]!r} (the pinion's)"
+    return out
 
 
 def _forced_lines(result: TorsionStudyResult, system: UnitSystem) -> list[str]:
@@ -1060,8 +1096,10 @@ def _forced_lines(result: TorsionStudyResult, system: UnitSystem) -> list[str]:
             f"{c.excitation.label}"
             for c in torque.cases
         ),
-        f"  {'element':<28}{'peak torque':>16}{'at rpm':>9}{'stress':>14}{'allowable':>26}{'use':>7}  status",
+        f"  {'element':<28}{'peak torque':>16}{'at rpm':>9}{'stress':>14}{'allowable':>26}{'use':>7}  status"
+        "  (torque on)",
     ]
+    shaft_of = _element_shafts(result.scenario.train)
     for row in torque.rows:
         allowed = " / ".join(
             x
@@ -1075,6 +1113,7 @@ def _forced_lines(result: TorsionStudyResult, system: UnitSystem) -> list[str]:
         lines.append(
             f"  {row.element:<28}{value(row.peak_torque, t_factor, t_unit):>16}{row.speed:>9.0f}"
             f"{value(row.peak_stress, p_factor, p_unit):>14}{allowed or '-':>26}{use:>7}  {row.status}"
+            f"  ({shaft_of.get(row.element, '-')})"
         )
     if not result.findings.passed and torque.passed:
         lines.append(

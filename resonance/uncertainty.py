@@ -55,6 +55,7 @@ from .tables import TableReader
 from .variants import VariantFindings, evaluate_variants
 
 __all__ = [
+    "FACTOR_RANGE",
     "CHUNK",
     "UncertainInput",
     "UncertaintyResult",
@@ -72,6 +73,11 @@ Sampling = Literal["lhs", "sobol"]
 
 #: Samples per chunk of work (fixed, so a result never depends on the executor).
 CHUNK = 2048
+
+
+#: The factors an uncertain input may take on its nominal value: far wider than any real scatter, they catch
+#: a typing error (a factor of 1e300 makes the eigen-solver fail) before the study runs.
+FACTOR_RANGE = (1e-3, 1e3)
 
 
 @dataclass(frozen=True)
@@ -292,8 +298,16 @@ def uncertainty_spec(
         raise r.fail("uncertainty.inputs", f"{names} names an input twice; expected each at most once")
     spec = UncertaintySpec(tuple(inputs), samples, sampling, seed, limit)  # type: ignore[arg-type]
     # The extremes must make a valid scenario (a damping ratio below 1, a speed range that stays a range).
+    extremes = sample_inputs(spec)
+    for j, x in enumerate(spec.inputs):
+        low, high = float(extremes[:, j].min()), float(extremes[:, j].max())
+        if not (FACTOR_RANGE[0] <= low and high <= FACTOR_RANGE[1]):
+            raise r.fail(
+                f"uncertainty.inputs[{j}]",
+                f"{x.vary}: its factors reach {low:.3g} to {high:.3g}; expected factors from {FACTOR_RANGE[0]:g} to "
+                f"{FACTOR_RANGE[1]:g} of the nominal value (narrow the distribution or give bounds)",
+            )
     try:
-        extremes = sample_inputs(spec)
         evaluate_chunk(scenario, spec.inputs, np.vstack([extremes.min(axis=0), extremes.max(axis=0)]))
     except InputValueError as error:
         raise r.fail("uncertainty.inputs", str(error)) from None

@@ -135,7 +135,7 @@ def evaluate_variants(
     for j, e in enumerate(scenario.excitations):
         if e.order is not None:
             # The same arithmetic as the interference check: the coincidence speed's margin from the range.
-            critical = 60.0 * modes.frequency / e.order
+            critical = e.coincidence_speeds(modes.frequency)
             margin[:, :, j] = range_margins(critical, lows[:, None, :], highs[:, None, :])[0]
         else:
             fe = float(e.frequency)  # type: ignore[arg-type]

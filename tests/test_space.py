@@ -380,3 +380,24 @@ def test_the_unbalance_turns_with_the_rotor_and_sits_along_e1_at_time_zero():
         assert_allclose([x[0], y[0]], radius * e1[:2], atol=1e-12 * radius)
         assert_allclose([x[2], y[2]], radius * e2[:2], atol=1e-12 * radius)
         assert np.all(x * np.gradient(y) - y * np.gradient(x) > 0)  # counterclockwise seen from +z
+
+
+def test_a_rectangular_footing_slides_more_stiffly_across_its_long_side():
+    # Gazetas (1991), J. Geotech. Eng. 117(9), table 1, surface footings (from memory): across the long side
+    # K_y = 2 G L (2 + 2.5 chi^0.85) / (2 - nu), along it K_x = K_y - 0.2 G L (1 - B / L) / (0.75 - nu),
+    # chi = B / L. Checks: a square gives one value, within 1 % of Gazetas' circle of equal area 8 G r / (2 - nu);
+    # the long side along x or along y swaps the two; the footing impedance uses them.
+    from resonance.soil import footing_impedance, rectangular_sliding_stiffness
+
+    g, nu = 70e6, 0.33
+    kx, ky = rectangular_sliding_stiffness(g, nu, 4.0, 4.0)
+    assert kx == ky
+    assert_allclose(kx, 8 * g * math.sqrt(16 / math.pi) / (2 - nu), rtol=1e-2)
+    along, across = rectangular_sliding_stiffness(g, nu, 5.0, 3.6)
+    lateral = 2 * g * 2.5 * (2 + 2.5 * (1.8 / 2.5) ** 0.85) / (2 - nu)
+    assert_allclose(across, lateral, rtol=1e-12)
+    assert_allclose(along, lateral - 0.2 * g * 2.5 * (1 - 1.8 / 2.5) / (0.75 - nu), rtol=1e-12)
+    assert across > along
+    assert rectangular_sliding_stiffness(g, nu, 3.6, 5.0) == (across, along)
+    footing = footing_impedance(g, nu, 1900.0, 5e4, 4e4, 6e4, 8e4, width_x=5.0, width_y=3.6)
+    assert_allclose([footing.x.stiffness, footing.y.stiffness], [along, across], rtol=1e-12)  # no embedment

@@ -267,3 +267,17 @@ def test_section_properties_and_rotational_damping_take_units():
     assert_allclose([b.area, b.iy, b.iz, b.torsion_constant], [4e-3, 120 * 0.0254**4, 80 * 0.0254**4, 2e-8], rtol=1e-12)
     with pytest.raises(InputTypeError, match=r"area: got 0\.78 %, which is not a area"):
         Beam("girder", "a", "b", 210e9, 80e9, 7850.0, q(0.78, "%"), 1e-5, 1e-5, 1e-6)
+
+
+def test_the_json_record_gives_each_probe_over_the_whole_speed_range(tmp_path):
+    out = tmp_path / "r.json"
+    assert main(["check", str(DEMO), "--json", str(out)]) == 1
+    data = json.loads(out.read_text())
+    curves = data["response_curves"]
+    speeds = np.array(curves["speed_rpm"])
+    assert speeds.size > 200
+    for row, probe in zip(data["vibration"], curves["probes"], strict=True):
+        assert probe["probe"] == row["probe"]
+        v = np.array(probe["velocity_rms_m_s"]).max(axis=1)
+        running = (speeds >= 980.0) & (speeds <= 1480.0)
+        assert_allclose(v[running].max(), row["velocity_rms_m_s"], rtol=1e-9)  # the peak the record reports

@@ -60,7 +60,9 @@ def test_a_motor_table_alone_checks_twice_the_electrical_frequency_of_a_drive():
         "12 f_e (drive, 4 poles)",
     }
     sources = {e.label: e.source for e in result.scenario.excitations}
-    assert sources["2 f_e (drive, 4 poles)"] == "[motor] (drive): checked by default for a drive-fed motor"
+    assert sources["2 f_e (drive, 4 poles)"] == (
+        "[motor] (drive): checked by default for a drive-fed motor; constant slip 0 (its value at the load of interest)"
+    )
 
 
 def test_the_multiples_listed_in_the_motor_table_are_the_ones_checked():
@@ -68,7 +70,7 @@ def test_the_multiples_listed_in_the_motor_table_are_the_ones_checked():
     result = run_torsion_study(parse_torsion_scenario(tables, "t.toml"))
     electrical = [e for e in result.scenario.excitations if e.kind == "electrical"]
     assert [e.label for e in electrical] == ["f_e (drive, 4 poles)"]
-    assert electrical[0].source == "[motor] (drive): listed in [motor] electrical"
+    assert electrical[0].source.startswith("[motor] (drive): listed in [motor] electrical; constant slip 0")
     assert result.verdict == "PASS"  # f_e = 2 n / 60 meets 108 Hz at 3240 rpm, far above the range
 
 
@@ -221,3 +223,89 @@ def test_gear_teeth_give_the_ratio_and_orders_of_any_shaft_are_checked():
     lobe = next(e for e in scenario.excitations if e.label == "lobe pass")
     assert_allclose(lobe.order, 4 * 3.2, rtol=1e-12)  # 4x the high-speed shaft, in driver orders
     assert lobe.source.startswith("torsion.shaft_excitations[0]")
+
+
+def test_the_torque_record_gives_curves_coincidences_and_the_shaft_of_each_torque(tmp_path):
+    # A two-inertia train whose mode sits inside the range against 1x: the record gives every element's torque
+    # at that coincidence, equal to the closed-form steady torque of the coupling there (Rao sec. 6.10: a
+    # torque T on J1 at w gives the spring torque k |theta1 - theta2| with the modal damping as given).
+    import json
+
+    from resonance.torsion_study import build_torsion_record
+
+    f_n = 22.0  # Hz: 1x at 1320 rpm, inside 1200-1500 rpm
+    tables = _two_inertia(f_n, {"supply": "drive", "poles": 4, "slip": 0.0, "electrical": [2]})
+    tables["torsion"]["damping_ratio"] = 0.05
+    tables["torsion"]["forcing"] = [
+        {"label": "runout", "station": "motor", "excitation": "1x driver shaft", "torque": "10 N*m"}
+    ]
+    result = run_torsion_study(parse_torsion_scenario(tables, "t.toml"))
+    data = json.loads(json.dumps(build_torsion_record(result).data))
+    forced = data["forced_response"]
+    curves = forced["curves"]
+    assert curves["element_torque_n_m"]["c"]["shaft"] == "shaft 'driver'"
+    assert forced["elements"][0]["shaft"] == "shaft 'driver'"
+    peak = max(curves["element_torque_n_m"]["c"]["per_case"][0])
+    assert_allclose(peak, forced["elements"][0]["peak_torque_n_m"], rtol=1e-9)
+    (at,) = forced["at_coincidences"]
+    assert_allclose(at["speed_rpm"], 60 * f_n, rtol=1e-12)
+    # Closed form at resonance: the modal coordinate's amplification 1 / (2 zeta) on the static twist of the
+    # free-free pair under T on J1: spring torque T J2 / (J1 + J2) / (2 zeta).
+    assert_allclose(at["element_torque_n_m"]["c"], 10.0 * J2 / (J1 + J2) / (2 * 0.05), rtol=1e-6)
+
+
+@pytest.mark.parametrize("load", ["constant torque", "quadratic torque"])
+def test_a_slip_that_follows_the_load_moves_the_coincidence_speed(load):
+    # f_e = p n / (120 (1 - s(n))) with the slip speed D = n_s - n constant (constant torque) or growing as n^2
+    # (fans and pumps) from D_r = s_r n_r / (1 - s_r) (Fitzgerald et al., Electric Machinery, 6th ed., ch. 6
+    # and 11: torque proportional to slip speed at constant V/f, from memory). The coincidence of 2 f_e with
+    # the mode is solved here independently by Brent's method on that closed form.
+    import scipy.optimize
+
+    s_r, n_r, p, f_n = 0.02, 1500.0, 4, 108.0
+    d_r = s_r * n_r / (1 - s_r)
+
+    def two_fe(n: float) -> float:
+        d = d_r if load == "constant torque" else d_r * (n / n_r) ** 2
+        return 2 * p * (n + d) / 120.0
+
+    n_c = scipy.optimize.brentq(lambda n: two_fe(n) - f_n, 100.0, 5000.0, xtol=1e-10)
+    motor = {"supply": "drive", "poles": p, "slip": s_r, "load": load, "rated_speed": f"{n_r:g} rpm", "electrical": [2]}
+    result = run_torsion_study(parse_torsion_scenario(_two_inertia(f_n, motor), "t.toml"))
+    row = next(r for r in result.findings if r.excitation.kind == "electrical")
+    assert_allclose(row.coincidence_speed, n_c, rtol=1e-6)
+    assert_allclose(row.margin, 100 * (n_c - 1500.0) / 1500.0, rtol=1e-5)  # API 684 form, from memory
+    assert f"slip {s_r:g} at 1500 rpm, following a {load} load" in row.excitation.source
+    constant_slip = {"supply": "drive", "poles": p, "slip": s_r, "electrical": [2]}
+    constant = run_torsion_study(parse_torsion_scenario(_two_inertia(f_n, constant_slip), "t.toml"))
+    fixed_slip = next(r for r in constant.findings if r.excitation.kind == "electrical")
+    assert_allclose(fixed_slip.coincidence_speed, 60 * f_n * (1 - s_r) / (2 * p / 2), rtol=1e-9)
+    assert fixed_slip.coincidence_speed != pytest.approx(row.coincidence_speed, rel=1e-4)
+
+
+def test_a_slip_table_gives_the_slip_at_each_speed():
+    table = [["1200 rpm", 0.006], ["1500 rpm", 0.012]]
+    motor = {"supply": "drive", "poles": 4, "slip_table": table, "electrical": [2]}
+    scenario = parse_torsion_scenario(_two_inertia(108.0, motor), "t.toml")
+    e = next(x for x in scenario.excitations if x.kind == "electrical")
+    for n, s in ((1200.0, 0.006), (1350.0, 0.009), (1500.0, 0.012)):
+        assert_allclose(e.frequency_at(n)[0], 2 * 4 * n / (120 * (1 - s)), rtol=2e-4)  # interpolated slip
+    assert "slip from [motor] slip_table against speed" in e.source
+
+
+@pytest.mark.parametrize(
+    ("motor", "message"),
+    [
+        ({"load": "constant torque"}, r"motor\.rated_speed: missing"),
+        ({"load": "fan law", "rated_speed": "1500 rpm"}, r"motor\.load: got 'fan law'"),
+        ({"rated_speed": "1500 rpm"}, r"motor\.rated_speed: a constant slip needs no rated speed"),
+        ({"slip_table": [["1500 rpm", 0.01], ["1200 rpm", 0.006]]}, r"motor\.slip_table\[1\]\[0\]: got 1200 rpm"),
+        ({"slip_table": [["1500 rpm", 0.01]]}, r"motor\.slip_table: expected two or more"),
+    ],
+)
+def test_bad_slip_laws_are_refused(motor, message):
+    base = {"supply": "drive", "poles": 4, "slip": 0.01}
+    if "slip_table" in motor:
+        base.pop("slip")
+    with pytest.raises(ScenarioError, match=rf"^t\.toml: {message}"):
+        parse_torsion_scenario(_two_inertia(108.0, {**base, **motor}), "t.toml")

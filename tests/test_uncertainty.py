@@ -186,6 +186,14 @@ def test_executor_choices_and_refusals():
             lambda u: u["inputs"].append({"vary": "mass:machine", "distribution": "uniform", "low": 0.9, "high": 1.1}),
             r"uncertainty\.inputs: .* names an input twice",
         ),
+        # A typing error of a factor (1e300) used to end in the eigen-solver's LinAlgError.
+        (
+            lambda u: u["inputs"][1].update(low=1.0, high=1e300),
+            r"uncertainty\.inputs\[1\]: spring:\w+: its factors reach .* expected factors from 0\.001 to 1000",
+        ),
+        (lambda u: u.update(inputs=[]), r"uncertainty\.inputs: empty; expected at least one uncertain input"),
+        (lambda u: u.update(sampling="mc"), r"uncertainty\.sampling: got 'mc'; expected 'lhs' or 'sobol'"),
+        (lambda u: u["inputs"][0].update(distribution="gamma"), r"uncertainty\.inputs\[0\]\.distribution: got 'gamma'"),
     ],
 )
 def test_bad_uncertainty_tables_name_the_file_and_field(booster, edit, message):
@@ -351,3 +359,17 @@ def test_a_failing_support_record_says_what_would_fix_it():
     assert check_scaled(booster, ks, km).passed
     assert "WHAT WOULD FIX IT" in outcome.record.text
     assert "fixes" not in run_scenario_file(SCENARIOS / "fan_rotor.toml").record.data  # passes: nothing to fix
+
+
+def test_an_empty_uncertainty_table_is_refused_not_skipped():
+    from pathlib import Path
+
+    from resonance.scenario import parse_scenario
+    from resonance.tables import read_scenario_file
+
+    tables = read_scenario_file(
+        Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "feed_pump_foundation.toml"
+    )
+    tables["uncertainty"] = {}
+    with pytest.raises(ScenarioError, match=r"^b\.toml: uncertainty: empty; give its inputs"):
+        parse_scenario(tables, "b.toml")

@@ -134,6 +134,7 @@ class Disc:
     label: str = "disc"
 
     def __post_init__(self) -> None:
+        _station(self.station, f"disc {self.label!r}")
         _convert(self, "mass", "mass", "positive")
         _convert(self, "polar_inertia", "inertia", "nonnegative")
         _convert(self, "diametral_inertia", "inertia", "nonnegative")
@@ -209,6 +210,7 @@ class Bearing:
     tilt_stiffness: float = 0.0
 
     def __post_init__(self) -> None:
+        _station(self.station, f"bearing {self.label!r}")
         # Quantities (SI or US) become floats in the package convention here, so no later step strips a unit.
         for name in ("kxx", "kyy", "kxy", "kyx", "cxx", "cyy", "cxy", "cyx"):
             kind: QuantityKind = "stiffness" if name[0] == "k" else "damping"
@@ -336,6 +338,12 @@ def _positive(value: float, name: str, kind: QuantityKind) -> float:
     return as_si(value, name, kind, "positive")
 
 
+def _station(station: object, where: str) -> None:
+    # A station is a whole number (not text, not 1.5): an index into the shaft's stations.
+    if isinstance(station, bool) or not isinstance(station, (int, np.integer)):
+        raise InputTypeError(f"{where}: station: got {station!r}; expected a whole number (0 at the left end)")
+
+
 def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearings: Sequence[Bearing]) -> Rotor:
     """Assemble a rotor from shaft sections, discs and bearings.
 
@@ -360,6 +368,16 @@ def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearing
         with no bearing (free-floating), a coefficient table that does not
         match its speeds, or a negative direct stiffness.
     """
+    for name, items, kind in (
+        ("sections", sections, ShaftSection),
+        ("discs", discs, Disc),
+        ("bearings", bearings, Bearing),
+    ):
+        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
+            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
+        for i, item in enumerate(items):
+            if not isinstance(item, kind):
+                raise InputTypeError(f"{name}[{i}]: got {item!r}; expected a {kind.__name__}")
     if not sections:
         raise InputValueError("sections: got none; expected at least one shaft section")
     lengths: list[float] = []

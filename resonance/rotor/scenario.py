@@ -311,6 +311,9 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     title, description, units = parse_head(r, data)
     speed = parse_speed(r, r.table(data, "speed", "speed"))
     motor = parse_motor(r, r.table(data, "motor", "motor", required=False))
+    if motor is not None and (motor.load != "constant slip" or motor.slip_table):
+        field = "motor.slip_table" if motor.slip_table else "motor.load"
+        raise r.fail(field, "the rotor flow takes a constant slip (its critical speeds follow orders); give slip alone")
     rotor = r.table(data, "rotor", "rotor")
     r.known(rotor, ("sweep_max", "modes", "probes", "sections", "discs", "bearings", "unbalance"), "rotor")
     sections = []

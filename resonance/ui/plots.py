@@ -347,7 +347,8 @@ def update_interference_figure(
             )
     log = fig.layout.yaxis.type == "log"
     # On a log axis an order line is a curve and 0 Hz is off the axis: draw it through many positive speeds.
-    x_line = np.linspace(x_max / 100.0, x_max, 100) if log else np.array([0.0, x_max])
+    curved = log or any(e.law for e in result.scenario.excitations)  # a slip that follows the load bends a line
+    x_line = np.linspace(x_max / 100.0, x_max, 100) if curved else np.array([0.0, x_max])
     with fig.batch_update():
         for i, excitation in enumerate(result.scenario.excitations):
             fig.data[i].update(x=x_line, y=excitation.frequency_at(x_line) * f_factor)
