@@ -78,9 +78,9 @@ class Beam:
             object.__setattr__(self, name, as_si(getattr(self, name), f"{where}: {name}", kind, "positive"))  # type: ignore[arg-type]
         if self.up is not None:
             up = as_si_array(self.up, f"{where}: up", "ratio")
-            if up.shape != (3,) or not np.linalg.norm(up) > 0.0:
+            if up.shape != (3,) or not np.any(up != 0.0):
                 raise InputValueError(f"{where}: up: expected a non-zero direction (three components)")
-            object.__setattr__(self, "up", up)
+            object.__setattr__(self, "up", up / np.max(np.abs(up)))  # a direction: scaled, so it cannot overflow
         if self.node_a == self.node_b:
             raise InputValueError(f"{where}: joins node {self.node_a!r} to itself")
 

@@ -735,10 +735,11 @@ def unbalance_reference(axis: object) -> tuple[np.ndarray, np.ndarray]:
     ([0.0, 1.0, 0.0], [-1.0, 0.0, 0.0])
     """
     n = _vector(axis, "axis", "ratio")
-    length = float(np.linalg.norm(n))
-    if not length > 0.0:
+    largest = float(np.max(np.abs(n)))
+    if not largest > 0.0:
         raise InputValueError("axis: got a zero vector; expected the shaft direction")
-    n = n / length
+    n = n / largest  # a direction: scaled first, so that 1e300 components do not overflow the length
+    n = n / float(np.linalg.norm(n))
     helper = np.eye(3)[int(np.argmin(np.abs(n)))]
     e1 = np.cross(n, helper)
     e1 /= np.linalg.norm(e1)

@@ -618,7 +618,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
         if not isinstance(axis_raw, list) or len(axis_raw) != 3:
             raise r.fail(f"{field}.axis", f"got {axis_raw!r}; expected the shaft direction [x, y, z]")
         axis = np.array([r.value(v, f"{field}.axis[{k}]", "ratio") for k, v in enumerate(axis_raw)])
-        if not np.linalg.norm(axis) > 0.0:
+        if not np.any(axis != 0.0):
             raise r.fail(f"{field}.axis", "got a zero vector; expected the shaft direction")
         unbalance.append(
             (r.text(item, "body", f"{field}.body"), _point(r, item.get("point"), f"{field}.point"), axis, amount)

@@ -534,8 +534,16 @@ def critical_speeds(
                 ) -> float:
                     return branch_mode(speed)[0] - order * speed / 60.0
 
-                speed = scipy.optimize.brentq(residual, data.speed[i], data.speed[i + 1], xtol=1e-9, rtol=1e-12)
-                f, z = branch_mode(speed)
+                try:
+                    speed = scipy.optimize.brentq(residual, data.speed[i], data.speed[i + 1], xtol=1e-9, rtol=1e-12)
+                    f, z = branch_mode(speed)
+                except ValueError:
+                    # The re-solved branch does not cross inside the bracket (two modes that swap between the
+                    # grid speeds): take the crossing of the tracked branch, linear between its grid points.
+                    t = float(g[i] / (g[i] - g[i + 1]))
+                    speed = float(data.speed[i] + t * (data.speed[i + 1] - data.speed[i]))
+                    f = order * speed / 60.0
+                    z = float(data.damping_ratio[i, b] + t * (data.damping_ratio[i + 1, b] - data.damping_ratio[i, b]))
                 out.append(CriticalSpeed(float(order), b, float(speed), f, z, data.whirl[b]))
     return sorted(out, key=lambda c: c.speed)
 

@@ -113,7 +113,7 @@ def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: Uni
         fig.layout.shapes = vertical_bands(result.scenario.speed.intervals, OPERATING, (1,))
         # Show what the orders can reach: twice the highest order line at the end of the sweep.
         top_order = max((e.order for e in result.scenario.excitations if e.order is not None), default=1.0)
-        y_max = max(2.0 * top_order * x_max / 60.0, *(1.1 * c.frequency for c in result.criticals))
+        y_max = max((2.0 * top_order * x_max / 60.0, *(1.1 * c.frequency for c in result.criticals)))
         fig.layout.yaxis.range = [0.0, y_max * f_factor]
         fig.layout.yaxis.title.text = f"whirl frequency [{f_unit}]"
 
