@@ -397,7 +397,8 @@ def _finding(
             cache[key] = required
     margin_words = "flat margin in frequency, both sides" if is_flat(rule) else f"margin from the AF ({mode.af_source})"
     damped = ""
-    if scoped.damped is not None and af < scoped.damped.af_below:
+    if scoped.damped is not None and af < scoped.damped.af_below and margin < required:
+        # Only where separation falls short: a heavily damped mode that meets the margin simply passes.
         required = 0.0
         damped = (
             f"heavily damped (AF {af:.2f} < {scoped.damped.af_below:g}, {mode.af_source}): judged by the predicted "

@@ -135,7 +135,14 @@ def excitation_rows(excitations: Sequence[Excitation]) -> list[dict[str, Any]]:
         Pure data.
     """
     return [
-        {"label": e.label, "kind": e.kind, "order": e.order, "frequency_hz": e.frequency, "source": e.source or "given"}
+        {
+            "label": e.label,
+            "kind": e.kind,
+            "order": e.order,
+            "frequency_hz": e.frequency,
+            "source": e.source or "given",
+            **({"law_speed_rpm_frequency_hz": [list(p) for p in e.law]} if e.law else {}),
+        }
         for e in excitations
     ]
 
@@ -163,6 +170,8 @@ def excitation_lines(excitations: Sequence[Excitation], speed_of: str = "running
     lines = [f"  excitations checked ({len(excitations)}; orders of {speed_of}):"]
     for e in excitations:
         value = f"{e.order:.6g}x" if e.order is not None else f"{e.frequency:.6g} Hz fixed"
+        if e.law:
+            value += " at the rated slip; the frequency follows the slip's law"
         lines.append(f"    - {e.label} [{e.kind}, {value}]: {e.source or 'given'}")
     return lines
 

@@ -103,8 +103,9 @@ class DampedModeRule:
     with radiation damping of 0.2 to 0.7 of critical is the usual case. The trade judges such a mode by the
     predicted amplitude at the machine against the vibration limit (common practice; ACI 351.3R discusses
     both criteria, from memory), as API RP 684 asks no separation margin of a rotor mode with AF < 2.5
-    (from memory). Its findings are ``EXEMPT`` from the margin and carry the amplitude criterion; a study
-    that cannot evaluate the amplitude must not use this rule, and a failing amplitude fails the finding.
+    (from memory). Where such a mode falls short of the separation margin, its finding is ``EXEMPT`` from it
+    and carries the amplitude criterion (a mode that meets the margin simply passes); a study that cannot
+    evaluate the amplitude must not use this rule, and a failing amplitude fails the finding.
 
     Attributes
     ----------

@@ -13,7 +13,6 @@ from __future__ import annotations
 import copy
 import math
 
-import numpy as np
 import pytest
 import scipy.optimize
 from numpy.testing import assert_allclose
@@ -132,4 +131,9 @@ def test_the_block_on_soil_demo_judges_its_radiation_damped_modes_by_amplitude()
     assert all(f.mode.amplification_factor < 2.5 for f in damped)
     assert all(f.verdict == "EXEMPT" and "mm/s RMS" in f.exemption for f in damped)
     assert all("(block: " in f.mode.label for f in damped)  # the block's modes on the soil
-    assert np.all([f.mode.amplification_factor >= 2.5 for f in result.findings if not f.damped])
+    # A mode judged by separation is either one that amplifies, or a damped one that meets the margin anyway.
+    for f in result.findings:
+        if not f.damped:
+            assert f.mode.amplification_factor >= 2.5 or f.margin >= f.required_margin
+    for f in damped:
+        assert f.margin < 15.0  # the exemption is used only where the flat 15 % falls short

@@ -74,3 +74,15 @@ def test_a_fixed_speed_panel_opens(tmp_path):
     panel = single_mode_panel(scenario)
     assert "FAIL" in panel.verdict.value
     assert WhatIfPanel(scenario).result.verdict == "FAIL"
+
+
+def test_a_fixed_speed_is_drawn_as_a_line_on_the_diagrams(tmp_path):
+    # Common practice: a fixed-speed machine's operating "range" is one speed; a band of no width would vanish.
+    from resonance.scenario import load_scenario
+    from resonance.study import run_study
+    from resonance.ui.plots import interference_figure
+
+    result = run_study(load_scenario(_fixed("cooling_water_pump.toml", tmp_path, 1200.0)))
+    shapes = [s for s in interference_figure(result).layout.shapes if s.x0 == s.x1 == 1200.0]
+    assert shapes
+    assert shapes[0].line.width == 2

@@ -116,7 +116,12 @@ def vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequ
                     "y0": 0,
                     "y1": 1,
                     "fillcolor": colour,
-                    "line_width": 0,
+                    # A fixed speed is a band of no width: drawn as a line of the band's colour, made opaque.
+                    **(
+                        {"line": {"color": colour.rsplit(",", 1)[0] + ", 0.9)", "width": 2}}
+                        if low == high
+                        else {"line_width": 0}
+                    ),
                     "layer": "below",
                 }
             )
