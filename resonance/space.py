@@ -428,21 +428,27 @@ def space_model(
     InputTypeError
         An item of the wrong type.
     """
-    attached = dict(attached or {})
-    if not bodies and not nodes:
-        raise InputValueError("bodies: got none; expected at least one rigid body or frame node")
     for name, items, kind in (
         ("bodies", bodies, RigidBody),
         ("mounts", mounts, Mount),
         ("nodes", nodes, FrameNode),
         ("beams", beams, Beam),
     ):
+        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
+            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
         for i, item in enumerate(items):
             if not isinstance(item, kind):
                 raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
+    attached = dict(attached or {})
+    if not bodies and not nodes:
+        raise InputValueError("bodies: got none; expected at least one rigid body or frame node")
     names = [b.name for b in bodies] + [n.name for n in nodes]
     if len(set(names)) != len(names):
         raise InputValueError(f"bodies/nodes: names {names} repeat; expected unique names")
+    element_labels = [m.label for m in mounts] + [b.label for b in beams]
+    repeated = sorted({x for x in element_labels if element_labels.count(x) > 1})
+    if repeated:
+        raise InputValueError(f"mounts/beams: label {repeated[0]!r} is used twice; expected a label of its own")
     node_at = {n.name: n for n in nodes}
     for body, node in attached.items():
         if body not in [b.name for b in bodies] or node not in node_at:

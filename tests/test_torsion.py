@@ -594,6 +594,14 @@ def test_a_train_written_in_us_units_gives_the_si_answers():
             lambda t: t.replace('between = ["hub", "bull gear"]', 'between = ["hub", "gone"]'),
             "torsion.shafts/couplings",
         ),
+        # A coupling from a station to itself once vanished with its mode (FAIL became PASS, exit 0).
+        (
+            lambda t: t.replace('between = ["hub", "bull gear"]', 'between = ["hub", "hub"]'),
+            "torsion.couplings[0].between: got ['hub', 'hub']; expected two different stations",
+        ),
+        (lambda t: t.replace('label = "flexible coupling"', 'label = "motor shaft end"'), "torsion.couplings[0].label"),
+        (lambda t: t.replace('damping = "30 N*m*s/rad"', 'damping = "3 %"'), "torsion.couplings[0].damping"),
+        (lambda t: t.replace("poles = 4", "poles = 4\nload = 'fan law'"), "motor.load: got 'fan law'"),
     ],
 )
 def test_check_exits_2_on_a_bad_train_naming_file_and_field(tmp_path, capsys, edit, field):
