@@ -27,6 +27,7 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Sequence
 from typing import Literal
 
 import numpy as np
@@ -35,7 +36,17 @@ import pint
 from .errors import InputTypeError, InputValueError
 from .units import QuantityKind, internal_unit, ureg
 
-__all__ = ["NUMBER_TEXT", "PLAUSIBLE", "Sign", "as_matrix", "as_si", "as_si_array", "parse_quantity", "parse_unit"]
+__all__ = [
+    "NUMBER_TEXT",
+    "PLAUSIBLE",
+    "Sign",
+    "as_matrix",
+    "as_si",
+    "as_si_array",
+    "check_parts",
+    "parse_quantity",
+    "parse_unit",
+]
 
 Sign = Literal["positive", "nonnegative", "any"]
 
@@ -331,3 +342,33 @@ def as_matrix(value: object, name: str, kind: QuantityKind, size: int | None = N
             f"{asymmetry:.3g}); expected a symmetric matrix"
         )
     return 0.5 * (array + array.T)
+
+
+def check_parts(**parts: tuple[object, type]) -> None:
+    """Refuse a model's parts that are not a list of the expected class (``name=(items, Class)``).
+
+    Parameters
+    ----------
+    **parts : tuple of (object, type)
+        Each parameter's value and the class its items must be.
+
+    Returns
+    -------
+    None
+
+    Raises
+    ------
+    InputTypeError
+        Text or a non-sequence where a list is expected, or an item of another class, naming the parameter
+        (and the item's index).
+
+    Examples
+    --------
+    >>> check_parts(stations=([1.0], float))
+    """
+    for name, (items, kind) in parts.items():
+        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
+            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
+        for i, item in enumerate(items):
+            if not isinstance(item, kind):
+                raise InputTypeError(f"{name}[{i}]: got {item!r}; expected a {kind.__name__}")

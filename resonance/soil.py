@@ -144,10 +144,7 @@ def footing_impedance(
     area about x: ``r0 = (a_x a_y^3 / (3 pi))^(1/4)`` for sides ``a_x``, ``a_y``; torsion ``r0 = (a_x a_y (a_x^2
     + a_y^2) / (6 pi))^(1/4)``; translations ``r0 = sqrt(a_x a_y / pi)``.
     """
-    g = as_si(shear_modulus, "shear_modulus", "pressure", "positive")
-    nu = as_si(poisson_ratio, "poisson_ratio", "ratio", "nonnegative")
-    if not nu < 0.5:
-        raise InputValueError(f"poisson_ratio: got {nu:g}; expected 0 <= nu < 0.5")
+    g, nu = _elastic_soil(shear_modulus, poisson_ratio)
     rho = as_si(density, "density", "density", "positive")
     m = as_si(mass, "mass", "mass", "positive")
     i_x = as_si(rocking_inertia_x, "rocking_inertia_x", "inertia", "positive")
@@ -246,10 +243,7 @@ def rectangular_sliding_stiffness(
     >>> bool(ky > kx)   # the long side along x: stiffer across it, in y
     True
     """
-    g = as_si(shear_modulus, "shear_modulus", "pressure", "positive")
-    nu = as_si(poisson_ratio, "poisson_ratio", "ratio", "nonnegative")
-    if not nu < 0.5:
-        raise InputValueError(f"poisson_ratio: got {nu:g}; expected 0 <= nu < 0.5")
+    g, nu = _elastic_soil(shear_modulus, poisson_ratio)
     ax = as_si(width_x, "width_x", "length", "positive")
     ay = as_si(width_y, "width_y", "length", "positive")
     half_long, half_short = 0.5 * max(ax, ay), 0.5 * min(ax, ay)
@@ -257,6 +251,15 @@ def rectangular_sliding_stiffness(
     across = 2.0 * g * half_long * (2.0 + 2.5 * chi**0.85) / (2.0 - nu)
     along = across - 0.2 * g * half_long * (1.0 - half_short / half_long) / (0.75 - nu)
     return (along, across) if ax >= ay else (across, along)
+
+
+def _elastic_soil(shear_modulus: object, poisson_ratio: object) -> tuple[float, float]:
+    # G > 0 and 0 <= nu < 0.5 (an incompressible soil has no half-space solution in these forms).
+    g = as_si(shear_modulus, "shear_modulus", "pressure", "positive")
+    nu = as_si(poisson_ratio, "poisson_ratio", "ratio", "nonnegative")
+    if not nu < 0.5:
+        raise InputValueError(f"poisson_ratio: got {nu:g}; expected 0 <= nu < 0.5")
+    return g, nu
 
 
 def soil_mount(footing: FootingImpedance, body: str, point: object, label: str = "soil") -> Mount:

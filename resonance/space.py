@@ -29,7 +29,7 @@ import numpy as np
 from .damping import modal_damping
 from .errors import InputTypeError, InputValueError
 from .frame import Beam, beam_matrices
-from .inputs import as_matrix, as_si, as_si_array
+from .inputs import as_matrix, as_si, as_si_array, check_parts
 from .model import MatrixModel, matrix_model
 from .modes import ModeSet, model_modes
 
@@ -428,17 +428,7 @@ def space_model(
     InputTypeError
         An item of the wrong type.
     """
-    for name, items, kind in (
-        ("bodies", bodies, RigidBody),
-        ("mounts", mounts, Mount),
-        ("nodes", nodes, FrameNode),
-        ("beams", beams, Beam),
-    ):
-        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
-            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
-        for i, item in enumerate(items):
-            if not isinstance(item, kind):
-                raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
+    check_parts(bodies=(bodies, RigidBody), mounts=(mounts, Mount), nodes=(nodes, FrameNode), beams=(beams, Beam))
     attached = dict(attached or {})
     if not bodies and not nodes:
         raise InputValueError("bodies: got none; expected at least one rigid body or frame node")

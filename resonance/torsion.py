@@ -28,7 +28,7 @@ import numpy as np
 import scipy.linalg
 
 from .errors import InputTypeError, InputValueError
-from .inputs import as_si, as_si_array
+from .inputs import as_si, as_si_array, check_parts
 from .model import MatrixModel, matrix_model
 from .modes import Mode, ModeSet, model_modes, undamped_modes
 from .threads import blas_threads_for
@@ -136,14 +136,15 @@ def stepped_shaft_stiffness(shear_modulus: object, sections: Sequence[tuple[obje
     """
     if isinstance(sections, (str, bytes)) or not isinstance(sections, Sequence) or not sections:
         raise InputValueError(f"sections: got {sections!r}; expected one or more (length, outer, inner) sections")
+    g = as_si(shear_modulus, "shear_modulus", "pressure", "positive")
     compliance = 0.0
     for i, section in enumerate(sections):
         if not isinstance(section, (tuple, list)) or len(section) != 3:
             raise InputValueError(f"sections[{i}]: got {section!r}; expected (length, outer_diameter, inner_diameter)")
         try:
-            compliance += 1.0 / hollow_shaft_stiffness(shear_modulus, *section)
-        except InputValueError as error:
-            raise InputValueError(f"sections[{i}]: {error}") from None
+            compliance += 1.0 / hollow_shaft_stiffness(g, *section)
+        except (InputValueError, InputTypeError) as error:
+            raise type(error)(f"sections[{i}]: {error}") from None
     return 1.0 / compliance
 
 
@@ -362,16 +363,7 @@ def torsional_train(
     """
     if not stations:
         raise InputValueError("stations: got none; expected the train's inertias")
-    for name, items, kind in (
-        ("stations", stations, Station),
-        ("springs", springs, TorsionalShaft),
-        ("meshes", meshes, GearMesh),
-    ):
-        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
-            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
-        for i, item in enumerate(items):
-            if not isinstance(item, kind):
-                raise InputTypeError(f"{name}[{i}]: got {type(item).__name__}; expected a {kind.__name__}")
+    check_parts(stations=(stations, Station), springs=(springs, TorsionalShaft), meshes=(meshes, GearMesh))
     names = [s.name for s in stations]
     if len(set(names)) != len(names):
         raise InputValueError(f"stations: names {names} repeat; expected unique names")

@@ -26,7 +26,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import InputTypeError, InputValueError
-from ..inputs import Sign, as_si, as_si_array
+from ..inputs import Sign, as_si, as_si_array, check_parts
 from ..units import QuantityKind
 from .elements import beam_rotary_mass, beam_stiffness, beam_translational_mass, shear_coefficient
 
@@ -368,16 +368,7 @@ def rotor_model(sections: Sequence[ShaftSection], discs: Sequence[Disc], bearing
         with no bearing (free-floating), a coefficient table that does not
         match its speeds, or a negative direct stiffness.
     """
-    for name, items, kind in (
-        ("sections", sections, ShaftSection),
-        ("discs", discs, Disc),
-        ("bearings", bearings, Bearing),
-    ):
-        if isinstance(items, (str, bytes)) or not isinstance(items, Sequence):
-            raise InputTypeError(f"{name}: got {items!r}; expected a list of {kind.__name__}")
-        for i, item in enumerate(items):
-            if not isinstance(item, kind):
-                raise InputTypeError(f"{name}[{i}]: got {item!r}; expected a {kind.__name__}")
+    check_parts(sections=(sections, ShaftSection), discs=(discs, Disc), bearings=(bearings, Bearing))
     if not sections:
         raise InputValueError("sections: got none; expected at least one shaft section")
     lengths: list[float] = []
