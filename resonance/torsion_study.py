@@ -523,8 +523,12 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
         r.known(item, ("gear", "pinion", "ratio", "stiffness", "gear_teeth", "pinion_teeth", "allowable_torque"), field)
         z_gear = _teeth(r, item, "gear_teeth", field)
         z_pinion = _teeth(r, item, "pinion_teeth", field)
-        if z_pinion is not None and z_gear is None:
-            raise r.fail(f"{field}.gear_teeth", "missing; give the gear's teeth beside the pinion's")
+        if z_gear is None:  # a mesh declares its mesh frequency: it is checked, never skipped
+            raise r.fail(
+                f"{field}.gear_teeth",
+                "missing; the gear mesh frequency (teeth x the gear's speed) is checked against every torsional "
+                "mode: give the gear's teeth",
+            )
         if "ratio" in item:
             ratio = r.quantity(item, "ratio", f"{field}.ratio", "ratio", "positive")
             if z_gear is not None and z_pinion is not None and not math.isclose(ratio, z_gear / z_pinion, rel_tol=1e-6):

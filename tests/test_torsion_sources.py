@@ -161,6 +161,11 @@ def test_the_driver_shaft_is_named_when_no_shaft_is_called_driver():
             lambda t: t["torsion"]["meshes"][0].update(gear_teeth=10**400),
             r"torsion\.meshes\[0\]\.gear_teeth: got 1000000000000000000.*; expected a whole number from 1 to 10000",
         ),
+        # Every mesh's gear mesh frequency is checked: a mesh without its teeth is refused, not skipped.
+        (
+            lambda t: t["torsion"]["meshes"][0].pop("gear_teeth"),
+            r"torsion\.meshes\[0\]\.gear_teeth: missing; the gear mesh frequency",
+        ),
         (
             lambda t: t["torsion"]["forcing"][0].update(fraction_of_rated=1e300),
             r"torsion\.forcing\[0\]\.fraction_of_rated: got 1e\+300; expected a fraction of the rated torque up to 10",
