@@ -192,6 +192,12 @@ def test_a_scenario_with_a_steel_frame_runs():
     }
     result = run_space_study(parse_space_scenario(tables, "frame.toml"))
     assert result.model.model.size == 30  # five nodes of six coordinates; the pump rides on "mid"
+    # The same sections written with their units (1 cm = 0.01 m exactly) give the same frame.
+    with_units = copy.deepcopy(tables)
+    for beam in with_units["space"]["beams"]:
+        beam.update(area="45 cm**2", iy="2200 cm**4", iz="750 cm**4", torsion_constant="1700 cm**4")
+    again = run_space_study(parse_space_scenario(with_units, "frame.toml"), band=False)
+    assert_allclose([m.frequency for m in again.shapes], [m.frequency for m in result.shapes], rtol=1e-9)
     assert result.shapes[0].words.startswith("pump:")
     assert len(result.band) == 9  # mounts x frame, each at 1 -/+ 0.3 and 1
     from resonance.ui import SpacePanel
