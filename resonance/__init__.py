@@ -11,75 +11,109 @@ everywhere. Amplitudes are 0-peak unless a name says otherwise.
 Results are engineering estimates; they do not replace the governing
 standard, the manufacturer's data, field verification or review by a
 qualified engineer.
+
+The names below are loaded on first use (a lazy namespace, PEP 562), so ``import resonance`` and
+``python -m resonance --help`` start at once; each name lives in the module its concept belongs to. The one
+way in for every kind of study: :func:`load` a scenario file, :func:`run` it, and :func:`panel` for the
+notebook panel of any scenario.
 """
 
-from ._version import __version__
-from .damping import (
-    amplification_factor_from_damping_ratio,
-    damping_ratio_from_amplification_factor,
-    damping_ratio_from_log_decrement,
-    log_decrement,
-    modal_damping,
-    rayleigh_coefficients,
-    rayleigh_damping,
-)
-from .errors import InputTypeError, InputValueError
-from .excitations import (
-    Excitation,
-    api_design_unbalance,
-    blade_pass,
-    drive_electrical,
-    electrical_order,
-    fixed_frequency,
-    gear_mesh,
-    line_frequency,
-    permissible_unbalance,
-    running_speed_order,
-    twice_line_frequency,
-    unbalance_force,
-)
+from __future__ import annotations
 
-# The flows (scenario -> study -> record), so notebooks import from one place.
-from .field.study import run_field_study
-from .frf import accelerance, mobility, model_receptance, receptance
-from .harmonic import acceleration_amplitude, convert_amplitude, velocity_amplitude
-from .interference import Finding, FindingsTable, interference_check
-from .limits import api_shaft_vibration_limit, iso_velocity_zone, iso_velocity_zone_limits, support_class
-from .margins import (
-    ApiLateralRule,
-    FlatRule,
-    HalfPower,
-    TableRule,
-    amplification_factor,
-    half_power_points,
-    required_separation_margin,
-    rule_by_name,
-    separation_margin,
-)
-from .model import GROUND, MatrixModel, Spring, chain_model, lumped_model, matrix_model
-from .modes import Mode, ModeSet, modal_properties, model_modes, modes
-from .record import build_record
-from .rotor.scenario import load_rotor_scenario
-from .rotor.study import run_rotor_study
-from .rules import RuleSet
-from .scenario import load_scenario
-from .sdof import (
-    SteadyState,
-    base_excitation_response,
-    damped_natural_frequency,
-    damping_coefficient,
-    damping_ratio,
-    harmonic_response,
-    natural_frequency,
-    peak_frequency,
-    sdof_receptance,
-    transmissibility,
-    unbalance_response,
-)
-from .speed_range import OperatingRange, operating_range
-from .studies import StudyOutcome, run_scenario_file
-from .study import run_study
-from .units import Quantity, display_unit, ureg
+import importlib
+import sys
+import types
+from typing import Any
+
+from ._version import __version__
+
+#: Where each public name lives: loaded from there on first use.
+_NAMES: dict[str, str] = {
+    "ureg": "units",
+    "Quantity": "units",
+    "display_unit": "units",
+    "InputValueError": "errors",
+    "InputTypeError": "errors",
+    "SteadyState": "sdof",
+    "natural_frequency": "sdof",
+    "damping_ratio": "sdof",
+    "damping_coefficient": "sdof",
+    "damped_natural_frequency": "sdof",
+    "peak_frequency": "sdof",
+    "sdof_receptance": "sdof",
+    "harmonic_response": "sdof",
+    "unbalance_response": "sdof",
+    "base_excitation_response": "sdof",
+    "transmissibility": "sdof",
+    "convert_amplitude": "harmonic",
+    "velocity_amplitude": "harmonic",
+    "acceleration_amplitude": "harmonic",
+    "log_decrement": "damping",
+    "damping_ratio_from_log_decrement": "damping",
+    "amplification_factor_from_damping_ratio": "damping",
+    "damping_ratio_from_amplification_factor": "damping",
+    "rayleigh_coefficients": "damping",
+    "rayleigh_damping": "damping",
+    "modal_damping": "damping",
+    "MatrixModel": "model",
+    "Spring": "model",
+    "GROUND": "model",
+    "matrix_model": "model",
+    "lumped_model": "model",
+    "chain_model": "model",
+    "Mode": "modes",
+    "ModeSet": "modes",
+    "modes": "modes",
+    "model_modes": "modes",
+    "modal_properties": "modes",
+    "receptance": "frf",
+    "mobility": "frf",
+    "accelerance": "frf",
+    "model_receptance": "frf",
+    "Excitation": "excitations",
+    "running_speed_order": "excitations",
+    "blade_pass": "excitations",
+    "gear_mesh": "excitations",
+    "fixed_frequency": "excitations",
+    "twice_line_frequency": "excitations",
+    "line_frequency": "excitations",
+    "drive_electrical": "excitations",
+    "electrical_order": "excitations",
+    "permissible_unbalance": "excitations",
+    "api_design_unbalance": "excitations",
+    "unbalance_force": "excitations",
+    "OperatingRange": "speed_range",
+    "operating_range": "speed_range",
+    "HalfPower": "margins",
+    "half_power_points": "margins",
+    "amplification_factor": "margins",
+    "separation_margin": "margins",
+    "required_separation_margin": "margins",
+    "ApiLateralRule": "margins",
+    "FlatRule": "margins",
+    "TableRule": "margins",
+    "rule_by_name": "margins",
+    "RuleSet": "rules",
+    "Finding": "interference",
+    "FindingsTable": "interference",
+    "interference_check": "interference",
+    "iso_velocity_zone_limits": "limits",
+    "iso_velocity_zone": "limits",
+    "api_shaft_vibration_limit": "limits",
+    "support_class": "limits",
+    "load_scenario": "scenario",
+    "run_study": "study",
+    "load_rotor_scenario": "rotor.scenario",
+    "run_rotor_study": "rotor.study",
+    "run_field_study": "field.study",
+    "run_scenario_file": "studies",
+    "StudyOutcome": "studies",
+    "build_record": "record",
+    "load": "studies",
+    "run": "studies",
+    "StudyKind": "studies",
+    "panel": "ui",
+}
 
 __all__ = [
     "__version__",
@@ -173,4 +207,35 @@ __all__ = [
     "run_scenario_file",
     "StudyOutcome",
     "build_record",
+    # one way in
+    "load",
+    "run",
+    "StudyKind",
+    "panel",
 ]
+
+
+class _Namespace(types.ModuleType):
+    # Importing a submodule binds it on its package under its own name; where a public name is also a module
+    # name (the function ``modes`` of ``resonance.modes``), the public name keeps its place, as in 0.2.
+    def __setattr__(self, name: str, value: Any) -> None:
+        if isinstance(value, types.ModuleType) and _NAMES.get(name) == name and hasattr(value, name):
+            value = getattr(value, name)
+        super().__setattr__(name, value)
+
+
+sys.modules[__name__].__class__ = _Namespace
+
+
+def __getattr__(name: str) -> Any:
+    # PEP 562: import the module that holds a public name when it is first asked for.
+    module = _NAMES.get(name)
+    if module is None:
+        raise AttributeError(f"module 'resonance' has no attribute {name!r}")
+    value = getattr(importlib.import_module(f".{module}", __name__), name)
+    globals()[name] = value  # later look-ups skip this function
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted({*globals(), *_NAMES})

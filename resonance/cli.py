@@ -31,8 +31,6 @@ from pathlib import Path
 from typing import Any
 
 from .errors import InputTypeError, InputValueError
-from .studies import RotorStudy, SupportStudy, study_kind_for
-from .tables import atomic_write, read_scenario_bytes
 
 __all__ = ["main"]
 
@@ -118,7 +116,10 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 
 
 def _check(args: argparse.Namespace) -> int:
+    # The study's modules are imported here, not at the top: --help and argument errors answer at once.
     from .executors import executor_for
+    from .studies import RotorStudy, SupportStudy, study_kind_for
+    from .tables import atomic_write, read_scenario_bytes
 
     progress = sys.stderr.isatty()
     paths: list[Path] = args.scenario

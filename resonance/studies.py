@@ -19,11 +19,13 @@ Kinds today:
 from __future__ import annotations
 
 import os
+import weakref
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Protocol
 
+from .errors import InputTypeError
 from .interference import FindingsTable
 from .record import Record, build_record
 from .tables import ScenarioError, read_scenario_bytes
@@ -37,7 +39,10 @@ __all__ = [
     "StudyOutcome",
     "SupportStudy",
     "TorsionStudy",
+    "kind_of",
+    "load",
     "register_study_kind",
+    "run",
     "rotor_outcome",
     "run_scenario_file",
     "study_kind_for",
@@ -117,6 +122,14 @@ class SupportStudy:
     """A machine on its support: modes, interference, response, zones; field verification with ``[field]``."""
 
     name = "support"
+
+    @property
+    def scenario_type(self) -> type:
+        """The class of the scenarios this kind runs (imported when asked)."""
+        from .scenario import Scenario
+
+        return Scenario
+
     #: Where an uncertainty study's chunks run and whether it shows progress (the check command sets them).
     executor: Any = None
     progress: bool = False
@@ -168,6 +181,14 @@ class RotorStudy:
     """A rotor on its bearings: Campbell data, critical speeds, API margins, stability, shaft vibration."""
 
     name = "rotor"
+
+    @property
+    def scenario_type(self) -> type:
+        """The class of the scenarios this kind runs (imported when asked)."""
+        from .rotor.scenario import RotorScenario
+
+        return RotorScenario
+
     #: Where an uncertainty study's variants run and whether long work shows progress (the check command sets
     #: them on a copy).
     executor: Any = None
@@ -205,6 +226,13 @@ class TorsionStudy:
 
     name = "torsion"
 
+    @property
+    def scenario_type(self) -> type:
+        """The class of the scenarios this kind runs (imported when asked)."""
+        from .torsion_study import TorsionScenario
+
+        return TorsionScenario
+
     def claims(self, tables: Mapping[str, Any]) -> bool:
         """Scenarios with a ``[torsion]`` table."""
         return "torsion" in tables
@@ -231,6 +259,13 @@ class SpaceStudy:
     """Supports in space: rigid bodies, frames, mounts and soil; modes in words, findings, bearing response."""
 
     name = "space"
+
+    @property
+    def scenario_type(self) -> type:
+        """The class of the scenarios this kind runs (imported when asked)."""
+        from .space_study import SpaceScenario
+
+        return SpaceScenario
 
     def claims(self, tables: Mapping[str, Any]) -> bool:
         """Scenarios with a ``[space]`` table."""
@@ -425,6 +460,97 @@ def study_kind_for(tables: Mapping[str, Any], source: str) -> StudyKind:
         f"{source}: no [model], [rotor], [torsion] or [space] table; expected one of the study kinds "
         f"{[k.name for k in STUDY_KINDS]}"
     )
+
+
+# Where load() read each scenario from, so that run() finds its measurement files (by identity; dropped with it).
+_FOLDERS: dict[int, Path] = {}
+
+
+def load(path: str | os.PathLike[str]) -> Any:
+    """Read and validate a scenario file of any kind: the one way in (the file is only read).
+
+    Parameters
+    ----------
+    path : path-like
+        The scenario file (TOML).
+
+    Returns
+    -------
+    Scenario, RotorScenario, TorsionScenario or SpaceScenario
+        The validated scenario of the kind its tables describe (chosen through the registry, with the file's
+        SHA-256); :func:`run` runs it.
+
+    Raises
+    ------
+    ScenarioError
+        The file cannot be read, is not TOML, is of no known kind, or has an invalid field.
+
+    Examples
+    --------
+    >>> import resonance
+    >>> scenario = resonance.load("notebooks/scenarios/compressor_train.toml")  # doctest: +SKIP
+    >>> resonance.run(scenario).verdict  # doctest: +SKIP
+    'FAIL'
+    """
+    source = Path(path)
+    tables, sha256 = read_scenario_bytes(source)
+    scenario = study_kind_for(tables, source.name).parse(tables, source.name).replace(sha256=sha256)
+    _FOLDERS[id(scenario)] = source.parent
+    weakref.finalize(scenario, _FOLDERS.pop, id(scenario), None)
+    return scenario
+
+
+def kind_of(scenario: Any) -> StudyKind:
+    """The registered kind of study that runs this scenario object.
+
+    Parameters
+    ----------
+    scenario : object
+        A validated scenario (:func:`load`, or a kind's own parser).
+
+    Returns
+    -------
+    StudyKind
+
+    Raises
+    ------
+    InputTypeError
+        An object no registered kind runs.
+    """
+    for kind in STUDY_KINDS:
+        scenario_type = getattr(kind, "scenario_type", None)
+        if scenario_type is not None and isinstance(scenario, scenario_type):
+            return kind
+    raise InputTypeError(
+        f"scenario: got {type(scenario).__name__}; expected a scenario of one of the kinds "
+        f"{[k.name for k in STUDY_KINDS]} (resonance.load reads one from a file)"
+    )
+
+
+def run(scenario: Any, folder: str | os.PathLike[str] | None = None) -> StudyOutcome:
+    """Run every check of a scenario of any kind: verdict, findings, record.
+
+    Parameters
+    ----------
+    scenario : object
+        A validated scenario (:func:`load`).
+    folder : path-like, optional
+        Where the files the scenario names (measurements) are; the folder :func:`load` read it from, else
+        the current one.
+
+    Returns
+    -------
+    StudyOutcome
+
+    Raises
+    ------
+    InputTypeError
+        An object that is not a scenario of a registered kind.
+    InputValueError
+        A file the scenario names cannot be read (naming the scenario's file and field).
+    """
+    base = Path(folder) if folder is not None else _FOLDERS.get(id(scenario), Path("."))
+    return kind_of(scenario).run(scenario, base)
 
 
 def run_scenario_file(path: str | os.PathLike[str]) -> StudyOutcome:

@@ -39,20 +39,19 @@ import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any, Literal
+from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
-import scipy.stats
-from scipy.stats import qmc
 
 from .errors import InputValueError
 from .executors import Executor, SerialExecutor, progress_bar
-from .rotor.scenario import RotorScenario, scale_bearing
-from .rotor.study import run_rotor_study
 from .scenario import Scenario
 from .speed_range import operating_range
 from .tables import TableReader
 from .variants import VariantFindings, evaluate_variants
+
+if TYPE_CHECKING:  # the rotor flow is imported only when a rotor scenario is sampled
+    from .rotor.scenario import RotorScenario
 
 __all__ = [
     "FACTOR_RANGE",
@@ -123,6 +122,8 @@ class UncertainInput:
             raise InputValueError(f"{self.vary}: bounds: got {self.bounds!r}; expected low below high")
 
     def _frozen(self) -> Any:
+        import scipy.stats  # only when sampling: it takes half a second to import
+
         if self.distribution == "uniform":
             return scipy.stats.uniform(self.a, self.b - self.a)
         if self.distribution == "normal":
@@ -211,7 +212,7 @@ class UncertaintySpec:
 
 
 def _targets(scenario: Scenario | RotorScenario) -> list[str]:
-    if isinstance(scenario, RotorScenario):
+    if not isinstance(scenario, Scenario):  # a rotor scenario
         labels = [b.label for b in scenario.bearings]
         return [*(f"bearing:{b}:{c}" for b in labels for c in ("stiffness", "damping")), "speed_min", "speed_max"]
     return [
@@ -332,6 +333,8 @@ def sample_inputs(spec: UncertaintySpec) -> np.ndarray:
         The spec is validated.
     """
     d = len(spec.inputs)
+    from scipy.stats import qmc  # only when sampling: it takes half a second to import
+
     if spec.sampling == "sobol":
         u = qmc.Sobol(d, scramble=True, seed=spec.seed).random_base2(int(math.log2(spec.samples)))
     else:
@@ -362,7 +365,7 @@ def evaluate_chunk(
     InputValueError
         Factors that make an invalid variant (see :func:`resonance.variants.evaluate_variants`).
     """
-    if isinstance(scenario, RotorScenario):
+    if not isinstance(scenario, Scenario):  # a rotor scenario (its modules imported only then)
         return _rotor_chunk(scenario, inputs, values)
     stiffness: dict[str, np.ndarray] = {}
     mass: dict[str, np.ndarray] = {}
@@ -649,6 +652,8 @@ def run_uncertainty(
 
 def _rotor_variant(scenario: RotorScenario, inputs: Sequence[UncertainInput], row: np.ndarray) -> RotorScenario:
     # One rotor variant: each bearing's coefficients and the speed limits scaled by the row's factors.
+    from .rotor.scenario import scale_bearing
+
     factor = {x.vary: float(v) for x, v in zip(inputs, row, strict=True)}
     bearings = tuple(
         scale_bearing(b, factor.get(f"bearing:{b.label}:stiffness", 1.0), factor.get(f"bearing:{b.label}:damping", 1.0))
@@ -668,6 +673,8 @@ def _rotor_variant(scenario: RotorScenario, inputs: Sequence[UncertainInput], ro
 
 
 def _rotor_chunk(scenario: RotorScenario, inputs: Sequence[UncertainInput], values: np.ndarray) -> VariantFindings:
+    from .rotor.study import run_rotor_study  # the rotor flow only when a rotor is sampled
+
     # Each variant runs the whole rotor study; its findings are keyed by excitation and the critical's rank
     # (by speed) for that excitation. Exempt findings require no margin: NaN, neither failing nor worst.
     tables = [run_rotor_study(_rotor_variant(scenario, inputs, row)).findings for row in values]

@@ -39,9 +39,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "excitation order. Shaded blue: the operating speeds; shaded orange: the speeds the range must "
             "keep clear of around each 1x coincidence (the scenario's flat margin for a structural mode).\n\n"
         ),
-        code("from resonance.scenario import load_scenario\nfrom resonance.ui import single_mode_panel"),
+        code("import resonance as R"),
         code(
-            'scenario = load_scenario("scenarios/cooling_water_pump.toml")\npanel = single_mode_panel(scenario)\npanel',
+            'scenario = R.load("scenarios/cooling_water_pump.toml")\npanel = R.panel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell(
@@ -62,9 +62,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "pass and red when they fail), the findings worst first, and the predicted 1x casing velocity "
             "against the ISO 10816-3 zones.\n\n"
         ),
-        code("from resonance.scenario import load_scenario\nfrom resonance.ui import multi_mode_panel"),
+        code("import resonance as R"),
         code(
-            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = multi_mode_panel(scenario)\npanel',
+            'scenario = R.load("scenarios/feed_pump_foundation.toml")\npanel = R.panel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("Modes, verdict and findings for the scenario as loaded:"),
@@ -82,9 +82,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "change that makes every check pass; the grey bands show each natural frequency over the "
             "support-stiffness tolerance, and the checks are evaluated over the whole band.\n\n"
         ),
-        code("from resonance.scenario import load_scenario\nfrom resonance.ui import WhatIfPanel"),
+        code("import resonance as R\nfrom resonance.ui import WhatIfPanel"),
         code(
-            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\npanel = WhatIfPanel(scenario)\npanel',
+            'scenario = R.load("scenarios/feed_pump_foundation.toml")\npanel = WhatIfPanel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("The scenario as loaded, before any control is moved:"),
@@ -135,9 +135,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "vibration against the API limit all follow. The critical speed map shows where the bearings sit "
             "between soft and rigid supports.\n\n"
         ),
-        code("from resonance.rotor import load_rotor_scenario\nfrom resonance.ui import RotorPanel"),
+        code("import resonance as R"),
         code(
-            'scenario = load_rotor_scenario("scenarios/fan_rotor.toml")\npanel = RotorPanel(scenario)\npanel',
+            'scenario = R.load("scenarios/fan_rotor.toml")\npanel = R.panel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("The verdict, critical speeds and findings for the scenario as loaded:"),
@@ -163,10 +163,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "the same rule as the model, and tunes the floor stiffness so the model's modes match the impact "
             "test's. Move the **speed range**, the **channel** and the **fitting band**.\n\n"
         ),
-        code(
-            "from resonance.scenario import load_scenario\nfrom resonance.study import run_study\nfrom resonance.ui import FieldPanel"
-        ),
-        code('scenario = load_scenario("scenarios/fan_on_pedestal.toml")\nprint(run_study(scenario).summary())'),
+        code("import resonance as R\nfrom resonance.ui import FieldPanel"),
+        code('scenario = R.load("scenarios/fan_on_pedestal.toml")\nprint(R.run(scenario).result.summary())'),
         new_markdown_cell("What the design model said (above) and what the measurements say:"),
         code('panel = FieldPanel(scenario, base_dir="scenarios")\npanel', widget=True),
         code("print(panel.summary())\nprint()\nprint(panel.result.tuned_study.findings.to_text())"),
@@ -193,12 +191,12 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "governing fatigue code.\n\n"
         ),
         code(
+            "import resonance as R\n"
             "from resonance.torsion import scale_couplings\n"
-            "from resonance.torsion_study import load_torsion_scenario, run_torsion_study\n"
-            "from resonance.ui import TorsionPanel"
+            "from resonance.torsion_study import run_torsion_study"
         ),
         code(
-            'scenario = load_torsion_scenario("scenarios/compressor_train.toml")\npanel = TorsionPanel(scenario)\npanel',
+            'scenario = R.load("scenarios/compressor_train.toml")\npanel = R.panel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("The verdict, modes and findings for the scenario as loaded:"),
@@ -233,10 +231,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "with the passing region outlined and the smallest combined fix marked; move its **span**. The "
             "distributions are judgements, not data: the probability is only as good as they are.\n\n"
         ),
-        code("from resonance.scenario import load_scenario\nfrom resonance.ui import UncertaintyPanel"),
+        code("import resonance as R\nfrom resonance.ui import UncertaintyPanel"),
         code(
-            'scenario = load_scenario("scenarios/feed_pump_foundation.toml")\n'
-            "panel = UncertaintyPanel(scenario)\npanel",
+            'scenario = R.load("scenarios/feed_pump_foundation.toml")\npanel = UncertaintyPanel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("What the panel says for the scenario as loaded (seeded: the same numbers every run):"),
@@ -263,9 +260,9 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "the 1x unbalance response at the fan bearings in x, y and z follow. Soil properties belong to a "
             "geotechnical engineer; the formulas are the textbook ones (from memory, see `resonance.soil`).\n\n"
         ),
-        code("from resonance.space_study import load_space_scenario\nfrom resonance.ui import SpacePanel"),
+        code("import resonance as R"),
         code(
-            'scenario = load_space_scenario("scenarios/fan_skid_block.toml")\npanel = SpacePanel(scenario)\npanel',
+            'scenario = R.load("scenarios/fan_skid_block.toml")\npanel = R.panel(scenario)\npanel',
             widget=True,
         ),
         new_markdown_cell("The verdict, the modes in words and the vibration at the bearings, as loaded:"),
