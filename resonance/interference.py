@@ -33,7 +33,7 @@ from .units import UnitSystem, display_unit
 
 Verdict = Literal["PASS", "FAIL", "EXEMPT"]
 
-__all__ = ["judge_damped", "Finding", "FindingsTable", "interference_check", "verdict_line", "verdict_of"]
+__all__ = ["Finding", "FindingsTable", "interference_check", "judge_damped", "verdict_line", "verdict_of"]
 
 
 @dataclass(frozen=True)
