@@ -570,8 +570,4 @@ def run_scenario_file(path: str | os.PathLike[str]) -> StudyOutcome:
     ScenarioError
         The file cannot be read, is not TOML, is of no known kind, or has an invalid field.
     """
-    source = Path(path)
-    tables, sha256 = read_scenario_bytes(source)
-    kind = study_kind_for(tables, source.name)
-    scenario = kind.parse(tables, source.name).replace(sha256=sha256)
-    return kind.run(scenario, source.parent)
+    return run(load(path))  # one flow: the file's folder holds its measurement files
