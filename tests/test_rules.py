@@ -282,6 +282,11 @@ def test_rotor_flow_refuses_fixed_sources_and_needs_flat_for_other_orders(fan):
     with pytest.raises(R.InputValueError, match=r"'tower fan' has a fixed frequency"):
         run_rotor_study(parse_rotor_scenario(table))
     assert math.isclose(fan.rules.lateral_1x.required(10.0, "below"), 15.0)
+    # A motor on the line declares twice line frequency (fixed): refused naming [motor], never dropped.
+    table["excitations"].pop()
+    table["motor"] = {"supply": "line", "line_frequency": "50 Hz"}
+    with pytest.raises(ScenarioError, match=r"motor: 'twice line frequency \(100 Hz\)' has a fixed frequency"):
+        parse_rotor_scenario(table)
 
 
 def test_a_user_table_exemption_is_named_without_the_api_words():

@@ -386,7 +386,7 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
         description,
         units,
         speed,
-        parse_excitations(r, r.array(data, "excitations", "excitations"), motor),
+        _speed_following(r, parse_excitations(r, r.array(data, "excitations", "excitations"), motor)),
         parse_rules(r, r.table(data, "margin", "margin", required=False)),
         tuple(sections),
         tuple(discs),
@@ -568,3 +568,17 @@ def _uncertainty_table(r: TableReader, data: Mapping[str, Any]) -> dict[str, Any
     if "uncertainty" in data and not table:
         raise r.fail("uncertainty", "empty; give its inputs (or remove the table)")
     return dict(table) if table else None
+
+
+def _speed_following(r: TableReader, excitations: tuple[Excitation, ...]) -> tuple[Excitation, ...]:
+    # The rotor flow judges whirl branches against sources that follow the speed: a fixed source (a motor on
+    # the line, a neighbour's frequency) is refused here, naming where it came from, never dropped silently.
+    for i, e in enumerate(excitations):
+        if e.order is None:
+            field = "motor" if e.source.startswith("[motor]") else f"excitations[{i}]"
+            raise r.fail(
+                field,
+                f"{e.label!r} has a fixed frequency; the rotor flow checks sources that follow the speed (orders, "
+                "drive-fed electrical frequencies): check fixed sources in a support scenario",
+            )
+    return excitations
