@@ -21,6 +21,7 @@ notebook panel of any scenario.
 from __future__ import annotations
 
 import importlib
+import importlib.util
 import sys
 import types
 from typing import Any
@@ -231,6 +232,8 @@ def __getattr__(name: str) -> Any:
     # PEP 562: import the module that holds a public name when it is first asked for.
     module = _NAMES.get(name)
     if module is None:
+        if not name.startswith("_") and importlib.util.find_spec(f"{__name__}.{name}") is not None:
+            return importlib.import_module(f".{name}", __name__)  # a submodule: ``resonance.record``, as in 0.2
         raise AttributeError(f"module 'resonance' has no attribute {name!r}")
     value = getattr(importlib.import_module(f".{module}", __name__), name)
     globals()[name] = value  # later look-ups skip this function

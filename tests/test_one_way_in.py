@@ -68,3 +68,10 @@ def test_a_start_imports_no_numerical_library(code):
     probe = f"{code}\nimport sys\nprint([m for m in {heavy!r} if m in sys.modules])"
     out = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, check=True).stdout
     assert out.strip().splitlines()[-1] == "[]"
+
+
+def test_submodules_stay_reachable_as_attributes_in_a_fresh_interpreter():
+    # resonance.record, resonance.margins... were attributes in 0.2 (the package imported them eagerly).
+    code = "import resonance as R\nprint(R.record.build_record.__name__, R.margins.range_margin.__name__)"
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
+    assert out.split() == ["build_record", "range_margin"]
