@@ -22,9 +22,9 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "tests"))
 from synthetic import THREE_MODES, coastdown, hammer_test  # the tests' closed forms
 
-from resonance.field.coastdown import fit_modes
-from resonance.field.impact import circle_fit, impact_frf, peak_pick, rfp_fit
-from resonance.field.readers import CoastDown
+from resonance.kinds.field.coastdown import fit_modes
+from resonance.kinds.field.impact import circle_fit, impact_frf, peak_pick, rfp_fit
+from resonance.kinds.field.readers import CoastDown
 
 NOISE = (0.0, 0.001, 0.005, 0.02)
 BAND = (5.0, 150.0)

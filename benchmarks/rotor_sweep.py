@@ -19,7 +19,7 @@ import time
 import numpy as np
 from _load import one_core_busy
 
-from resonance.rotor import (
+from resonance.kinds.rotor import (
     Bearing,
     Disc,
     ShaftSection,

@@ -28,7 +28,7 @@ import numpy as np
 import scipy.linalg
 from _load import one_core_busy
 
-from resonance.torsion import (
+from resonance.kinds.torsion.train import (
     Coupling,
     GearMesh,
     Station,

@@ -3,7 +3,7 @@
 Prints, side by side in one run, the time to check 10 000 Latin-hypercube variants of
 ``notebooks/scenarios/feed_pump_foundation.toml`` (its six uncertain inputs) with
 
-* this package's batched path (``resonance.uncertainty.evaluate_chunk``: stacked matrices, one batched
+* this package's batched path (``resonance.studies.uncertainty.evaluate_chunk``: stacked matrices, one batched
   eigen-solve, vectorized margins), on one core (BLAS limited to one thread),
 * a per-sample loop over the existing flow: ``ModelSpec.build`` + ``model_modes`` + ``interference_check``
   (modes and findings, what the batched path computes), and
@@ -28,11 +28,11 @@ import numpy as np
 from _load import one_core_busy
 from threadpoolctl import threadpool_limits
 
-from resonance.interference import interference_check
-from resonance.modes import model_modes
-from resonance.scenario import load_scenario
-from resonance.study import run_study, study_modes
-from resonance.uncertainty import evaluate_chunk, sample_inputs, sensitivity_indices, uncertainty_spec
+from resonance.checks.interference import interference_check
+from resonance.dynamics.modes import model_modes
+from resonance.kinds.support.scenario import load_scenario
+from resonance.kinds.support.study import run_study, study_modes
+from resonance.studies.uncertainty import evaluate_chunk, sample_inputs, sensitivity_indices, uncertainty_spec
 
 SCENARIO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "feed_pump_foundation.toml"
 SAMPLES = 10_000

@@ -1,7 +1,7 @@
 """The ``check`` and ``compare`` commands.
 
 ``python -m resonance check SCENARIO [--html FILE] [--json FILE]`` runs a
-scenario of any registered kind (:mod:`resonance.studies`: support, rotor), prints the
+scenario of any registered kind (:mod:`resonance.studies.registry`: support, rotor), prints the
 text record, writes the self-contained HTML record and the JSON of inputs and
 findings when asked, and exits 0 when every check passes (``PASS`` or ``PASS
 WITH EXEMPTION``), 1 when any fails, and 2 on bad input (with a message naming
@@ -11,7 +11,7 @@ through a temporary file, so a failed run never leaves a partial record; the
 scenario and measurement files are only read.
 
 ``python -m resonance check A.toml B.toml plant/ --summary out/ [--workers N | --scheduler ADDRESS]`` checks
-a fleet (see :mod:`resonance.fleet`): one summary, each machine's records, exit 0 all pass, 1 any fails, 2 any
+a fleet (see :mod:`resonance.studies.fleet`): one summary, each machine's records, exit 0 all pass, 1 any fails, 2 any
 bad input (each bad file named; the rest still checked). ``--workers`` and ``--scheduler`` also spread an
 uncertainty study's work.
 
@@ -30,7 +30,7 @@ from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
-from .errors import InputTypeError, InputValueError
+from .core.errors import InputTypeError, InputValueError
 
 __all__ = ["main"]
 
@@ -117,9 +117,9 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 
 def _check(args: argparse.Namespace) -> int:
     # The study's modules are imported here, not at the top: --help and argument errors answer at once.
-    from .executors import executor_for
-    from .studies import RotorStudy, SupportStudy, study_kind_for
-    from .tables import atomic_write, read_scenario_bytes
+    from .core.executors import executor_for
+    from .records.tables import atomic_write, read_scenario_bytes
+    from .studies.registry import RotorStudy, SupportStudy, study_kind_for
 
     progress = sys.stderr.isatty()
     paths: list[Path] = args.scenario
@@ -157,7 +157,7 @@ def _check(args: argparse.Namespace) -> int:
 
 
 def _fleet(args: argparse.Namespace, executor: Any, progress: bool) -> int:
-    from .fleet import BAD_INPUT, fleet_summary_text, run_fleet
+    from .studies.fleet import BAD_INPUT, fleet_summary_text, run_fleet
 
     if args.html is not None or args.json is not None:
         raise InputValueError("--html/--json: a fleet writes one record per machine; give --summary FOLDER instead")
@@ -174,7 +174,7 @@ def _fleet(args: argparse.Namespace, executor: Any, progress: bool) -> int:
 
 
 def _compare(args: argparse.Namespace) -> int:
-    from .compare import compare_records, load_record
+    from .records.compare import compare_records, load_record
 
     comparison = compare_records(load_record(args.old), load_record(args.new))
     print(comparison.to_text())

@@ -4,7 +4,7 @@ from pathlib import Path
 
 import pytest
 
-from resonance.scenario import load_scenario
+from resonance.kinds.support.scenario import load_scenario
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 
@@ -31,6 +31,6 @@ def foundation(foundation_path):
 
 @pytest.fixture
 def fan():
-    from resonance.rotor.scenario import load_rotor_scenario
+    from resonance.kinds.rotor.scenario import load_rotor_scenario
 
     return load_rotor_scenario(SCENARIOS / "fan_rotor.toml")

@@ -22,7 +22,7 @@ from pathlib import Path
 import numpy as np
 import scipy.signal
 
-from resonance.field.readers import ImpactRecord
+from resonance.kinds.field.readers import ImpactRecord
 
 
 @dataclass(frozen=True)

@@ -20,8 +20,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import resonance as R
-from resonance.inputs import as_si, parse_quantity
-from resonance.rotor import (
+from resonance.core.inputs import as_si, parse_quantity
+from resonance.kinds.rotor import (
     Bearing,
     Disc,
     Material,
@@ -309,7 +309,7 @@ def test_bad_value_raises_the_package_error_naming_the_parameter(name, parameter
 
 
 def test_the_sweep_covers_every_public_constructor_and_function():
-    import resonance.rotor as rotor_api
+    import resonance.kinds.rotor as rotor_api
 
     results = {  # built by the package, not by users
         "ModeSet",

@@ -14,7 +14,11 @@ import numpy as np
 import pytest
 from test_api_guards import NONE, _bad_values, call_with_bad_value
 
-from resonance import frame, soil, space, speed_range, torsion, uncertainty
+from resonance.checks import speed_range
+from resonance.kinds.space import bodies as space
+from resonance.kinds.space import frame, soil
+from resonance.kinds.torsion import train as torsion
+from resonance.studies import uncertainty
 
 TRAIN = torsion.torsional_train(
     [torsion.Station("m", 2.0), torsion.Station("f", 1.0)], [torsion.Coupling(("m", "f"), 1e5, label="c")]
@@ -196,12 +200,12 @@ def test_bad_value_raises_the_package_error_naming_the_parameter(name, parameter
 
 CASES_MORE = {
     "executor_for": (
-        __import__("resonance.executors", fromlist=["executor_for"]).executor_for,
+        __import__("resonance.core.executors", fromlist=["executor_for"]).executor_for,
         {"where": None},
         {"where": "*"},
     ),
     "induction_slip": (
-        __import__("resonance.excitations", fromlist=["induction_slip"]).induction_slip,
+        __import__("resonance.checks.excitations", fromlist=["induction_slip"]).induction_slip,
         {"speed": [1000.0, 1500.0], "rated_speed": 1500.0, "rated_slip": 0.01, "load": "constant torque"},
         {"speed": "+", "rated_speed": "+", "rated_slip": "0", "load": "*"},
     ),
@@ -227,7 +231,8 @@ def test_more_bad_values_raise_the_package_error_naming_the_parameter(name, para
 
 
 def test_the_sweep_covers_every_public_function_of_the_newer_modules():
-    from resonance import executors, fleet
+    from resonance.core import executors
+    from resonance.studies import fleet
 
     built = {  # results and holders built by the package, or swept in their own tests
         "TorsionalShape",

@@ -19,8 +19,8 @@ import tomli_w
 import tomllib
 
 from resonance.cli import main
-from resonance.scenario import load_scenario
-from resonance.study import run_study
+from resonance.kinds.support.scenario import load_scenario
+from resonance.kinds.support.study import run_study
 
 
 def _write(tmp_path: Path, data: dict, name: str = "case.toml") -> Path:

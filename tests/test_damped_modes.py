@@ -17,8 +17,8 @@ import pytest
 import scipy.optimize
 from numpy.testing import assert_allclose
 
-from resonance.scenario import parse_scenario
-from resonance.study import run_study
+from resonance.kinds.support.scenario import parse_scenario
+from resonance.kinds.support.study import run_study
 
 M, K, ZETA = 1850.0, 115e6, 0.4
 G, ROTOR, N_MAX = 6.3, 420.0, 2800.0
@@ -103,8 +103,8 @@ def test_the_rule_can_be_switched_off_overridden_per_pair_or_narrowed(margin):
 
 
 def test_the_damped_fields_are_refused_where_no_amplitude_is_judged():
-    from resonance.tables import ScenarioError
-    from resonance.torsion_study import parse_torsion_scenario
+    from resonance.kinds.torsion.study import parse_torsion_scenario
+    from resonance.records.tables import ScenarioError
 
     tables = {
         "scenario": {"title": "two inertias", "units": "SI"},
@@ -122,7 +122,7 @@ def test_the_damped_fields_are_refused_where_no_amplitude_is_judged():
 def test_the_block_on_soil_demo_judges_its_radiation_damped_modes_by_amplitude():
     from pathlib import Path
 
-    from resonance.space_study import load_space_scenario, run_space_study
+    from resonance.kinds.space.study import load_space_scenario, run_space_study
 
     demo = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_skid_block.toml"
     result = run_space_study(load_space_scenario(demo), band=False)

@@ -13,12 +13,12 @@ import pytest
 import tomllib
 
 MODULES = [
-    "resonance.scenario",
-    "resonance.rotor.scenario",
-    "resonance.torsion_study",
-    "resonance.space_study",
-    "resonance.uncertainty",
-    "resonance.field.study",
+    "resonance.kinds.support.scenario",
+    "resonance.kinds.rotor.scenario",
+    "resonance.kinds.torsion.study",
+    "resonance.kinds.space.study",
+    "resonance.studies.uncertainty",
+    "resonance.kinds.field.study",
 ]
 
 
@@ -36,7 +36,7 @@ def test_docstring_examples_are_toml(module):
 
 
 def test_a_multiline_inline_table_is_refused_saying_why(tmp_path):
-    from resonance.tables import ScenarioError, read_scenario_file
+    from resonance.records.tables import ScenarioError, read_scenario_file
 
     path = tmp_path / "wrapped.toml"
     path.write_text('[torsion]\nstations = [\n  { name = "a",\n    inertia = "1 kg*m**2" },\n]\n')
@@ -45,7 +45,7 @@ def test_a_multiline_inline_table_is_refused_saying_why(tmp_path):
 
 
 def test_a_number_too_long_to_read_is_refused(tmp_path):
-    from resonance.tables import ScenarioError, read_scenario_file
+    from resonance.records.tables import ScenarioError, read_scenario_file
 
     path = tmp_path / "long.toml"
     path.write_text("[speed]\nmin = " + "1" * 5000 + "\n")
@@ -54,9 +54,9 @@ def test_a_number_too_long_to_read_is_refused(tmp_path):
 
 
 def test_the_torsional_docstring_example_is_a_train_the_parser_accepts():
-    from resonance.torsion_study import parse_torsion_scenario
+    from resonance.kinds.torsion.study import parse_torsion_scenario
 
-    tables = tomllib.loads(_blocks("resonance.torsion_study")[0])
+    tables = tomllib.loads(_blocks("resonance.kinds.torsion.study")[0])
     tables["scenario"] = {"title": "documented train"}
     scenario = parse_torsion_scenario(tables, "doc.toml")
     assert scenario.train.speed_ratio == {"driver": 1.0, "hs": 3.2}  # 96 / 30 teeth

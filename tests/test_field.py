@@ -19,9 +19,9 @@ import scipy.signal
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.field.coastdown import find_resonances, fit_modes, measured_findings, measured_modes
-from resonance.field.impact import circle_fit, h1_estimate, impact_frf, peak_pick, rfp_fit, stability_diagram
-from resonance.field.readers import DataFileError, ImpactRecord, read_coastdown, read_impact
+from resonance.kinds.field.coastdown import find_resonances, fit_modes, measured_findings, measured_modes
+from resonance.kinds.field.impact import circle_fit, h1_estimate, impact_frf, peak_pick, rfp_fit, stability_diagram
+from resonance.kinds.field.readers import DataFileError, ImpactRecord, read_coastdown, read_impact
 
 TRUTH_Z = 0.04  # modal damping of tools/make_field_data.py's invented machine
 
@@ -278,7 +278,7 @@ def test_tuning_recovers_known_changes(foundation):
     # "Measured" frequencies from the same model with the mounting softened 20 % and the soil stiffened
     # 30 % (invented); tuning both from the design values must recover the factors (regression of a
     # least-squares update, Friswell & Mottershead 1995 ch. 5) with no mismatch left.
-    from resonance.field.tuning import TuningParameter, apply_factors, tune_model
+    from resonance.kinds.field.tuning import TuningParameter, apply_factors, tune_model
 
     truth = apply_factors(
         foundation.model, [TuningParameter("spring", "mounting"), TuningParameter("spring", "soil")], [0.8, 1.3]
@@ -298,7 +298,7 @@ def test_tuning_recovers_known_changes(foundation):
 
 
 def test_tuning_errors(foundation):
-    from resonance.field.tuning import TuningParameter, tune_model
+    from resonance.kinds.field.tuning import TuningParameter, tune_model
 
     with pytest.raises(R.InputValueError, match=r"spring 'anchor' is not in the model"):
         tune_model(foundation.model, [20.0], [TuningParameter("spring", "anchor")])

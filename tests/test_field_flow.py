@@ -16,8 +16,9 @@ from numpy.testing import assert_allclose
 
 import resonance as R
 from resonance.cli import main
-from resonance.field.study import field_spec, run_field_study
-from resonance.scenario import ScenarioError, load_scenario, parse_scenario
+from resonance.kinds.field.study import field_spec, run_field_study
+from resonance.kinds.support.scenario import ScenarioError, load_scenario, parse_scenario
+from resonance.kinds.support.study import run_study
 from resonance.ui import FieldPanel
 
 
@@ -43,7 +44,7 @@ def test_field_study_against_the_truth(field_scenario, field_path):
     assert result.consistent_poles >= 1  # the consistency check across model orders confirms the 97 Hz mode
     assert not result.passed  # the field contradicts the design model, which passed
     assert R.interference_check(
-        list(R.study.run_study(field_scenario).modes),
+        list(run_study(field_scenario).modes),
         list(field_scenario.excitations),
         field_scenario.speed,
         field_scenario.rules,

@@ -11,11 +11,11 @@ from __future__ import annotations
 import dataclasses
 from pathlib import Path
 
-from resonance.field.study import SAME_MODE, run_field_study
-from resonance.interference import interference_check
-from resonance.margins import FlatRule
-from resonance.rules import RuleSet
-from resonance.scenario import load_scenario
+from resonance.checks.interference import interference_check
+from resonance.checks.margins import FlatRule
+from resonance.checks.rules import RuleSet
+from resonance.kinds.field.study import SAME_MODE, run_field_study
+from resonance.kinds.support.scenario import load_scenario
 
 DEMO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_on_pedestal.toml"
 

@@ -67,7 +67,7 @@ def test_a_fixed_speed_margin_and_its_fixes(tmp_path, capsys):
 
 
 def test_a_fixed_speed_panel_opens(tmp_path):
-    from resonance.scenario import load_scenario
+    from resonance.kinds.support.scenario import load_scenario
     from resonance.ui.panels import WhatIfPanel, single_mode_panel
 
     scenario = load_scenario(_fixed("cooling_water_pump.toml", tmp_path, 1200.0))
@@ -78,8 +78,8 @@ def test_a_fixed_speed_panel_opens(tmp_path):
 
 def test_a_fixed_speed_is_drawn_as_a_line_on_the_diagrams(tmp_path):
     # Common practice: a fixed-speed machine's operating "range" is one speed; a band of no width would vanish.
-    from resonance.scenario import load_scenario
-    from resonance.study import run_study
+    from resonance.kinds.support.scenario import load_scenario
+    from resonance.kinds.support.study import run_study
     from resonance.ui.plots import interference_figure
 
     result = run_study(load_scenario(_fixed("cooling_water_pump.toml", tmp_path, 1200.0)))

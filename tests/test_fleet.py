@@ -14,8 +14,8 @@ from pathlib import Path
 import pytest
 
 from resonance.cli import main
-from resonance.executors import DaskExecutor, ProcessExecutor
-from resonance.fleet import run_fleet
+from resonance.core.executors import DaskExecutor, ProcessExecutor
+from resonance.studies.fleet import run_fleet
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 
@@ -88,8 +88,8 @@ def test_long_work_shows_progress_bars(plant, capsys):
     # tqdm writes its bar to stderr in a terminal (an ipywidgets bar in a notebook).
     run_fleet([plant / "fan_rotor.toml"], progress=True)
     assert "fleet: 100%" in capsys.readouterr().err
-    from resonance.rotor.scenario import load_rotor_scenario
-    from resonance.rotor.study import run_rotor_study
+    from resonance.kinds.rotor.scenario import load_rotor_scenario
+    from resonance.kinds.rotor.study import run_rotor_study
 
     run_rotor_study(load_rotor_scenario(plant / "fan_rotor.toml"), progress=True)
     assert "Campbell sweep: 100%" in capsys.readouterr().err

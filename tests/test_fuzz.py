@@ -16,13 +16,13 @@ from typing import Any
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from resonance.errors import InputTypeError, InputValueError
-from resonance.record import build_record
-from resonance.rotor.record import build_rotor_record
-from resonance.rotor.scenario import parse_rotor_scenario
-from resonance.rotor.study import run_rotor_study
-from resonance.scenario import parse_scenario, read_scenario_file
-from resonance.study import run_study
+from resonance.core.errors import InputTypeError, InputValueError
+from resonance.kinds.rotor.record import build_rotor_record
+from resonance.kinds.rotor.scenario import parse_rotor_scenario
+from resonance.kinds.rotor.study import run_rotor_study
+from resonance.kinds.support.scenario import parse_scenario, read_scenario_file
+from resonance.kinds.support.study import run_study
+from resonance.records.record import build_record
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 SUPPORT = {
@@ -133,7 +133,7 @@ FIELD = read_scenario_file(SCENARIOS / "fan_on_pedestal.toml")
 @given(data=st.data())
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_field_tables_give_a_record_or_a_named_error(data):
-    from resonance.field.study import run_field_study
+    from resonance.kinds.field.study import run_field_study
 
     table = copy.deepcopy(FIELD)
     mutated = _mutate({"field": table["field"]}, data)
@@ -155,7 +155,7 @@ TORSION = read_scenario_file(SCENARIOS / "compressor_train.toml")
 @given(data=st.data())
 @settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_torsion_scenarios_give_a_record_or_a_named_error(data):
-    from resonance.torsion_study import build_torsion_record, parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.study import build_torsion_record, parse_torsion_scenario, run_torsion_study
 
     table = _mutate(TORSION, data)
     name = "compressor_train.toml"
@@ -168,7 +168,7 @@ SPACE = read_scenario_file(SCENARIOS / "fan_skid_block.toml")
 @given(data=st.data())
 @settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_space_scenarios_give_a_record_or_a_named_error(data):
-    from resonance.space_study import build_space_record, parse_space_scenario, run_space_study
+    from resonance.kinds.space.study import build_space_record, parse_space_scenario, run_space_study
 
     table = _mutate(SPACE, data)
     name = "fan_skid_block.toml"
@@ -182,7 +182,7 @@ BOOSTER = read_scenario_file(SCENARIOS / "feed_pump_foundation.toml")
 @settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_uncertainty_tables_are_read_or_refused_in_words(data):
     # The [uncertainty] table alone is mutated; its spec is validated (no sampling run: that is tested elsewhere).
-    from resonance.uncertainty import uncertainty_spec
+    from resonance.studies.uncertainty import uncertainty_spec
 
     table = copy.deepcopy(BOOSTER)
     mutated = _mutate({"uncertainty": table["uncertainty"]}, data)
@@ -202,7 +202,7 @@ def test_mutated_uncertainty_tables_are_read_or_refused_in_words(data):
 def test_mutated_scenarios_draw_their_html_record_or_are_refused_in_words(data, name):
     # The whole check flow through the registry, HTML record included (its figures once failed on a rotor whose
     # sweep ended below the first critical speed).
-    from resonance.studies import study_kind_for
+    from resonance.studies.registry import study_kind_for
     from resonance.ui.report import render_outcome_html
 
     table = _mutate(read_scenario_file(SCENARIOS / name), data)
@@ -219,7 +219,7 @@ def test_mutated_scenarios_draw_their_html_record_or_are_refused_in_words(data, 
 
 
 def test_a_rotor_swept_below_its_first_critical_draws_its_record():
-    from resonance.studies import study_kind_for
+    from resonance.studies.registry import study_kind_for
     from resonance.ui.report import render_outcome_html
 
     table = copy.deepcopy(ROTOR)

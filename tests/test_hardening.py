@@ -1,6 +1,6 @@
 """No bad input becomes a number: quantity text, magnitudes, output paths, field and rotor fields, edge cases.
 
-The accepted number grammar is the package's own (documented in resonance.inputs and the README); the
+The accepted number grammar is the package's own (documented in resonance.core.inputs and the README); the
 cases below are the kinds of mistakes a test engineer made in copies of the demo scenarios. Machines are
 invented demo values; "common practice" marks what no source pins.
 """
@@ -17,11 +17,11 @@ from numpy.testing import assert_allclose
 
 import resonance as R
 from resonance.cli import main
-from resonance.field.readers import DataFileError, read_coastdown
-from resonance.inputs import parse_quantity
-from resonance.rotor.scenario import parse_rotor_scenario, rotor_scenario_to_dict
-from resonance.rotor.study import run_rotor_study
-from resonance.scenario import ScenarioError, load_scenario, parse_scenario, scenario_to_dict
+from resonance.core.inputs import parse_quantity
+from resonance.kinds.field.readers import DataFileError, read_coastdown
+from resonance.kinds.rotor.scenario import parse_rotor_scenario, rotor_scenario_to_dict
+from resonance.kinds.rotor.study import run_rotor_study
+from resonance.kinds.support.scenario import ScenarioError, load_scenario, parse_scenario, scenario_to_dict
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 
@@ -93,8 +93,8 @@ def test_meaningless_numbers_are_refused_naming_the_field(pump, where, value, me
 
 
 def test_model_size_is_limited_up_front(pump, fan):
-    from resonance.rotor.scenario import MAX_ELEMENTS
-    from resonance.scenario import MAX_MASSES
+    from resonance.kinds.rotor.scenario import MAX_ELEMENTS
+    from resonance.kinds.support.scenario import MAX_MASSES
 
     table = scenario_to_dict(pump)
     n = MAX_MASSES + 1
@@ -195,7 +195,7 @@ def fan_field():
     ],
 )
 def test_field_errors_name_the_scenario_file_and_field(fan_field, edit, message):
-    from resonance.field.study import run_field_study
+    from resonance.kinds.field.study import run_field_study
 
     table = dict(fan_field.field)
     edit(table)
@@ -244,8 +244,7 @@ def test_rotor_sweep_below_the_first_critical_is_valid(fan):
     assert result.criticals == ()
     assert "Forward critical speeds: none in the sweep" in result.summary()
     assert "no critical speed to check" in result.summary()
-    R.record.build_record  # noqa: B018 - the support record module stays importable beside the rotor one
-    from resonance.rotor.record import build_rotor_record
+    from resonance.kinds.rotor.record import build_rotor_record
 
     assert "none within the sweep" in build_rotor_record(result).text
 
@@ -260,9 +259,9 @@ def test_rotor_sweep_below_the_first_critical_is_valid(fan):
     ],
 )
 def test_valid_support_edges_run_to_a_full_record(pump, edit):
-    from resonance.record import build_record
-    from resonance.study import run_study
-    from resonance.whatif import smallest_change, tolerance_check
+    from resonance.kinds.support.study import run_study
+    from resonance.kinds.support.whatif import smallest_change, tolerance_check
+    from resonance.records.record import build_record
 
     table = copy.deepcopy(scenario_to_dict(pump))
     edit(table)
@@ -274,8 +273,8 @@ def test_valid_support_edges_run_to_a_full_record(pump, edit):
 
 
 def test_big_models_are_refused_up_front_with_the_limit():
-    from resonance.model import MAX_DOF
-    from resonance.rotor import Bearing, ShaftSection, rotor_model
+    from resonance.dynamics.model import MAX_DOF
+    from resonance.kinds.rotor import Bearing, ShaftSection, rotor_model
 
     with pytest.raises(R.InputValueError, match=r"mass_matrix: 1001 degrees of freedom; this tool's dense solvers"):
         R.chain_model([1.0] * (MAX_DOF + 1), [1e3] * (MAX_DOF + 1))

@@ -17,9 +17,9 @@ import pytest
 from numpy.testing import assert_allclose
 from synthetic import THREE_MODES, ModalModel, coastdown, hammer_test, impact_file
 
-from resonance.field.coastdown import fit_modes
-from resonance.field.impact import circle_fit, impact_frf, peak_pick, rfp_fit, stability_diagram
-from resonance.field.readers import CoastDown, DataFileError, read_impact
+from resonance.kinds.field.coastdown import fit_modes
+from resonance.kinds.field.impact import circle_fit, impact_frf, peak_pick, rfp_fit, stability_diagram
+from resonance.kinds.field.readers import CoastDown, DataFileError, read_impact
 
 BAND = (5.0, 150.0)
 PEAK_BANDS = ((12.0, 24.0), (38.0, 56.0), (85.0, 120.0))

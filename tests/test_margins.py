@@ -18,6 +18,7 @@ from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 import resonance as R
+from resonance.checks.margins import range_margin
 
 
 def exact_half_power(zeta, fn):
@@ -105,10 +106,10 @@ def test_separation_margin_definitions():
 def test_separation_margin_with_skip_band():
     # A critical inside a drive skip band is measured from the nearer edge of the band.
     speeds = R.operating_range(900.0, 1800.0, [(1150.0, 1300.0)])
-    margin, location, side = R.margins.range_margin(1180.0, speeds)
+    margin, location, side = range_margin(1180.0, speeds)
     assert (location, side) == ("above", "above")
     assert_allclose(margin, 100 * (1180 - 1150) / 1150, rtol=1e-15)
-    margin, location, side = R.margins.range_margin(1290.0, speeds)
+    margin, location, side = range_margin(1290.0, speeds)
     assert (location, side) == ("below", "below")
     assert_allclose(margin, 100 * (1300 - 1290) / 1300, rtol=1e-15)
 

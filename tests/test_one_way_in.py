@@ -70,8 +70,8 @@ def test_a_start_imports_no_numerical_library(code):
     assert out.strip().splitlines()[-1] == "[]"
 
 
-def test_submodules_stay_reachable_as_attributes_in_a_fresh_interpreter():
-    # resonance.record, resonance.margins... were attributes in 0.2 (the package imported them eagerly).
-    code = "import resonance as R\nprint(R.record.build_record.__name__, R.margins.range_margin.__name__)"
+def test_the_layers_are_reachable_as_attributes_in_a_fresh_interpreter():
+    # The sub-packages load on first use like the public names (the flat 0.2 modules were eager attributes).
+    code = "import resonance as R\nprint(R.checks.__name__, R.kinds.__name__)"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
-    assert out.split() == ["build_record", "range_margin"]
+    assert out.split() == ["resonance.checks", "resonance.kinds"]

@@ -14,6 +14,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 import resonance as R
+from resonance.kinds.support.scenario import load_scenario
+from resonance.kinds.support.whatif import smallest_change
 from resonance.ui import RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 
 
@@ -81,7 +83,7 @@ def test_what_if_stiffness_and_solver(foundation):
     text = panel.solve("stiffness")
     assert text.startswith("Smallest stiffness fix: soften mounting by")
     assert panel.result.passed  # the slider was set to the fix
-    assert_allclose(panel.stiffness.value, R.whatif.smallest_change(foundation, "stiffness").scale, rtol=1e-3)
+    assert_allclose(panel.stiffness.value, smallest_change(foundation, "stiffness").scale, rtol=1e-3)
     assert len(panel.band.frequency_bands) == len(panel.result.modes)
     greys = [s for s in panel.figure.layout.shapes if s.fillcolor.startswith("rgba(120, 120, 120")]
     assert len(greys) == len(panel.result.modes)
@@ -103,7 +105,7 @@ def test_design_panel_save_keeps_existing_files(tmp_path, pump):
     target = tmp_path / "edited.toml"
     panel.speed.value = (1000, 1700)
     assert panel.save(target) == target
-    assert R.scenario.load_scenario(target).speed.speed_min == 1000.0
+    assert load_scenario(target).speed.speed_min == 1000.0
     target.write_text("# mine")
     assert panel.save(target) is None
     assert target.read_text() == "# mine"

@@ -30,8 +30,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from resonance.errors import InputValueError
-from resonance.rotor import (
+from resonance.core.errors import InputValueError
+from resonance.kinds.rotor import (
     STEEL,
     Bearing,
     Disc,
@@ -46,7 +46,7 @@ from resonance.rotor import (
     rotor_modes,
     unbalance_response_rotor,
 )
-from resonance.rotor.elements import shear_coefficient
+from resonance.kinds.rotor.elements import shear_coefficient
 
 E, G, RHO = STEEL.youngs_modulus, STEEL.shear_modulus, STEEL.density
 RIGID = 1e14  # N/m: a support far stiffer than any shaft here
@@ -201,7 +201,7 @@ def test_campbell_tracks_branches_and_critical_is_a_root():
     rotor = fan()
     data = campbell(rotor, np.linspace(0.0, 6000.0, 61), count=6)
     # Tracking: away from zero speed every tracked shape keeps its branch's whirl direction.
-    from resonance.rotor.analysis import _whirl
+    from resonance.kinds.rotor.analysis import _whirl
 
     for i in range(6, 61):
         assert _whirl(rotor, data.shapes[i]) == data.whirl

@@ -12,7 +12,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.rotor import (
+from resonance.kinds.rotor import (
     Bearing,
     Disc,
     Material,
@@ -26,7 +26,7 @@ from resonance.rotor import (
     rotor_modes,
     unbalance_response_rotor,
 )
-from resonance.rotor.analysis import deflected_shape
+from resonance.kinds.rotor.analysis import deflected_shape
 
 u = R.ureg
 IN, LBM, LBF = 0.0254, 0.45359237, 4.4482216152605

@@ -20,9 +20,11 @@ import pytest
 from numpy.testing import assert_allclose
 
 import resonance as R
+from resonance.checks.interference import verdict_line
 from resonance.cli import main
-from resonance.scenario import ScenarioError, load_scenario, parse_scenario, scenario_to_dict
-from resonance.study import run_study
+from resonance.kinds.support.scenario import ScenarioError, load_scenario, parse_scenario, scenario_to_dict
+from resonance.kinds.support.study import run_study
+from resonance.records.record import build_record
 
 FLAT = R.FlatRule(15.0)
 RULES = R.RuleSet(flat=FLAT)
@@ -78,7 +80,7 @@ def test_the_damped_skid_inside_the_range_fails():
     exempt = R.interference_check([rotor], [R.running_speed_order(1)], R.operating_range(1450, 1490), RULES)
     assert exempt[0].verdict == "EXEMPT"
     assert exempt.verdict == "PASS WITH EXEMPTION"
-    line = R.interference.verdict_line(exempt.verdict, exempt)
+    line = verdict_line(exempt.verdict, exempt)
     assert line.startswith("Verdict: PASS WITH EXEMPTION (rotor 1st x 1x inside the operating range, exempt: ")
 
 
@@ -196,14 +198,14 @@ def test_zones_are_an_estimate_and_never_acceptable_beside_a_failure(pump):
 
 
 def test_every_finding_states_its_af_source(pump, fan):
-    from resonance.rotor.study import run_rotor_study
+    from resonance.kinds.rotor.study import run_rotor_study
 
     support = run_study(pump)
     assert {f.mode.af_source for f in support.findings} == {"1/(2 zeta) of the assumed damping"}
     rotor = run_rotor_study(fan)
     assert rotor.findings[0].mode.af_source == "half-power of the computed unbalance response"
     assert rotor.findings[0].as_record()["amplification_factor_source"] == rotor.findings[0].mode.af_source
-    methods = " ".join(m["method"] for m in R.record.build_record(support).data["methods"])
+    methods = " ".join(m["method"] for m in build_record(support).data["methods"])
     assert "1/(2 zeta) of the assumed damping" in methods
     assert "half-power" not in methods  # the support record claims no method it did not use
 
@@ -215,7 +217,7 @@ def test_mode_labels_are_unique_and_say_what_moves(foundation):
 
 
 def test_records_in_us_units_show_us_units(pump):
-    record = R.record.build_record(run_study(pump.replace(units="US")))
+    record = build_record(run_study(pump.replace(units="US")))
     inputs = record.text.split("INPUTS", 1)[1].split("ASSUMPTIONS", 1)[0]
     assert "lbm" in inputs
     assert "lbf/in" in inputs
@@ -268,7 +270,7 @@ def test_html_record_prints_cleanly_and_shows_the_revision(tmp_path, foundation_
 
 
 def test_rotor_flow_refuses_fixed_sources_and_needs_flat_for_other_orders(fan):
-    from resonance.rotor.scenario import parse_rotor_scenario, rotor_scenario_to_dict
+    from resonance.kinds.rotor.scenario import parse_rotor_scenario, rotor_scenario_to_dict
 
     table = rotor_scenario_to_dict(fan)
     table["excitations"].append({"order": 2, "label": "2x"})
@@ -277,7 +279,7 @@ def test_rotor_flow_refuses_fixed_sources_and_needs_flat_for_other_orders(fan):
     table["margin"]["flat"] = 15
     assert parse_rotor_scenario(table).rules.flat.percent == 15.0
     table["excitations"].append({"frequency": "29.6 Hz", "label": "tower fan"})
-    from resonance.rotor.study import run_rotor_study
+    from resonance.kinds.rotor.study import run_rotor_study
 
     with pytest.raises(R.InputValueError, match=r"'tower fan' has a fixed frequency"):
         run_rotor_study(parse_rotor_scenario(table))

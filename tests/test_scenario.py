@@ -13,8 +13,14 @@ import tomllib
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.scenario import ScenarioError, load_scenario, parse_scenario, save_scenario, scenario_to_dict
-from resonance.study import run_study
+from resonance.kinds.support.scenario import (
+    ScenarioError,
+    load_scenario,
+    parse_scenario,
+    save_scenario,
+    scenario_to_dict,
+)
+from resonance.kinds.support.study import run_study
 
 
 def test_demo_scenarios_load(pump, foundation):

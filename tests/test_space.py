@@ -16,10 +16,9 @@ import pytest
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.model import Spring, lumped_model
-from resonance.modes import model_modes
-from resonance.soil import footing_impedance, soil_mount
-from resonance.space import (
+from resonance.dynamics.model import Spring, lumped_model
+from resonance.dynamics.modes import model_modes
+from resonance.kinds.space.bodies import (
     Mount,
     RigidBody,
     box_inertia,
@@ -30,6 +29,7 @@ from resonance.space import (
     space_response,
     unbalance_reference,
 )
+from resonance.kinds.space.soil import footing_impedance, soil_mount
 
 M, LX, LY, LZ = 20000.0, 4.0, 2.0, 1.5  # an invented block [kg, m]
 A, B, H = 1.8, 0.8, 0.75  # springs at (+-A, +-B, -H) from the centre of gravity
@@ -113,7 +113,7 @@ def test_receptance_is_reciprocal_between_points_of_two_bodies():
     model = space_model([skid, block], mounts)
     a, b = ("skid", [1.4, 0.3, 1.4]), ("block", [-1.5, 0.9, 0.5])
     f = np.array([7.0, 23.0, 61.0])
-    from resonance.space import PointLoad
+    from resonance.kinds.space.bodies import PointLoad
 
     for i in range(3):
         for j in range(3):
@@ -242,8 +242,8 @@ J = 0.229 * BW * BH**3  # St Venant's torsion constant, b/t = 2 (Roark table 10.
 
 
 def _cantilever(length=2.0, elements=12):
-    from resonance.frame import Beam
-    from resonance.space import FrameNode
+    from resonance.kinds.space.bodies import FrameNode
+    from resonance.kinds.space.frame import Beam
 
     nodes = [FrameNode(f"n{i}", [length * i / elements, 0.0, 0.0]) for i in range(elements + 1)]
     beams = [Beam(f"b{i}", f"n{i}", f"n{i + 1}", E, G, RHO, AREA, IY, IZ, J) for i in range(elements)]
@@ -272,8 +272,8 @@ def test_portal_frame_sway_with_a_machine_on_it():
     # middle at its level: sway stiffness 2 x 12 E I / h^3 (columns fixed at both ends), f = sqrt(k / M) / 2 pi
     # (hand statics), the moving mass being the machine, the girder and 13/35 of each column (Rayleigh with
     # the fixed-guided static deflection shape; Blevins, table 8-1, from memory).
-    from resonance.frame import Beam
-    from resonance.space import FrameNode
+    from resonance.kinds.space.bodies import FrameNode
+    from resonance.kinds.space.frame import Beam
 
     h, span, mass = 1.5, 2.0, 3000.0
     nodes = [
@@ -312,8 +312,8 @@ def test_portal_frame_sway_with_a_machine_on_it():
 
 
 def _frame_case(fixed=("a",), beam_end="b"):
-    from resonance.frame import Beam
-    from resonance.space import FrameNode
+    from resonance.kinds.space.bodies import FrameNode
+    from resonance.kinds.space.frame import Beam
 
     nodes = [FrameNode("a", [0, 0, 0]), FrameNode("b", [1, 0, 0])]
     beam = Beam("tube", "a", beam_end, E, G, RHO, AREA, IY, IZ, J)
@@ -338,8 +338,8 @@ def test_frame_element_in_a_plane_equals_the_rotors_beam_element():
     # With no shear deformation (phi = 0) the rotor's Timoshenko element is the Euler-Bernoulli beam: the frame
     # element's bending blocks in each principal plane must equal it (x-z with the rotation's sign flipped,
     # a right-handed rotation about y lowering w; Przemieniecki ch. 5).
-    from resonance.frame import Beam, beam_matrices
-    from resonance.rotor.elements import beam_stiffness, beam_translational_mass
+    from resonance.kinds.rotor.elements import beam_stiffness, beam_translational_mass
+    from resonance.kinds.space.frame import Beam, beam_matrices
 
     length = 0.4
     beam = Beam("b", "a", "c", E, G, RHO, AREA, IY, IZ, J)
@@ -387,7 +387,7 @@ def test_a_rectangular_footing_slides_more_stiffly_across_its_long_side():
     # K_y = 2 G L (2 + 2.5 chi^0.85) / (2 - nu), along it K_x = K_y - 0.2 G L (1 - B / L) / (0.75 - nu),
     # chi = B / L. Checks: a square gives one value, within 1 % of Gazetas' circle of equal area 8 G r / (2 - nu);
     # the long side along x or along y swaps the two; the footing impedance uses them.
-    from resonance.soil import footing_impedance, rectangular_sliding_stiffness
+    from resonance.kinds.space.soil import footing_impedance, rectangular_sliding_stiffness
 
     g, nu = 70e6, 0.33
     kx, ky = rectangular_sliding_stiffness(g, nu, 4.0, 4.0)

@@ -16,8 +16,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 from resonance.cli import main
-from resonance.errors import InputTypeError
-from resonance.tables import ScenarioError, read_scenario_file
+from resonance.core.errors import InputTypeError
+from resonance.records.tables import ScenarioError, read_scenario_file
 
 DEMO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_skid_block.toml"
 
@@ -87,7 +87,7 @@ def test_bad_space_scenarios_exit_2_naming_file_and_field(tmp_path, capsys, edit
 
 
 def test_parse_errors_are_scenario_errors():
-    from resonance.space_study import parse_space_scenario
+    from resonance.kinds.space.study import parse_space_scenario
 
     tables = _tables()
     tables["space"]["bodies"][0]["center"] = ["0 m", "0 m"]
@@ -96,7 +96,7 @@ def test_parse_errors_are_scenario_errors():
 
 
 def test_the_panel_follows_the_soil_and_the_mounts():
-    from resonance.space_study import load_space_scenario
+    from resonance.kinds.space.study import load_space_scenario
     from resonance.ui import SpacePanel
 
     panel = SpacePanel(load_space_scenario(DEMO))
@@ -120,8 +120,8 @@ def test_the_panel_follows_the_soil_and_the_mounts():
 
 
 def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
-    from resonance.space import orbit_major
-    from resonance.space_study import build_space_record, load_space_scenario, run_space_study
+    from resonance.kinds.space.bodies import orbit_major
+    from resonance.kinds.space.study import build_space_record, load_space_scenario, run_space_study
 
     scenario = load_space_scenario(DEMO)
     result = run_space_study(scenario)
@@ -144,7 +144,7 @@ def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
 def test_a_scenario_with_a_steel_frame_runs():
     # A machine attached to the middle node of a small welded skid (four rails in a square, a cross beam),
     # the skid's corners on isolators to ground: the frame, the attachment and the mounts from a file.
-    from resonance.space_study import parse_space_scenario, run_space_study
+    from resonance.kinds.space.study import parse_space_scenario, run_space_study
 
     section = {
         "youngs_modulus": "210 GPa",
@@ -215,7 +215,7 @@ def test_a_force_at_another_order_adds_in_quadrature():
     # One body on an isotropic mount at its centre, an unbalance at 1x and a force at 2x: the RMS velocity at the
     # centre is sqrt(v1^2 + v2^2), each v = w |u| / sqrt(2), u = F / (k - m w^2 + i w c) at its own frequency
     # (single degree of freedom per direction, closed form; ISO 21940-11 for the unbalance force U w^2).
-    from resonance.space_study import parse_space_scenario, run_space_study
+    from resonance.kinds.space.study import parse_space_scenario, run_space_study
 
     m, k, c, unb, force = 500.0, 4e7, 2e3, 0.002, 100.0
     tables = {
@@ -258,15 +258,15 @@ def test_a_force_at_another_order_adds_in_quadrature():
 
 def test_section_properties_and_rotational_damping_take_units():
     # 40 cm^2 = 4e-3 m^2, 120 in^4 = 120 x 0.0254^4 m^4 (NIST SP 811: 1 in = 0.0254 m exactly), 1 kN m s/rad.
-    from resonance.space_study import parse_space_scenario
+    from resonance.kinds.space.study import parse_space_scenario
 
     tables = _tables()
     tables["space"]["mounts"][0]["rotational_damping"] = ["1 kN*m*s/rad", 0, 0]
     scenario = parse_space_scenario(tables, "b.toml")
     mount = next(m for m in scenario.mounts if m.label == tables["space"]["mounts"][0]["label"])
     assert_allclose(mount.rotational_damping, [1e3, 0, 0], rtol=1e-12)
-    from resonance.frame import Beam
-    from resonance.units import ureg
+    from resonance.core.units import ureg
+    from resonance.kinds.space.frame import Beam
 
     q = ureg.Quantity
     b = Beam("girder", "a", "b", 210e9, 80e9, 7850.0, q(40, "cm**2"), q(120, "in**4"), q(80, "in**4"), q(2, "cm**4"))

@@ -1,7 +1,7 @@
 """One study layer: the registry picks the kind, every kind gives the same outcome shape, a new kind plugs in.
 
 A regression guard of the project's design (no outside source): the ``check`` command, the records and the
-HTML report go through :mod:`resonance.studies`, so a kind registered there runs end to end without any
+HTML report go through :mod:`resonance.studies.registry`, so a kind registered there runs end to end without any
 other change.
 """
 
@@ -15,11 +15,11 @@ from pathlib import Path
 import pytest
 
 import resonance as R
+from resonance.checks.interference import FindingsTable
 from resonance.cli import main
-from resonance.interference import FindingsTable
-from resonance.record import Record, record_head
-from resonance.studies import STUDY_KINDS, StudyOutcome, register_study_kind, run_scenario_file, study_kind_for
-from resonance.tables import RecordSpec, ScenarioError, TableReader, parse_head
+from resonance.records.record import Record, record_head
+from resonance.records.tables import RecordSpec, ScenarioError, TableReader, parse_head
+from resonance.studies.registry import STUDY_KINDS, StudyOutcome, register_study_kind, run_scenario_file, study_kind_for
 from resonance.ui.report import VIEWS, render_outcome_html
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
@@ -128,7 +128,7 @@ def test_the_flows_are_exported_at_the_top_level():
 
 def test_one_naming_convention_keeps_the_pinned_names():
     # Functions on a MatrixModel are model_*, on a Rotor rotor_*; the 0.1 names are the same functions.
-    import resonance.rotor as rotor_api
+    import resonance.kinds.rotor as rotor_api
 
     assert R.modal_properties is R.model_modes
     assert rotor_api.unbalance_response_rotor is rotor_api.rotor_unbalance_response

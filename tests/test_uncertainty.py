@@ -16,13 +16,15 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from resonance.batch import lumped_modes_batch
-from resonance.executors import DaskExecutor, ProcessExecutor, SerialExecutor, executor_for
-from resonance.modes import model_modes
-from resonance.scenario import load_scenario, parse_scenario
-from resonance.study import study_modes
-from resonance.tables import ScenarioError
-from resonance.uncertainty import (
+from resonance.core.executors import DaskExecutor, ProcessExecutor, SerialExecutor, executor_for
+from resonance.dynamics.batch import lumped_modes_batch
+from resonance.dynamics.modes import model_modes
+from resonance.kinds.support.scenario import load_scenario, parse_scenario
+from resonance.kinds.support.study import study_modes
+from resonance.kinds.support.variants import evaluate_variants
+from resonance.kinds.support.whatif import check_scaled, combined_fix_map, smallest_change
+from resonance.records.tables import ScenarioError
+from resonance.studies.uncertainty import (
     UncertainInput,
     UncertaintySpec,
     run_uncertainty,
@@ -30,8 +32,6 @@ from resonance.uncertainty import (
     sensitivity_indices,
     uncertainty_spec,
 )
-from resonance.variants import evaluate_variants
-from resonance.whatif import check_scaled, combined_fix_map, smallest_change
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 
@@ -277,7 +277,7 @@ def test_check_reports_the_uncertainty_study_and_its_record(booster, tmp_path, c
 def test_a_limit_on_the_failure_probability_fails_the_study(booster):
     import copy
 
-    from resonance.studies import SupportStudy
+    from resonance.studies.registry import SupportStudy
 
     table = copy.deepcopy(dict(booster.uncertainty))
     table["max_failure_probability"] = 0.05
@@ -288,7 +288,7 @@ def test_a_limit_on_the_failure_probability_fails_the_study(booster):
 
 
 def _rotor_with_uncertainty(samples: int = 24) -> dict:
-    from resonance.tables import read_scenario_file
+    from resonance.records.tables import read_scenario_file
 
     tables = read_scenario_file(SCENARIOS / "fan_rotor.toml")
     tables["uncertainty"] = {
@@ -307,9 +307,9 @@ def _rotor_with_uncertainty(samples: int = 24) -> dict:
 def test_rotor_bearing_coefficients_as_uncertain_inputs():
     # Each variant is the whole rotor study of the scenario with its bearings scaled: a variant's findings are
     # those of run_rotor_study on that scaled scenario (the reference), keyed by excitation and critical rank.
-    from resonance.rotor.scenario import parse_rotor_scenario, scale_bearing
-    from resonance.rotor.study import run_rotor_study
-    from resonance.speed_range import operating_range
+    from resonance.checks.speed_range import operating_range
+    from resonance.kinds.rotor.scenario import parse_rotor_scenario, scale_bearing
+    from resonance.kinds.rotor.study import run_rotor_study
 
     rotor = parse_rotor_scenario(_rotor_with_uncertainty(), "fan.toml")
     spec = uncertainty_spec(rotor.uncertainty, rotor, "fan.toml")
@@ -349,7 +349,7 @@ def test_check_runs_a_rotor_uncertainty_study(tmp_path, capsys):
 
 def test_a_failing_support_record_says_what_would_fix_it():
     # The record's fixes are the what-if solvers' own answers (single parameters, and the combined map's).
-    from resonance.studies import run_scenario_file
+    from resonance.studies.registry import run_scenario_file
 
     outcome = run_scenario_file(SCENARIOS / "feed_pump_foundation.toml")
     fixes = outcome.record.data["fixes"]
@@ -364,8 +364,8 @@ def test_a_failing_support_record_says_what_would_fix_it():
 def test_an_empty_uncertainty_table_is_refused_not_skipped():
     from pathlib import Path
 
-    from resonance.scenario import parse_scenario
-    from resonance.tables import read_scenario_file
+    from resonance.kinds.support.scenario import parse_scenario
+    from resonance.records.tables import read_scenario_file
 
     tables = read_scenario_file(
         Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "feed_pump_foundation.toml"

@@ -16,8 +16,8 @@ from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.inputs import PLAUSIBLE, as_matrix, as_si, as_si_array
-from resonance.units import display_unit, internal_unit
+from resonance.core.inputs import PLAUSIBLE, as_matrix, as_si, as_si_array
+from resonance.core.units import display_unit, internal_unit
 
 
 def test_rpm_is_one_cycle_per_minute():

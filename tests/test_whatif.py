@@ -13,9 +13,9 @@ import pytest
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.errors import InputValueError
-from resonance.modes import modal_properties
-from resonance.whatif import check_scaled, scaled_model, smallest_change, tolerance_check
+from resonance.core.errors import InputValueError
+from resonance.dynamics.modes import modal_properties
+from resonance.kinds.support.whatif import check_scaled, scaled_model, smallest_change, tolerance_check
 
 
 def test_scaled_single_mode_follows_sqrt_k_over_m(pump):

@@ -94,7 +94,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "later cells leave the panel above untouched, so a shared dashboard shows what it computed):"
         ),
         code(
-            "from resonance.whatif import check_scaled, smallest_change, tolerance_check\n\n"
+            "from resonance.kinds.support.whatif import check_scaled, smallest_change, tolerance_check\n\n"
             'mass_fix = smallest_change(scenario, "mass")\n'
             "print(mass_fix.describe(scenario.whatif.vary_masses))\n"
             'stiffness_fix = smallest_change(scenario, "stiffness")\n'
@@ -148,7 +148,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "touching the panel; move its slider to see the same)."
         ),
         code(
-            "from resonance.rotor import run_rotor_study\nfrom resonance.speed_range import operating_range\n\n"
+            "from resonance.kinds.rotor import run_rotor_study\nfrom resonance.checks.speed_range import operating_range\n\n"
             "faster = scenario.replace(speed=operating_range(900, 2200))\nprint(run_rotor_study(faster).summary())"
         ),
     ],
@@ -192,8 +192,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
         ),
         code(
             "import resonance as R\n"
-            "from resonance.torsion import scale_couplings\n"
-            "from resonance.torsion_study import run_torsion_study"
+            "from resonance.kinds.torsion.train import scale_couplings\n"
+            "from resonance.kinds.torsion.study import run_torsion_study"
         ),
         code(
             'scenario = R.load("scenarios/compressor_train.toml")\npanel = R.panel(scenario)\npanel',
@@ -245,7 +245,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "The same study runs in the `check` command with the scenario's record, and on several cores or a "
             "Dask cluster: `python -m resonance check scenarios/feed_pump_foundation.toml --workers 2` or "
             "`--scheduler tcp://host:8786`; in a notebook, pass `executor=DaskExecutor(client)` to "
-            "`resonance.uncertainty.run_uncertainty` with an open `dask.distributed.Client`. The result does not "
+            "`resonance.studies.uncertainty.run_uncertainty` with an open `dask.distributed.Client`. The result does not "
             "depend on where it ran."
         ),
     ],
@@ -258,7 +258,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "shear modulus** (the least certain input) and the **isolators' stiffness**: the modes in words "
             "(which body slides, rocks or twists), the findings by the flat margin, the chosen mode in 3D and "
             "the 1x unbalance response at the fan bearings in x, y and z follow. Soil properties belong to a "
-            "geotechnical engineer; the formulas are the textbook ones (from memory, see `resonance.soil`).\n\n"
+            "geotechnical engineer; the formulas are the textbook ones (from memory, see `resonance.kinds.space.soil`).\n\n"
         ),
         code("import resonance as R"),
         code(

@@ -6,7 +6,7 @@ and panels edit a scenario and re-run its study.
 
 from typing import Any
 
-from ..errors import InputTypeError
+from ..core.errors import InputTypeError
 from .field_panel import FieldPanel
 from .panels import DesignPanel, RecordPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 from .rotor_panel import RotorPanel
@@ -35,10 +35,10 @@ def panel(scenario: Any) -> Any:
     InputTypeError
         An object that is not a scenario of a kind with a panel.
     """
-    from ..rotor.scenario import RotorScenario
-    from ..scenario import Scenario
-    from ..space_study import SpaceScenario
-    from ..torsion_study import TorsionScenario
+    from ..kinds.rotor.scenario import RotorScenario
+    from ..kinds.space.study import SpaceScenario
+    from ..kinds.support.scenario import Scenario
+    from ..kinds.torsion.study import TorsionScenario
 
     if isinstance(scenario, Scenario):
         return single_mode_panel(scenario) if len(scenario.model.masses) == 1 else multi_mode_panel(scenario)

@@ -8,8 +8,8 @@ from pathlib import Path
 
 import ipywidgets as w
 
-from ..field.study import FieldStudyResult, run_field_study
-from ..scenario import Scenario
+from ..kinds.field.study import FieldStudyResult, run_field_study
+from ..kinds.support.scenario import Scenario
 from .field_plots import (
     bode_figure,
     impact_figure,

@@ -6,9 +6,9 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from ..field.study import FieldStudyResult
-from ..scenario import Scenario
-from ..units import UnitSystem, display_unit
+from ..core.units import UnitSystem, display_unit
+from ..kinds.field.study import FieldStudyResult
+from ..kinds.support.scenario import Scenario
 from .plots import FAIL, OPERATING, PASS, vertical_bands
 
 __all__ = [

@@ -3,7 +3,7 @@
 A panel holds a scenario, lets the user edit the speed range, the damping and
 the unit system (and, in the what-if panel, support stiffness, mass, a drive
 skip band and the tolerance band), re-runs the one flow
-(:func:`resonance.study.run_study`) on every change and updates its figures'
+(:func:`resonance.kinds.support.study.run_study`) on every change and updates its figures'
 traces in place. Panels can be driven without a browser: set a control's
 ``.value`` and the result, the text and the figure data change at once.
 """
@@ -17,14 +17,21 @@ from pathlib import Path
 
 import ipywidgets as w
 
-from ..damping import amplification_factor_from_damping_ratio, log_decrement
-from ..errors import InputValueError
-from ..record import Record, build_record, write_json
-from ..scenario import Scenario, load_scenario, save_scenario
-from ..speed_range import operating_range
-from ..study import StudyResult, run_study
-from ..units import display_unit
-from ..whatif import FixMap, ToleranceResult, combined_fix_map, scaled_model, smallest_change, tolerance_check
+from ..checks.speed_range import operating_range
+from ..core.errors import InputValueError
+from ..core.units import display_unit
+from ..dynamics.damping import amplification_factor_from_damping_ratio, log_decrement
+from ..kinds.support.scenario import Scenario, load_scenario, save_scenario
+from ..kinds.support.study import StudyResult, run_study
+from ..kinds.support.whatif import (
+    FixMap,
+    ToleranceResult,
+    combined_fix_map,
+    scaled_model,
+    smallest_change,
+    tolerance_check,
+)
+from ..records.record import Record, build_record, write_json
 from .plots import (
     findings_table_html,
     interference_figure,

@@ -17,14 +17,14 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from ..excitations import Excitation
-from ..interference import FindingsTable
-from ..margins import clear_band
-from ..modes import Mode
-from ..speed_range import OperatingRange
-from ..study import StudyResult
-from ..units import UnitSystem, display_unit
-from ..whatif import ToleranceResult
+from ..checks.excitations import Excitation
+from ..checks.interference import FindingsTable
+from ..checks.margins import clear_band
+from ..checks.speed_range import OperatingRange
+from ..core.units import UnitSystem, display_unit
+from ..dynamics.modes import Mode
+from ..kinds.support.study import StudyResult
+from ..kinds.support.whatif import ToleranceResult
 
 __all__ = [
     "CheckedStudy",

@@ -6,8 +6,8 @@ import html
 
 import ipywidgets as w
 
-from ..rotor.scenario import RotorScenario
-from ..rotor.study import RotorStudyResult, run_rotor_study
+from ..kinds.rotor.scenario import RotorScenario
+from ..kinds.rotor.study import RotorStudyResult, run_rotor_study
 from .plots import findings_table_html
 from .rotor_plots import (
     campbell_figure,

@@ -1,7 +1,7 @@
 """Plotly figures of rotor results: Campbell diagram, unbalance response, critical speed map, mode shapes.
 
 As in :mod:`.plots`, each view has a builder (fixed traces) and an updater
-that fills them from a :class:`~resonance.rotor.study.RotorStudyResult`.
+that fills them from a :class:`~resonance.kinds.rotor.study.RotorStudyResult`.
 """
 
 from __future__ import annotations
@@ -9,9 +9,9 @@ from __future__ import annotations
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from ..margins import clear_band
-from ..rotor.study import RotorStudyResult
-from ..units import UnitSystem, display_unit
+from ..checks.margins import clear_band
+from ..core.units import UnitSystem, display_unit
+from ..kinds.rotor.study import RotorStudyResult
 from .plots import CLEAR_BAND, FAIL, OPERATING, PASS, vertical_bands
 
 __all__ = [

@@ -11,9 +11,9 @@ import html
 import numpy as np
 import plotly.graph_objects as go
 
-from ..space import equivalent_box
-from ..space_study import SpaceStudyResult
-from ..units import UnitSystem, display_unit
+from ..core.units import UnitSystem, display_unit
+from ..kinds.space.bodies import equivalent_box
+from ..kinds.space.study import SpaceStudyResult
 from .plots import OPERATING, vertical_bands
 
 __all__ = [

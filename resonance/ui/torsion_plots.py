@@ -11,8 +11,8 @@ import math
 
 import plotly.graph_objects as go
 
-from ..torsion_study import TorsionStudyResult
-from ..units import UnitSystem, display_unit
+from ..core.units import UnitSystem, display_unit
+from ..kinds.torsion.study import TorsionStudyResult
 
 __all__ = [
     "torque_figure",

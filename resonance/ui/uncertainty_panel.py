@@ -7,9 +7,9 @@ import html
 
 import ipywidgets as w
 
-from ..scenario import Scenario
-from ..uncertainty import UncertaintyResult, UncertaintySpec, run_uncertainty, uncertainty_spec
-from ..whatif import FixMap, combined_fix_map
+from ..kinds.support.scenario import Scenario
+from ..kinds.support.whatif import FixMap, combined_fix_map
+from ..studies.uncertainty import UncertaintyResult, UncertaintySpec, run_uncertainty, uncertainty_spec
 from .uncertainty_plots import (
     failure_probability_figure,
     fix_map_figure,
@@ -43,7 +43,7 @@ class UncertaintyPanel(Panel):
 
     def __init__(self, scenario: Scenario):
         if not scenario.uncertainty:
-            raise ValueError("scenario: has no [uncertainty] table; add one (see resonance.uncertainty)")
+            raise ValueError("scenario: has no [uncertainty] table; add one (see resonance.studies.uncertainty)")
         self.scenario = scenario
         self.base: UncertaintySpec = uncertainty_spec(scenario.uncertainty, scenario, scenario.source)
         self.samples = w.Dropdown(

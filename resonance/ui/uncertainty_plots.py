@@ -11,8 +11,8 @@ import math
 import numpy as np
 import plotly.graph_objects as go
 
-from ..uncertainty import UncertaintyResult
-from ..whatif import FixMap
+from ..kinds.support.whatif import FixMap
+from ..studies.uncertainty import UncertaintyResult
 from .plots import FAIL, PASS
 
 __all__ = [
@@ -166,7 +166,7 @@ def fix_map_figure(fixes: FixMap, widget: bool = False) -> go.Figure:
     Parameters
     ----------
     fixes : FixMap
-        From :func:`resonance.whatif.combined_fix_map`.
+        From :func:`resonance.kinds.support.whatif.combined_fix_map`.
     widget : bool
         Return a ``go.FigureWidget``.
 

@@ -11,10 +11,10 @@ import math
 
 import ipywidgets as w
 
-from ..errors import InputValueError
-from ..record import CAUTION
-from ..speed_range import OperatingRange, operating_range
-from ..units import UnitSystem
+from ..checks.speed_range import OperatingRange, operating_range
+from ..core.errors import InputValueError
+from ..core.units import UnitSystem
+from ..records.record import CAUTION
 
 __all__ = ["Panel", "caution_banner", "slider_range", "speed_slider", "units_toggle", "verdict_html"]
 
