@@ -21,9 +21,9 @@ from pathlib import Path
 from _load import one_core_busy
 
 from resonance.kinds.rotor.scenario import load_rotor_scenario
-from resonance.kinds.space.study import load_space_scenario
+from resonance.kinds.space.scenario import load_space_scenario
 from resonance.kinds.support.scenario import load_scenario
-from resonance.kinds.torsion.study import load_torsion_scenario
+from resonance.kinds.torsion.scenario import load_torsion_scenario
 from resonance.ui import RotorPanel, SpacePanel, TorsionPanel, WhatIfPanel, multi_mode_panel, single_mode_panel
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"

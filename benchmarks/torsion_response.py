@@ -28,16 +28,9 @@ import numpy as np
 import scipy.linalg
 from _load import one_core_busy
 
-from resonance.kinds.torsion.train import (
-    Coupling,
-    GearMesh,
-    Station,
-    TorsionalShaft,
-    TorsionalTrain,
-    torque_response,
-    torsional_modes,
-    torsional_train,
-)
+from resonance.kinds.torsion.elements import Coupling, GearMesh, Station, TorsionalShaft
+from resonance.kinds.torsion.response import torque_response
+from resonance.kinds.torsion.train import TorsionalTrain, torsional_modes, torsional_train
 
 SPEEDS = np.linspace(300.0, 3600.0, 2000)  # driver rpm
 

@@ -17,11 +17,13 @@ from test_api_guards import NONE, _bad_values, call_with_bad_value
 from resonance.checks import speed_range
 from resonance.kinds.space import bodies as space
 from resonance.kinds.space import frame, soil
+from resonance.kinds.torsion import elements
+from resonance.kinds.torsion import response as torsion_response
 from resonance.kinds.torsion import train as torsion
 from resonance.studies import uncertainty
 
 TRAIN = torsion.torsional_train(
-    [torsion.Station("m", 2.0), torsion.Station("f", 1.0)], [torsion.Coupling(("m", "f"), 1e5, label="c")]
+    [elements.Station("m", 2.0), elements.Station("f", 1.0)], [elements.Coupling(("m", "f"), 1e5, label="c")]
 )
 BODY = space.RigidBody("skid", 500.0, [0.0, 0.0, 0.0], space.box_inertia(500.0, 2.0, 1.0, 0.5))
 MOUNT = space.Mount("pad", [0.0, 0.0, -0.25], "skid", stiffness=[1e7, 1e7, 1e7], rotational_stiffness=[1e6] * 3)
@@ -29,28 +31,33 @@ MODEL = space.space_model([BODY], [MOUNT])
 
 # name: (callable, good keyword arguments, {parameter: "+" positive | "0" nonnegative | "*" any sign})
 CASES = {
-    "Station": (torsion.Station, {"name": "m", "inertia": 2.0}, {"inertia": "+"}),
+    "Station": (elements.Station, {"name": "m", "inertia": 2.0}, {"inertia": "+"}),
     "TorsionalShaft": (
-        torsion.TorsionalShaft,
+        elements.TorsionalShaft,
         {"between": ("a", "b"), "stiffness": 1e5, "damping": 10.0},
         {"stiffness": "+", "damping": "0"},
     ),
-    "Coupling": (torsion.Coupling, {"between": ("a", "b"), "stiffness": 1e5}, {"stiffness": "+", "damping": "0"}),
-    "GearMesh": (torsion.GearMesh, {"gear": "g", "pinion": "p", "ratio": 3.2}, {"ratio": "+"}),
+    "Coupling": (elements.Coupling, {"between": ("a", "b"), "stiffness": 1e5}, {"stiffness": "+", "damping": "0"}),
+    "GearMesh": (elements.GearMesh, {"gear": "g", "pinion": "p", "ratio": 3.2}, {"ratio": "+"}),
     "hollow_shaft_stiffness": (
-        torsion.hollow_shaft_stiffness,
+        elements.hollow_shaft_stiffness,
         {"shear_modulus": 80e9, "length": 1.0, "outer_diameter": 0.1},
         {"shear_modulus": "+", "length": "+", "outer_diameter": "+", "inner_diameter": "0"},
     ),
     "stepped_shaft_stiffness": (
-        torsion.stepped_shaft_stiffness,
+        elements.stepped_shaft_stiffness,
         {"shear_modulus": 80e9, "sections": [(1.0, 0.1, 0.0)]},
         {"shear_modulus": "+", "sections": "*"},
+    ),
+    "shaft_order": (
+        torsion.shaft_order,
+        {"train": TRAIN, "shaft": "driver", "order": 2.0},
+        {"train": "*", "shaft": "*", "order": "+"},
     ),
     "scale_couplings": (torsion.scale_couplings, {"train": TRAIN, "factor": 1.2}, {"train": "*", "factor": "+"}),
     "scale_dampers": (torsion.scale_dampers, {"train": TRAIN, "factor": 1.2}, {"train": "*", "factor": "+"}),
     "torque_response": (
-        torsion.torque_response,
+        torsion_response.torque_response,
         {"train": TRAIN, "torques": {"m": 10.0}, "frequency": [5.0, 10.0]},
         {"train": "*", "torques": "*", "frequency": "+"},
     ),
@@ -60,8 +67,8 @@ CASES = {
     "torsional_train": (
         torsion.torsional_train,
         {
-            "stations": [torsion.Station("m", 2.0), torsion.Station("f", 1.0)],
-            "springs": [torsion.Coupling(("m", "f"), 1e5)],
+            "stations": [elements.Station("m", 2.0), elements.Station("f", 1.0)],
+            "springs": [elements.Coupling(("m", "f"), 1e5)],
         },
         {"stations": "*", "springs": "*", "meshes": "*"},
     ),
@@ -205,7 +212,7 @@ CASES_MORE = {
         {"where": "*"},
     ),
     "induction_slip": (
-        __import__("resonance.checks.excitations", fromlist=["induction_slip"]).induction_slip,
+        __import__("resonance.checks.electrical", fromlist=["induction_slip"]).induction_slip,
         {"speed": [1000.0, 1500.0], "rated_speed": 1500.0, "rated_slip": 0.01, "load": "constant torque"},
         {"speed": "+", "rated_speed": "+", "rated_slip": "0", "load": "*"},
     ),
@@ -267,6 +274,6 @@ def test_the_sweep_covers_every_public_function_of_the_newer_modules():
         "fleet_summary_text",
         "run_fleet",  # files and folders: tests/test_fleet.py
     }
-    modules = (torsion, space, frame, soil, speed_range, uncertainty, executors, fleet)
+    modules = (torsion, elements, torsion_response, space, frame, soil, speed_range, uncertainty, executors, fleet)
     public = {n for m in modules for n in m.__all__ if callable(getattr(m, n))}
     assert public - built - set(CASES) - set(CASES_MORE) == set()

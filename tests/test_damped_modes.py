@@ -103,7 +103,7 @@ def test_the_rule_can_be_switched_off_overridden_per_pair_or_narrowed(margin):
 
 
 def test_the_damped_fields_are_refused_where_no_amplitude_is_judged():
-    from resonance.kinds.torsion.study import parse_torsion_scenario
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
     from resonance.records.tables import ScenarioError
 
     tables = {
@@ -122,7 +122,8 @@ def test_the_damped_fields_are_refused_where_no_amplitude_is_judged():
 def test_the_block_on_soil_demo_judges_its_radiation_damped_modes_by_amplitude():
     from pathlib import Path
 
-    from resonance.kinds.space.study import load_space_scenario, run_space_study
+    from resonance.kinds.space.scenario import load_space_scenario
+    from resonance.kinds.space.study import run_space_study
 
     demo = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "fan_skid_block.toml"
     result = run_space_study(load_space_scenario(demo), band=False)

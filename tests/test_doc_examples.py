@@ -12,11 +12,9 @@ import re
 import pytest
 import tomllib
 
+#: Each kind's scenario module documents its tables; so do the uncertainty and field tables.
 MODULES = [
-    "resonance.kinds.support.scenario",
-    "resonance.kinds.rotor.scenario",
-    "resonance.kinds.torsion.study",
-    "resonance.kinds.space.study",
+    *(f"resonance.kinds.{kind}.scenario" for kind in ("support", "rotor", "torsion", "space")),
     "resonance.studies.uncertainty",
     "resonance.kinds.field.study",
 ]
@@ -54,9 +52,9 @@ def test_a_number_too_long_to_read_is_refused(tmp_path):
 
 
 def test_the_torsional_docstring_example_is_a_train_the_parser_accepts():
-    from resonance.kinds.torsion.study import parse_torsion_scenario
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
 
-    tables = tomllib.loads(_blocks("resonance.kinds.torsion.study")[0])
+    tables = tomllib.loads(_blocks("resonance.kinds.torsion.scenario")[0])
     tables["scenario"] = {"title": "documented train"}
     scenario = parse_torsion_scenario(tables, "doc.toml")
     assert scenario.train.speed_ratio == {"driver": 1.0, "hs": 3.2}  # 96 / 30 teeth

@@ -20,9 +20,9 @@ from resonance.core.errors import InputTypeError, InputValueError
 from resonance.kinds.rotor.record import build_rotor_record
 from resonance.kinds.rotor.scenario import parse_rotor_scenario
 from resonance.kinds.rotor.study import run_rotor_study
+from resonance.kinds.support.record import build_record
 from resonance.kinds.support.scenario import parse_scenario, read_scenario_file
 from resonance.kinds.support.study import run_study
-from resonance.records.record import build_record
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 SUPPORT = {
@@ -155,7 +155,9 @@ TORSION = read_scenario_file(SCENARIOS / "compressor_train.toml")
 @given(data=st.data())
 @settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_torsion_scenarios_give_a_record_or_a_named_error(data):
-    from resonance.kinds.torsion.study import build_torsion_record, parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.record import build_torsion_record
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
+    from resonance.kinds.torsion.study import run_torsion_study
 
     table = _mutate(TORSION, data)
     name = "compressor_train.toml"
@@ -168,7 +170,9 @@ SPACE = read_scenario_file(SCENARIOS / "fan_skid_block.toml")
 @given(data=st.data())
 @settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 def test_mutated_space_scenarios_give_a_record_or_a_named_error(data):
-    from resonance.kinds.space.study import build_space_record, parse_space_scenario, run_space_study
+    from resonance.kinds.space.record import build_space_record
+    from resonance.kinds.space.scenario import parse_space_scenario
+    from resonance.kinds.space.study import run_space_study
 
     table = _mutate(SPACE, data)
     name = "fan_skid_block.toml"

@@ -259,9 +259,9 @@ def test_rotor_sweep_below_the_first_critical_is_valid(fan):
     ],
 )
 def test_valid_support_edges_run_to_a_full_record(pump, edit):
+    from resonance.kinds.support.record import build_record
     from resonance.kinds.support.study import run_study
     from resonance.kinds.support.whatif import smallest_change, tolerance_check
-    from resonance.records.record import build_record
 
     table = copy.deepcopy(scenario_to_dict(pump))
     edit(table)

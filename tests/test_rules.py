@@ -22,9 +22,9 @@ from numpy.testing import assert_allclose
 import resonance as R
 from resonance.checks.interference import verdict_line
 from resonance.cli import main
+from resonance.kinds.support.record import build_record
 from resonance.kinds.support.scenario import ScenarioError, load_scenario, parse_scenario, scenario_to_dict
 from resonance.kinds.support.study import run_study
-from resonance.records.record import build_record
 
 FLAT = R.FlatRule(15.0)
 RULES = R.RuleSet(flat=FLAT)

@@ -87,7 +87,7 @@ def test_bad_space_scenarios_exit_2_naming_file_and_field(tmp_path, capsys, edit
 
 
 def test_parse_errors_are_scenario_errors():
-    from resonance.kinds.space.study import parse_space_scenario
+    from resonance.kinds.space.scenario import parse_space_scenario
 
     tables = _tables()
     tables["space"]["bodies"][0]["center"] = ["0 m", "0 m"]
@@ -96,7 +96,7 @@ def test_parse_errors_are_scenario_errors():
 
 
 def test_the_panel_follows_the_soil_and_the_mounts():
-    from resonance.kinds.space.study import load_space_scenario
+    from resonance.kinds.space.scenario import load_space_scenario
     from resonance.ui import SpacePanel
 
     panel = SpacePanel(load_space_scenario(DEMO))
@@ -121,7 +121,9 @@ def test_the_panel_follows_the_soil_and_the_mounts():
 
 def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
     from resonance.kinds.space.bodies import orbit_major
-    from resonance.kinds.space.study import build_space_record, load_space_scenario, run_space_study
+    from resonance.kinds.space.record import build_space_record
+    from resonance.kinds.space.scenario import load_space_scenario
+    from resonance.kinds.space.study import run_space_study
 
     scenario = load_space_scenario(DEMO)
     result = run_space_study(scenario)
@@ -144,7 +146,8 @@ def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
 def test_a_scenario_with_a_steel_frame_runs():
     # A machine attached to the middle node of a small welded skid (four rails in a square, a cross beam),
     # the skid's corners on isolators to ground: the frame, the attachment and the mounts from a file.
-    from resonance.kinds.space.study import parse_space_scenario, run_space_study
+    from resonance.kinds.space.scenario import parse_space_scenario
+    from resonance.kinds.space.study import run_space_study
 
     section = {
         "youngs_modulus": "210 GPa",
@@ -215,7 +218,8 @@ def test_a_force_at_another_order_adds_in_quadrature():
     # One body on an isotropic mount at its centre, an unbalance at 1x and a force at 2x: the RMS velocity at the
     # centre is sqrt(v1^2 + v2^2), each v = w |u| / sqrt(2), u = F / (k - m w^2 + i w c) at its own frequency
     # (single degree of freedom per direction, closed form; ISO 21940-11 for the unbalance force U w^2).
-    from resonance.kinds.space.study import parse_space_scenario, run_space_study
+    from resonance.kinds.space.scenario import parse_space_scenario
+    from resonance.kinds.space.study import run_space_study
 
     m, k, c, unb, force = 500.0, 4e7, 2e3, 0.002, 100.0
     tables = {
@@ -258,7 +262,7 @@ def test_a_force_at_another_order_adds_in_quadrature():
 
 def test_section_properties_and_rotational_damping_take_units():
     # 40 cm^2 = 4e-3 m^2, 120 in^4 = 120 x 0.0254^4 m^4 (NIST SP 811: 1 in = 0.0254 m exactly), 1 kN m s/rad.
-    from resonance.kinds.space.study import parse_space_scenario
+    from resonance.kinds.space.scenario import parse_space_scenario
 
     tables = _tables()
     tables["space"]["mounts"][0]["rotational_damping"] = ["1 kN*m*s/rad", 0, 0]

@@ -18,15 +18,8 @@ import scipy.optimize
 from numpy.testing import assert_allclose
 
 import resonance as R
-from resonance.kinds.torsion.train import (
-    Coupling,
-    GearMesh,
-    Station,
-    TorsionalShaft,
-    hollow_shaft_stiffness,
-    torsional_modes,
-    torsional_train,
-)
+from resonance.kinds.torsion.elements import Coupling, GearMesh, Station, TorsionalShaft, hollow_shaft_stiffness
+from resonance.kinds.torsion.train import torsional_modes, torsional_train
 
 
 def _elastic(train):
@@ -189,8 +182,7 @@ def test_shapes_name_the_element_that_twists_most():
 
 
 def test_torsional_modes_meet_the_torsional_rule_through_the_interference_check():
-    from resonance.checks.excitations import shaft_order
-    from resonance.kinds.torsion.train import torsional_mode_list
+    from resonance.kinds.torsion.train import shaft_order, torsional_mode_list
 
     train = _geared()
     modes = torsional_mode_list(train, damping_ratio=0.02)
@@ -209,7 +201,7 @@ def test_torsional_modes_meet_the_torsional_rule_through_the_interference_check(
 
 
 def test_torque_response_against_a_direct_solve_of_the_hand_referred_train():
-    from resonance.kinds.torsion.train import torque_response
+    from resonance.kinds.torsion.response import torque_response
 
     n, jm, jg, jp, jc = 3.2, 6.0, 1.1, 0.05, 0.4
     kc, cc, ks = 4e4, 30.0, 6e6
@@ -242,7 +234,7 @@ def test_torque_response_against_a_direct_solve_of_the_hand_referred_train():
 def test_torque_response_quasi_static_limit():
     # Far below the first mode a torque T0 on J1 accelerates both inertias together: the coupling passes the
     # share J2 / (J1 + J2) of it (rigid-body dynamics).
-    from resonance.kinds.torsion.train import torque_response
+    from resonance.kinds.torsion.response import torque_response
 
     train = torsional_train([Station("a", 3.0), Station("b", 1.0)], [Coupling(("a", "b"), 1e6, label="c")])
     out = torque_response(train, {"a": 100.0}, [0.01])
@@ -255,7 +247,7 @@ def test_torque_response_with_modal_damping_against_a_direct_solve():
     # A modal damping ratio on every mode is the damping matrix C = J Phi diag(2 zeta w_r) Phi^T J
     # (mass-normalized Phi; Ewins, Modal Testing, 2nd ed., sec. 2.3); a direct complex solve with that matrix
     # is the reference, and the element torque is then the spring's torque.
-    from resonance.kinds.torsion.train import torque_response
+    from resonance.kinds.torsion.response import torque_response
 
     train = torsional_train(
         [Station("a", 2.0), Station("b", 0.5), Station("c", 1.5)],
@@ -277,7 +269,7 @@ def test_torque_response_with_modal_damping_against_a_direct_solve():
 
 
 def test_torque_response_refuses_a_static_torque_and_bad_damping():
-    from resonance.kinds.torsion.train import torque_response
+    from resonance.kinds.torsion.response import torque_response
 
     train = torsional_train([Station("a", 3.0), Station("b", 1.0)], [Coupling(("a", "b"), 1e6, label="c")])
     with pytest.raises(R.InputValueError, match="frequency"):
@@ -379,7 +371,7 @@ def test_demo_train_runs_through_check(tmp_path, capsys):
     ],
 )
 def test_bad_trains_name_the_file_and_field(edit, message):
-    from resonance.kinds.torsion.study import parse_torsion_scenario
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
     from resonance.records.tables import ScenarioError
 
     tables = _train_tables()
@@ -410,7 +402,8 @@ def test_forced_torque_peak_against_the_two_inertia_closed_form():
     # Two inertias J1, J2, coupling k, modal damping zeta, torque T on J1 at w: the coupling torque is
     # T J2 w_n^2 / |w_n^2 - w^2 + 2 i zeta w_n w| (modal superposition of the one elastic mode; Rao, Mechanical
     # Vibrations, 6th ed., sec. 6.10: w_n^2 = k (J1 + J2) / (J1 J2)); at 1x through 900-1100 rpm.
-    from resonance.kinds.torsion.study import parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
+    from resonance.kinds.torsion.study import run_torsion_study
 
     result = run_torsion_study(parse_torsion_scenario(_forced_train("1 kN*m"), "t.toml"))
     sweep = result.torque
@@ -428,7 +421,9 @@ def test_forced_torque_peak_against_the_two_inertia_closed_form():
 
 
 def test_an_exceeded_allowable_fails_the_study_and_is_named():
-    from resonance.kinds.torsion.study import build_torsion_record, parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.record import build_torsion_record
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
+    from resonance.kinds.torsion.study import run_torsion_study
 
     result = run_torsion_study(parse_torsion_scenario(_forced_train("100 N*m"), "t.toml"))
     assert result.torque.rows[0].status == "EXCEEDS ALLOWABLE"
@@ -443,7 +438,8 @@ def test_an_exceeded_allowable_fails_the_study_and_is_named():
 
 def test_allowable_exceeded_fails_even_when_every_margin_passes():
     # Separation passes (the mode sits far above 1x), yet a large torque exceeds the allowable: FAIL.
-    from resonance.kinds.torsion.study import parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
+    from resonance.kinds.torsion.study import run_torsion_study
 
     tables = _forced_train("50 N*m")
     tables["torsion"]["couplings"][0]["stiffness"] = "3000 kN*m/rad"
@@ -458,7 +454,7 @@ def test_allowable_exceeded_fails_even_when_every_margin_passes():
 def test_fraction_of_rated_torque_is_taken_to_the_stations_shaft():
     # A fraction of the driver's rated torque at a station on a shaft n times faster is fraction * rated / n
     # (the same power on every shaft; common practice).
-    from resonance.kinds.torsion.study import parse_torsion_scenario
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
 
     tables = _train_tables()
     tables["torsion"]["forcing"] = [
@@ -487,7 +483,7 @@ def test_scaled_couplings_move_the_coupling_mode_by_the_square_root():
 def _demo():
     from pathlib import Path
 
-    from resonance.kinds.torsion.study import load_torsion_scenario
+    from resonance.kinds.torsion.scenario import load_torsion_scenario
 
     return load_torsion_scenario(
         Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
@@ -563,7 +559,8 @@ def test_html_record_of_a_train_has_its_tables_and_figures():
 def test_a_train_written_in_us_units_gives_the_si_answers():
     # WR^2 in lb ft^2 and stiffness in lbf in/rad against the SI demo (NIST SP 811: 1 lb ft^2 = 0.0421401 kg m^2,
     # 1 lbf in = 0.1129848 N m).
-    from resonance.kinds.torsion.study import parse_torsion_scenario, run_torsion_study
+    from resonance.kinds.torsion.scenario import parse_torsion_scenario
+    from resonance.kinds.torsion.study import run_torsion_study
 
     tables = _train_tables()
     us = _train_tables()

@@ -18,8 +18,9 @@ import pytest
 from numpy.testing import assert_allclose
 
 from resonance.cli import main
-from resonance.kinds.torsion.study import parse_torsion_scenario, run_torsion_study
-from resonance.kinds.torsion.train import hollow_shaft_stiffness, stepped_shaft_stiffness
+from resonance.kinds.torsion.elements import hollow_shaft_stiffness, stepped_shaft_stiffness
+from resonance.kinds.torsion.scenario import parse_torsion_scenario
+from resonance.kinds.torsion.study import run_torsion_study
 from resonance.records.tables import ScenarioError, read_scenario_file
 
 DEMO = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios" / "compressor_train.toml"
@@ -236,7 +237,7 @@ def test_the_torque_record_gives_curves_coincidences_and_the_shaft_of_each_torqu
     # torque T on J1 at w gives the spring torque k |theta1 - theta2| with the modal damping as given).
     import json
 
-    from resonance.kinds.torsion.study import build_torsion_record
+    from resonance.kinds.torsion.record import build_torsion_record
 
     f_n = 22.0  # Hz: 1x at 1320 rpm, inside 1200-1500 rpm
     tables = _two_inertia(f_n, {"supply": "drive", "poles": 4, "slip": 0.0, "electrical": [2]})

@@ -25,15 +25,8 @@ from typing import Any
 import numpy as np
 import tomli_w
 
-from ..checks.excitations import (
-    EXCITATION_KINDS,
-    SLIP_LOADS,
-    Excitation,
-    drive_electrical,
-    drive_electrical_law,
-    induction_slip,
-    line_frequency,
-)
+from ..checks.electrical import SLIP_LOADS, drive_electrical, drive_electrical_law, induction_slip, line_frequency
+from ..checks.excitations import EXCITATION_KINDS, Excitation
 from ..checks.margins import ApiLateralRule, FlatRule, MarginRule, TableRule, rule_by_name
 from ..checks.rules import TORSIONAL_RULE, DampedModeRule, RuleSet, is_flat
 from ..checks.speed_range import OperatingRange, operating_range

@@ -28,7 +28,8 @@ from typing import Any, Protocol
 from ..checks.interference import FindingsTable
 from ..core.errors import InputTypeError
 from ..core.units import UnitSystem
-from ..records.record import Record, build_record
+from ..kinds.support.record import build_record
+from ..records.record import Record
 from ..records.tables import ScenarioError, read_scenario_bytes
 
 __all__ = [
@@ -229,7 +230,7 @@ class TorsionStudy:
     @property
     def scenario_type(self) -> type:
         """The class of the scenarios this kind runs (imported when asked)."""
-        from ..kinds.torsion.study import TorsionScenario
+        from ..kinds.torsion.scenario import TorsionScenario
 
         return TorsionScenario
 
@@ -239,7 +240,7 @@ class TorsionStudy:
 
     def parse(self, tables: Mapping[str, Any], source: str) -> Any:
         """See :func:`resonance.kinds.torsion.study.parse_torsion_scenario`."""
-        from ..kinds.torsion.study import parse_torsion_scenario
+        from ..kinds.torsion.scenario import parse_torsion_scenario
 
         return parse_torsion_scenario(tables, source)
 
@@ -249,7 +250,8 @@ class TorsionStudy:
 
     def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
         """See :func:`resonance.kinds.torsion.study.run_torsion_study`."""
-        from ..kinds.torsion.study import build_torsion_record, run_torsion_study
+        from ..kinds.torsion.record import build_torsion_record
+        from ..kinds.torsion.study import run_torsion_study
 
         result = run_torsion_study(scenario)
         return _plain_outcome(self.name, scenario, result, build_torsion_record(result))
@@ -263,7 +265,7 @@ class SpaceStudy:
     @property
     def scenario_type(self) -> type:
         """The class of the scenarios this kind runs (imported when asked)."""
-        from ..kinds.space.study import SpaceScenario
+        from ..kinds.space.scenario import SpaceScenario
 
         return SpaceScenario
 
@@ -272,8 +274,8 @@ class SpaceStudy:
         return "space" in tables
 
     def parse(self, tables: Mapping[str, Any], source: str) -> Any:
-        """See :func:`resonance.kinds.space.study.parse_space_scenario`."""
-        from ..kinds.space.study import parse_space_scenario
+        """See :func:`resonance.kinds.space.scenario.parse_space_scenario`."""
+        from ..kinds.space.scenario import parse_space_scenario
 
         return parse_space_scenario(tables, source)
 
@@ -283,7 +285,8 @@ class SpaceStudy:
 
     def run(self, scenario: Any, base_dir: Path) -> StudyOutcome:
         """See :func:`resonance.kinds.space.study.run_space_study`."""
-        from ..kinds.space.study import build_space_record, run_space_study
+        from ..kinds.space.record import build_space_record
+        from ..kinds.space.study import run_space_study
 
         result = run_space_study(scenario)
         return _plain_outcome(self.name, scenario, result, build_space_record(result))

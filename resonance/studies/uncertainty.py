@@ -63,7 +63,6 @@ __all__ = [
     "run_uncertainty",
     "sample_inputs",
     "sensitivity_indices",
-    "uncertainty_lines",
     "uncertainty_spec",
 ]
 
@@ -497,39 +496,6 @@ class UncertaintyResult:
             f"Worst margin minus required [percent points]: 5 % {q05:.1f}, median {q50:.1f}, 95 % {q95:.1f}\n"
             f"Drivers of the worst margin (first-order index): {drivers}"
         )
-
-
-def uncertainty_lines(data: Mapping[str, Any]) -> list[str]:
-    """The uncertainty study in a text record, from :meth:`UncertaintyResult.record_data`.
-
-    Parameters
-    ----------
-    data : mapping
-        The record data of the study.
-
-    Returns
-    -------
-    list of str
-        Lines, ending with a blank one.
-
-    Raises
-    ------
-    KeyError
-        Data not made by :meth:`UncertaintyResult.record_data`.
-    """
-    return [
-        "UNCERTAINTY (each input's factor on its nominal value)",
-        *(f"  {x['vary']}: {x['distribution']}" for x in data["inputs"]),
-        *(f"  {line}" for line in data["summary"].splitlines()),
-        *(
-            f"  P(fail) {100 * row['probability']:.1f} %: {row['mode']} x {row['excitation']}"
-            for row in data["failure_probability"][:8]
-        ),
-        f"  Method: {data['method']}.",
-        "  The distributions are judgements (soil and supports above all); the probability is only as good as they"
-        " are.",
-        "",
-    ]
 
 
 def sensitivity_indices(

@@ -36,9 +36,9 @@ def panel(scenario: Any) -> Any:
         An object that is not a scenario of a kind with a panel.
     """
     from ..kinds.rotor.scenario import RotorScenario
-    from ..kinds.space.study import SpaceScenario
+    from ..kinds.space.scenario import SpaceScenario
     from ..kinds.support.scenario import Scenario
-    from ..kinds.torsion.study import TorsionScenario
+    from ..kinds.torsion.scenario import TorsionScenario
 
     if isinstance(scenario, Scenario):
         return single_mode_panel(scenario) if len(scenario.model.masses) == 1 else multi_mode_panel(scenario)

@@ -21,6 +21,7 @@ from ..checks.speed_range import operating_range
 from ..core.errors import InputValueError
 from ..core.units import display_unit
 from ..dynamics.damping import amplification_factor_from_damping_ratio, log_decrement
+from ..kinds.support.record import build_record
 from ..kinds.support.scenario import Scenario, load_scenario, save_scenario
 from ..kinds.support.study import StudyResult, run_study
 from ..kinds.support.whatif import (
@@ -31,7 +32,7 @@ from ..kinds.support.whatif import (
     smallest_change,
     tolerance_check,
 )
-from ..records.record import Record, build_record, write_json
+from ..records.record import Record, write_json
 from .plots import (
     findings_table_html,
     interference_figure,

@@ -6,7 +6,8 @@ import html
 
 import ipywidgets as w
 
-from ..kinds.space.study import SpaceScenario, SpaceStudyResult, run_space_study
+from ..kinds.space.scenario import SpaceScenario
+from ..kinds.space.study import SpaceStudyResult, run_space_study
 from .plots import findings_table_html, interference_figure, update_interference_figure
 from .space_plots import (
     space_modes_html,

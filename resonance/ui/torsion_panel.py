@@ -6,7 +6,8 @@ import html
 
 import ipywidgets as w
 
-from ..kinds.torsion.study import TorsionScenario, TorsionStudyResult, run_torsion_study
+from ..kinds.torsion.scenario import TorsionScenario
+from ..kinds.torsion.study import TorsionStudyResult, run_torsion_study
 from ..kinds.torsion.train import scale_couplings, scale_dampers
 from .plots import findings_table_html, interference_figure, update_interference_figure
 from .torsion_plots import (

@@ -266,6 +266,33 @@ class FieldStudyResult:
                 parts.append("the tuned model's predicted vibration is outside zones A and B")
         return "; ".join(parts) or "nothing measured to judge"
 
+    def record_data(self) -> dict[str, Any]:
+        """The field verification's section of the record (JSON-ready): files, resonances, findings, tuning."""
+        return {
+            "coastdown_file": self.spec.coastdown.name,
+            "impact_file": None if self.spec.impact is None else self.spec.impact.name,
+            "resonances": [
+                {
+                    "speed_rpm": r.speed,
+                    "amplification_factor": r.amplification_factor,
+                    "phase_change_deg": r.phase_change,
+                    "confirmed": r.confirmed,
+                    "warnings": list(r.warnings),
+                }
+                for r in self.resonances
+            ],
+            "findings": self.findings.to_records() if self.findings else [],
+            "impact_modes": [
+                {"frequency_hz": p.frequency, "damping_ratio": p.damping_ratio} for p in self.impact_poles
+            ],
+            "tuned_factors": self.tuned.factors if self.tuned else {},
+            "tuned_findings": self.tuned_study.findings.to_records() if self.tuned_study else [],
+            "governing_findings": self.governing.to_records(),
+            "verdict_basis": self.verdict_basis,
+            "passed": self.passed,
+            "summary": self.summary(),
+        }
+
     def summary(self) -> str:
         """A few lines: resonances, measured margins, impact modes, tuning."""
         res = (

@@ -7,17 +7,15 @@ from typing import Any
 
 from ...checks.interference import verdict_line
 from ...core.units import display_unit
-from ...records.record import (
-    CAUTION,
-    Record,
+from ...records.record import CAUTION, Record, RecordSection, record_head
+from ...records.sections import (
     basis_lines,
     excitation_lines,
     excitation_rows,
     header_lines,
     methods_used,
-    record_head,
+    uncertainty_lines,
 )
-from ...studies.uncertainty import UncertaintyResult, uncertainty_lines
 from .scenario import rotor_scenario_to_dict
 from .study import RotorStudyResult
 
@@ -58,7 +56,7 @@ def _assumptions(result: RotorStudyResult) -> list[str]:
 
 
 def build_rotor_record(
-    result: RotorStudyResult, created: _dt.datetime | None = None, uncertainty: UncertaintyResult | None = None
+    result: RotorStudyResult, created: _dt.datetime | None = None, uncertainty: RecordSection | None = None
 ) -> Record:
     """Build the record of a rotor study result.
 
@@ -68,7 +66,7 @@ def build_rotor_record(
         The study to record.
     created : datetime, optional
         Time stamp (now, UTC, if omitted).
-    uncertainty : UncertaintyResult, optional
+    uncertainty : RecordSection, optional
         Its uncertainty study (fails the verdict only above a given ``max_failure_probability``).
 
     Returns

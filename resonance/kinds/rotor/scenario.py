@@ -49,9 +49,10 @@ from typing import Any
 
 import numpy as np
 
-from ...checks.excitations import Excitation, permissible_unbalance
+from ...checks.excitations import Excitation
 from ...checks.rules import RuleSet
 from ...checks.speed_range import OperatingRange
+from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
 from ...core.units import QuantityKind, UnitSystem
 from ...records.tables import (

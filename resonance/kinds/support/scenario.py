@@ -87,9 +87,10 @@ from typing import Any
 
 import numpy as np
 
-from ...checks.excitations import Excitation, permissible_unbalance
+from ...checks.excitations import Excitation
 from ...checks.rules import RuleSet
 from ...checks.speed_range import OperatingRange
+from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
 from ...core.units import UnitSystem
 from ...dynamics.lumped import MassSpec, ModelSpec, SpringSpec

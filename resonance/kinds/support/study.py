@@ -11,7 +11,6 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ...checks.excitations import unbalance_force
 from ...checks.interference import FindingsTable, interference_check, judge_damped, verdict_line, verdict_of
 from ...checks.limits import (
     RIGID_SUPPORT_RATIO,
@@ -21,6 +20,7 @@ from ...checks.limits import (
     zone_criterion,
 )
 from ...checks.margins import HalfPower, half_power_points
+from ...checks.unbalance import unbalance_force
 from ...core.errors import InputValueError
 from ...core.units import UnitSystem, display_unit
 from ...dynamics.frf import model_receptance
