@@ -2,7 +2,7 @@
 
 Writes 200 scenario files into a temporary folder (50 copies each of the cooling-water pump, the booster
 pump with its 4096-sample uncertainty study, the compressor train and the fan rotor demos, each with its own
-title and a stiffness changed by a few percent), then checks the fleet with ``resonance.studies.fleet.run_fleet``
+title and a stiffness changed by a few percent), then checks the fleet with ``resonance.fleet.run_fleet``
 (no records written: the HTML records are about 5 MB each) and prints, side by side in one run, the wall
 time of each executor, its speed-up over serial, the LocalCluster's start-up time (its overhead) and
 whether every executor gave the same rows.
@@ -19,7 +19,7 @@ import time
 from pathlib import Path
 
 from resonance.core.executors import DaskExecutor, ProcessExecutor, SerialExecutor
-from resonance.studies.fleet import run_fleet
+from resonance.fleet import run_fleet
 
 DEMOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 SOURCES = ("cooling_water_pump.toml", "feed_pump_foundation.toml", "compressor_train.toml", "fan_rotor.toml")

@@ -108,11 +108,11 @@ _NAMES: dict[str, str] = {
     "run_rotor_study": "kinds.rotor.study",
     "run_field_study": "kinds.field.study",
     "run_scenario_file": "studies.registry",
-    "StudyOutcome": "studies.registry",
+    "StudyOutcome": "records.outcome",
     "build_record": "kinds.support.record",
     "load": "studies.registry",
     "run": "studies.registry",
-    "StudyKind": "studies.registry",
+    "StudyKind": "records.outcome",
     "panel": "ui",
 }
 

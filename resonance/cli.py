@@ -11,7 +11,7 @@ through a temporary file, so a failed run never leaves a partial record; the
 scenario and measurement files are only read.
 
 ``python -m resonance check A.toml B.toml plant/ --summary out/ [--workers N | --scheduler ADDRESS]`` checks
-a fleet (see :mod:`resonance.studies.fleet`): one summary, each machine's records, exit 0 all pass, 1 any fails, 2 any
+a fleet (see :mod:`resonance.fleet`): one summary, each machine's records, exit 0 all pass, 1 any fails, 2 any
 bad input (each bad file named; the rest still checked). ``--workers`` and ``--scheduler`` also spread an
 uncertainty study's work.
 
@@ -118,8 +118,8 @@ def check_outputs(outputs: dict[str, Path | None], inputs: Sequence[Path]) -> No
 def _check(args: argparse.Namespace) -> int:
     # The study's modules are imported here, not at the top: --help and argument errors answer at once.
     from .core.executors import executor_for
-    from .records.tables import atomic_write, read_scenario_bytes
-    from .studies.registry import RotorStudy, SupportStudy, study_kind_for
+    from .records.tables import atomic_write
+    from .studies.registry import kind_of, load, run
 
     progress = sys.stderr.isatty()
     paths: list[Path] = args.scenario
@@ -129,18 +129,9 @@ def _check(args: argparse.Namespace) -> int:
         return _fleet(args, executor_for(args.scheduler if args.scheduler else workers), progress)
     executor = executor_for(args.scheduler if args.scheduler else args.workers)
     path = paths[0]
-    tables, sha256 = read_scenario_bytes(path)
-    kind = study_kind_for(tables, path.name)
-    if isinstance(kind, SupportStudy):  # its uncertainty study spreads its work (a copy: the registry stays as is)
-        kind = SupportStudy()
-        kind.executor, kind.progress = executor, progress
-    elif isinstance(kind, RotorStudy):
-        kind = RotorStudy()
-        kind.executor, kind.progress = executor, progress
-    scenario = kind.parse(tables, path.name).replace(sha256=sha256)
-    base = path.parent
-    check_outputs({"html": args.html, "json": args.json}, [path, *kind.inputs(scenario, base)])
-    outcome = kind.run(scenario, base)
+    scenario = load(path)  # the one way in, as a notebook reads it
+    check_outputs({"html": args.html, "json": args.json}, [path, *kind_of(scenario).inputs(scenario, path.parent)])
+    outcome = run(scenario, path.parent, executor=executor, progress=progress)
     texts: list[tuple[Path, str]] = []
     if args.json is not None:
         texts.append((args.json, json.dumps(outcome.record.data, indent=2)))
@@ -157,7 +148,7 @@ def _check(args: argparse.Namespace) -> int:
 
 
 def _fleet(args: argparse.Namespace, executor: Any, progress: bool) -> int:
-    from .studies.fleet import BAD_INPUT, fleet_summary_text, run_fleet
+    from .fleet import BAD_INPUT, fleet_summary_text, run_fleet
 
     if args.html is not None or args.json is not None:
         raise InputValueError("--html/--json: a fleet writes one record per machine; give --summary FOLDER instead")

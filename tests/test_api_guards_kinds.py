@@ -17,6 +17,8 @@ from test_api_guards import NONE, _bad_values, call_with_bad_value
 from resonance.checks import speed_range
 from resonance.kinds.space import bodies as space
 from resonance.kinds.space import frame, soil
+from resonance.kinds.space import modes as space_modes_module
+from resonance.kinds.space import response as space_response_module
 from resonance.kinds.torsion import elements
 from resonance.kinds.torsion import response as torsion_response
 from resonance.kinds.torsion import train as torsion
@@ -89,24 +91,28 @@ CASES = {
         {"mass": "+", "lx": "+", "ly": "+", "lz": "+"},
     ),
     "rotating_unbalance": (
-        space.rotating_unbalance,
+        space_response_module.rotating_unbalance,
         {"body": "skid", "point": [0.0, 0.0, 0.0], "axis": [1.0, 0.0, 0.0], "unbalance": 1e-3, "frequency": [10.0]},
         {"point": "*", "axis": "*", "unbalance": "+", "frequency": "0"},
     ),
-    "unbalance_reference": (space.unbalance_reference, {"axis": [0.0, 0.0, 1.0]}, {"axis": "*"}),
-    "space_modes": (space.space_modes, {"model": MODEL}, {"model": "*"}),
+    "unbalance_reference": (space_response_module.unbalance_reference, {"axis": [0.0, 0.0, 1.0]}, {"axis": "*"}),
+    "space_modes": (space_modes_module.space_modes, {"model": MODEL}, {"model": "*"}),
     "space_response": (
-        space.space_response,
+        space_response_module.space_response,
         {
             "model": MODEL,
-            "loads": [space.rotating_unbalance("skid", [0, 0, 0], [1, 0, 0], 1e-3, [10.0])],
+            "loads": [space_response_module.rotating_unbalance("skid", [0, 0, 0], [1, 0, 0], 1e-3, [10.0])],
             "frequency": [10.0],
             "points": [("skid", [0.0, 0.0, 0.0])],
         },
         {"model": "*", "frequency": "0"},
     ),
     "space_model": (space.space_model, {"bodies": [BODY], "mounts": [MOUNT]}, {"bodies": "*", "mounts": "*"}),
-    "orbit_major": (space.orbit_major, {"displacement": np.ones((1, 3), dtype=complex)}, {"displacement": "*"}),
+    "orbit_major": (
+        space_response_module.orbit_major,
+        {"displacement": np.ones((1, 3), dtype=complex)},
+        {"displacement": "*"},
+    ),
     "Beam": (
         frame.Beam,
         {
@@ -238,8 +244,8 @@ def test_more_bad_values_raise_the_package_error_naming_the_parameter(name, para
 
 
 def test_the_sweep_covers_every_public_function_of_the_newer_modules():
+    from resonance import fleet
     from resonance.core import executors
-    from resonance.studies import fleet
 
     built = {  # results and holders built by the package, or swept in their own tests
         "TorsionalShape",
@@ -274,6 +280,19 @@ def test_the_sweep_covers_every_public_function_of_the_newer_modules():
         "fleet_summary_text",
         "run_fleet",  # files and folders: tests/test_fleet.py
     }
-    modules = (torsion, elements, torsion_response, space, frame, soil, speed_range, uncertainty, executors, fleet)
+    modules = (
+        torsion,
+        elements,
+        torsion_response,
+        space,
+        space_modes_module,
+        space_response_module,
+        frame,
+        soil,
+        speed_range,
+        uncertainty,
+        executors,
+        fleet,
+    )
     public = {n for m in modules for n in m.__all__ if callable(getattr(m, n))}
     assert public - built - set(CASES) - set(CASES_MORE) == set()

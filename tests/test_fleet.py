@@ -15,7 +15,7 @@ import pytest
 
 from resonance.cli import main
 from resonance.core.executors import DaskExecutor, ProcessExecutor
-from resonance.studies.fleet import run_fleet
+from resonance.fleet import run_fleet
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
 

@@ -206,14 +206,13 @@ def test_mutated_uncertainty_tables_are_read_or_refused_in_words(data):
 def test_mutated_scenarios_draw_their_html_record_or_are_refused_in_words(data, name):
     # The whole check flow through the registry, HTML record included (its figures once failed on a rotor whose
     # sweep ended below the first critical speed).
-    from resonance.studies.registry import study_kind_for
+    from resonance.studies.registry import parse_tables, run
     from resonance.ui.report import render_outcome_html
 
     table = _mutate(read_scenario_file(SCENARIOS / name), data)
     message = ""
     try:
-        kind = study_kind_for(table, name)
-        outcome = kind.run(kind.parse(table, name), SCENARIOS)
+        outcome = run(parse_tables(table, name), SCENARIOS)
     except (InputValueError, InputTypeError) as error:
         message = str(error)
     if message:

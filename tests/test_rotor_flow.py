@@ -166,7 +166,7 @@ def test_mode_shapes_at_a_chosen_speed(fan):
 def test_reduced_unbalance_response_matches_the_full_model(fan):
     # The Ritz basis (modes, static bearing shapes, static shapes of the unbalance loads) against the full
     # model's direct solve at every speed (regression of the reduction; Craig & Kurdila sec. 14.4).
-    from resonance.kinds.rotor.analysis import unbalance_response_rotor
+    from resonance.kinds.rotor.response import unbalance_response_rotor
 
     rotor = fan.build(1.3, 0.7)
     speeds = np.linspace(20.0, fan.sweep_max, 240)

@@ -18,17 +18,9 @@ from numpy.testing import assert_allclose
 import resonance as R
 from resonance.dynamics.model import Spring, lumped_model
 from resonance.dynamics.modes import model_modes
-from resonance.kinds.space.bodies import (
-    Mount,
-    RigidBody,
-    box_inertia,
-    orbit_major,
-    rotating_unbalance,
-    space_model,
-    space_modes,
-    space_response,
-    unbalance_reference,
-)
+from resonance.kinds.space.bodies import Mount, RigidBody, box_inertia, space_model
+from resonance.kinds.space.modes import space_modes
+from resonance.kinds.space.response import orbit_major, rotating_unbalance, space_response, unbalance_reference
 from resonance.kinds.space.soil import footing_impedance, soil_mount
 
 M, LX, LY, LZ = 20000.0, 4.0, 2.0, 1.5  # an invented block [kg, m]
@@ -113,7 +105,7 @@ def test_receptance_is_reciprocal_between_points_of_two_bodies():
     model = space_model([skid, block], mounts)
     a, b = ("skid", [1.4, 0.3, 1.4]), ("block", [-1.5, 0.9, 0.5])
     f = np.array([7.0, 23.0, 61.0])
-    from resonance.kinds.space.bodies import PointLoad
+    from resonance.kinds.space.response import PointLoad
 
     for i in range(3):
         for j in range(3):

@@ -120,8 +120,8 @@ def test_the_panel_follows_the_soil_and_the_mounts():
 
 
 def test_the_tolerance_band_and_the_motion_at_the_probes_are_recorded():
-    from resonance.kinds.space.bodies import orbit_major
     from resonance.kinds.space.record import build_space_record
+    from resonance.kinds.space.response import orbit_major
     from resonance.kinds.space.scenario import load_space_scenario
     from resonance.kinds.space.study import run_space_study
 

@@ -17,9 +17,10 @@ import pytest
 import resonance as R
 from resonance.checks.interference import FindingsTable
 from resonance.cli import main
+from resonance.records.outcome import StudyOutcome
 from resonance.records.record import Record, record_head
 from resonance.records.tables import RecordSpec, ScenarioError, TableReader, parse_head
-from resonance.studies.registry import STUDY_KINDS, StudyOutcome, register_study_kind, run_scenario_file, study_kind_for
+from resonance.studies.registry import STUDY_KINDS, register_study_kind, run_scenario_file, study_kind_for
 from resonance.ui.report import VIEWS, render_outcome_html
 
 SCENARIOS = Path(__file__).resolve().parent.parent / "notebooks" / "scenarios"
@@ -71,6 +72,7 @@ class _ToyStudy:
     """A kind of study that only reads its head and passes: enough to show the plumbing carries any kind."""
 
     name = "toy"
+    scenario_type = _ToyScenario
 
     def claims(self, tables):
         return "toy" in tables
@@ -82,7 +84,7 @@ class _ToyStudy:
     def inputs(self, scenario, base_dir):
         return []
 
-    def run(self, scenario, base_dir):
+    def run(self, scenario, base_dir, uncertainty=None, progress=False):
         data = record_head(
             "toy/1", scenario.title, "toy.toml", scenario.sha256, RecordSpec(), datetime.now(timezone.utc)
         )

@@ -277,11 +277,11 @@ def test_check_reports_the_uncertainty_study_and_its_record(booster, tmp_path, c
 def test_a_limit_on_the_failure_probability_fails_the_study(booster):
     import copy
 
-    from resonance.studies.registry import SupportStudy
+    import resonance as R
 
     table = copy.deepcopy(dict(booster.uncertainty))
     table["max_failure_probability"] = 0.05
-    outcome = SupportStudy().run(booster.replace(uncertainty=table), SCENARIOS)
+    outcome = R.run(booster.replace(uncertainty=table), SCENARIOS)
     assert not outcome.uncertainty.passed
     assert "EXCEEDS the allowed 5.0 %" in outcome.summary
     assert outcome.record.data["verdict"] == "FAIL"

@@ -22,12 +22,12 @@ table value), ``speed_min`` or ``speed_max`` in a rotor scenario. A support scen
 one batch; a rotor scenario's each run the whole rotor study (about 0.2 s for the demo fan), so take a few
 hundred samples, or spread them over processes or a Dask cluster. A normal or
 lognormal input may carry ``bounds = [low, high]`` (truncation; a normal factor is always kept above 0).
-Every variant is checked by the scenario's rules (:mod:`resonance.kinds.support.variants`, one batched solve); the
-results are the probability that each finding fails, the distribution of the worst margin, and a
-sensitivity ranking of the inputs on the worst margin (first-order indices by RBD-FAST from SALib, which
-works on the same Latin-hypercube sample; Tarantola et al. 2006, Plischke 2010). Samples are split into
-fixed chunks that an executor (:mod:`resonance.core.executors`) may run anywhere: the result does not depend on
-where they ran.
+Every variant is checked by the scenario's rules, by its kind (the ``variant_findings`` of the
+:class:`~resonance.records.outcome.StudyKind` protocol: a support's in one batched solve); the results
+are the probability that each finding fails, the distribution of the worst margin, and a sensitivity ranking
+of the inputs on the worst margin (first-order indices by RBD-FAST from SALib, which works on the same
+Latin-hypercube sample; Tarantola et al. 2006, Plischke 2010). Samples are split into fixed chunks that an
+executor (:mod:`resonance.core.executors`) may run anywhere: the result does not depend on where they ran.
 
 Soil, mounts and supports are the least certain inputs; the distributions are the user's judgement and
 the answer is only as good as they are.
@@ -39,19 +39,15 @@ import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any, Literal
+from typing import Any, Literal
 
 import numpy as np
 
-from ..checks.speed_range import operating_range
+from ..checks.variant_findings import VariantFindings
 from ..core.errors import InputValueError
 from ..core.executors import Executor, SerialExecutor, progress_bar
-from ..kinds.support.scenario import Scenario
-from ..kinds.support.variants import VariantFindings, evaluate_variants
 from ..records.tables import TableReader
-
-if TYPE_CHECKING:  # the rotor flow is imported only when a rotor scenario is sampled
-    from ..kinds.rotor.scenario import RotorScenario
+from .registry import kind_of
 
 __all__ = [
     "FACTOR_RANGE",
@@ -210,29 +206,24 @@ class UncertaintySpec:
             raise InputValueError(f"seed: got {self.seed!r}; expected a whole number >= 0")
 
 
-def _targets(scenario: Scenario | RotorScenario) -> list[str]:
-    if not isinstance(scenario, Scenario):  # a rotor scenario
-        labels = [b.label for b in scenario.bearings]
-        return [*(f"bearing:{b}:{c}" for b in labels for c in ("stiffness", "damping")), "speed_min", "speed_max"]
-    return [
-        *(f"spring:{s.label}" for s in scenario.model.springs),
-        *(f"mass:{m}" for m in scenario.model.labels),
-        "damping_ratio",
-        "speed_min",
-        "speed_max",
-    ]
+def _sampled_kind(scenario: Any) -> Any:
+    # The scenario's kind, which knows what may vary and how to check a block of variants (the protocol).
+    kind = kind_of(scenario)
+    if not hasattr(kind, "variant_findings"):
+        raise InputValueError(
+            f"uncertainty: the {kind.name} kind has no uncertainty study; expected a support or rotor"
+        )
+    return kind
 
 
-def uncertainty_spec(
-    table: Mapping[str, Any], scenario: Scenario | RotorScenario, source: str = "<scenario>"
-) -> UncertaintySpec:
+def uncertainty_spec(table: Mapping[str, Any], scenario: Any, source: str = "<scenario>") -> UncertaintySpec:
     """Validate an ``[uncertainty]`` table against its scenario.
 
     Parameters
     ----------
     table : mapping
         The table as read from TOML.
-    scenario : Scenario or RotorScenario
+    scenario : object
         The scenario whose springs and masses (or bearings) it names.
     source : str
         The file name errors start with.
@@ -264,7 +255,7 @@ def uncertainty_spec(
         limit = r.value(table["max_failure_probability"], "uncertainty.max_failure_probability", "ratio", "nonnegative")
         if not limit < 1.0:
             raise r.fail("uncertainty.max_failure_probability", f"got {limit:g}; expected a probability below 1")
-    targets = _targets(scenario)
+    targets = _sampled_kind(scenario).uncertain_targets(scenario)
     inputs = []
     for i, item in enumerate(r.array(table, "inputs", "uncertainty.inputs")):
         field = f"uncertainty.inputs[{i}]"
@@ -341,14 +332,12 @@ def sample_inputs(spec: UncertaintySpec) -> np.ndarray:
     return np.column_stack([x.ppf(u[:, j]) for j, x in enumerate(spec.inputs)])
 
 
-def evaluate_chunk(
-    scenario: Scenario | RotorScenario, inputs: Sequence[UncertainInput], values: np.ndarray
-) -> VariantFindings:
+def evaluate_chunk(scenario: Any, inputs: Sequence[UncertainInput], values: np.ndarray) -> VariantFindings:
     """The findings of a block of variants (one row of factors per variant).
 
     Parameters
     ----------
-    scenario : Scenario or RotorScenario
+    scenario : object
         The nominal scenario.
     inputs : sequence of UncertainInput
         What each column varies.
@@ -362,25 +351,9 @@ def evaluate_chunk(
     Raises
     ------
     InputValueError
-        Factors that make an invalid variant (see :func:`resonance.kinds.support.variants.evaluate_variants`).
+        Factors that make an invalid variant (see the kind's ``variant_findings``).
     """
-    if not isinstance(scenario, Scenario):  # a rotor scenario (its modules imported only then)
-        return _rotor_chunk(scenario, inputs, values)
-    stiffness: dict[str, np.ndarray] = {}
-    mass: dict[str, np.ndarray] = {}
-    other: dict[str, np.ndarray] = {}
-    for j, x in enumerate(inputs):
-        kind, _, name = x.vary.partition(":")
-        {"spring": stiffness, "mass": mass}.get(kind, other)[name or kind] = values[:, j]
-    return evaluate_variants(
-        scenario,
-        values.shape[0],
-        stiffness,
-        mass,
-        other.get("damping_ratio"),
-        other.get("speed_min"),
-        other.get("speed_max"),
-    )
+    return _sampled_kind(scenario).variant_findings(scenario, [x.vary for x in inputs], values)
 
 
 @dataclass(frozen=True)
@@ -545,7 +518,7 @@ def sensitivity_indices(
 
 
 def run_uncertainty(
-    scenario: Scenario | RotorScenario,
+    scenario: Any,
     spec: UncertaintySpec,
     executor: Executor | None = None,
     progress: bool = False,
@@ -555,7 +528,7 @@ def run_uncertainty(
 
     Parameters
     ----------
-    scenario : Scenario or RotorScenario
+    scenario : object
         The nominal scenario.
     spec : UncertaintySpec
         From :func:`uncertainty_spec` (or built in code).
@@ -616,53 +589,6 @@ def run_uncertainty(
     )
 
 
-def _rotor_variant(scenario: RotorScenario, inputs: Sequence[UncertainInput], row: np.ndarray) -> RotorScenario:
-    # One rotor variant: each bearing's coefficients and the speed limits scaled by the row's factors.
-    from ..kinds.rotor.scenario import scale_bearing
-
-    factor = {x.vary: float(v) for x, v in zip(inputs, row, strict=True)}
-    bearings = tuple(
-        scale_bearing(b, factor.get(f"bearing:{b.label}:stiffness", 1.0), factor.get(f"bearing:{b.label}:damping", 1.0))
-        for b in scenario.bearings
-    )
-    speed = scenario.speed
-    low = speed.speed_min * factor.get("speed_min", 1.0)
-    high = speed.speed_max * factor.get("speed_max", 1.0)
-    if not low <= high or (speed.skip_bands and not (low < speed.skip_bands[0][0] and speed.skip_bands[-1][1] < high)):
-        raise InputValueError(
-            "speed_min/speed_max: the [uncertainty] factors put the minimum speed above the maximum or across a "
-            "skip band; narrow their bounds"
-        )
-    if high >= scenario.sweep_max:
-        raise InputValueError(f"speed_max: the factors reach the rotor's sweep_max {scenario.sweep_max:g} rpm")
-    return scenario.replace(bearings=bearings, speed=operating_range(low, high, speed.skip_bands))
-
-
-def _rotor_chunk(scenario: RotorScenario, inputs: Sequence[UncertainInput], values: np.ndarray) -> VariantFindings:
-    from ..kinds.rotor.study import run_rotor_study  # the rotor flow only when a rotor is sampled
-
-    # Each variant runs the whole rotor study; its findings are keyed by excitation and the critical's rank
-    # (by speed) for that excitation. Exempt findings require no margin: NaN, neither failing nor worst.
-    tables = [run_rotor_study(_rotor_variant(scenario, inputs, row)).findings for row in values]
-    labels = tuple(e.label for e in scenario.excitations)
-    ranked = []
-    for table in tables:
-        per: dict[str, list[Any]] = {label: [] for label in labels}
-        for f in sorted(table, key=lambda f: f.coincidence_speed or 0.0):
-            per.setdefault(f.excitation.label, []).append(f)
-        ranked.append(per)
-    depth = max((len(v) for per in ranked for v in per.values()), default=0)
-    margin = np.full((len(tables), depth, len(labels)), np.nan)
-    required = np.full_like(margin, np.nan)
-    for s, per in enumerate(ranked):
-        for j, label in enumerate(labels):
-            for i, f in enumerate(per.get(label, [])):
-                if not f.exempt:
-                    margin[s, i, j], required[s, i, j] = f.margin, f.required_margin
-    modes = tuple(f"critical {i + 1} (by speed)" for i in range(depth))
-    return VariantFindings(margin, required, modes, labels, np.full((len(tables), depth), np.nan))
-
-
-def _chunk_findings(item: tuple[Scenario | RotorScenario, Sequence[UncertainInput], np.ndarray]) -> VariantFindings:
+def _chunk_findings(item: tuple[Any, Sequence[UncertainInput], np.ndarray]) -> VariantFindings:
     # Module-level, so process pools and Dask workers can import it.
     return evaluate_chunk(*item)

@@ -12,11 +12,13 @@ from pathlib import Path
 from typing import Any
 
 from ..kinds.field.study import FieldStudyResult
+from ..kinds.rotor.kind import rotor_outcome
 from ..kinds.rotor.study import RotorStudyResult
+from ..kinds.support.kind import support_outcome
 from ..kinds.support.study import StudyResult
+from ..records.outcome import StudyOutcome
 from ..records.record import CAUTION, Record
 from ..records.tables import atomic_write
-from ..studies.registry import StudyOutcome, rotor_outcome, support_outcome
 from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
@@ -268,7 +270,7 @@ def render_fleet_html(rows: Sequence[Any]) -> str:
     Parameters
     ----------
     rows : sequence of FleetRow
-        The machines (:func:`resonance.studies.fleet.run_fleet`).
+        The machines (:func:`resonance.fleet.run_fleet`).
 
     Returns
     -------

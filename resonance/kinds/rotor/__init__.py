@@ -1,25 +1,16 @@
-"""Rotor-bearing models: finite shaft elements, discs, bearings, and their analyses.
+"""The rotor kind: a rotor on bearings (finite shaft elements, discs, bearings, pedestals) and its analyses.
 
-Layers as in the rest of the package: :mod:`.elements` (element matrices),
-:mod:`.model` (validated rotor and assembly), :mod:`.analysis` (speed sweeps,
-Campbell data, critical speeds, critical speed map, unbalance response,
-stability). All produce the package's :class:`~resonance.dynamics.modes.Mode` so the
-interference check and the records work unchanged.
+The model: :mod:`.elements` (element matrices), :mod:`.model` (validated rotor and assembly),
+:mod:`.analysis` (whirl modes at a speed and over a sweep), :mod:`.criticals` (critical speeds and the
+critical speed map), :mod:`.response` (unbalance response). The flow: :mod:`.scenario` (the ``[rotor]``
+tables), :mod:`.study` (findings and the API checks), :mod:`.record`. All produce the package's
+:class:`~resonance.dynamics.modes.Mode`, so the interference check and the records work unchanged.
 """
 
-from .analysis import (
-    CampbellData,
-    RotorModes,
-    Unbalance,
-    UnbalanceResponse,
-    campbell,
-    critical_speed_map,
-    critical_speeds,
-    rotor_modes,
-    rotor_unbalance_response,
-    unbalance_response_rotor,
-)
+from .analysis import CampbellData, RotorModes, campbell, rotor_modes
+from .criticals import critical_speed_map, critical_speeds
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
+from .response import Unbalance, UnbalanceResponse, rotor_unbalance_response, unbalance_response_rotor
 from .scenario import RotorScenario, load_rotor_scenario, parse_rotor_scenario
 from .study import RotorStudyResult, run_rotor_study
 

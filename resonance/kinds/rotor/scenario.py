@@ -55,24 +55,19 @@ from ...checks.speed_range import OperatingRange
 from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
 from ...core.units import QuantityKind, UnitSystem
-from ...records.tables import (
+from ...records.excitation_tables import (
     MotorSpec,
-    RecordSpec,
-    TableReader,
     excitation_table,
     motor_table,
     parse_excitations,
-    parse_head,
     parse_motor,
-    parse_record,
-    parse_rules,
     parse_speed,
-    read_scenario_bytes,
-    rules_table,
     speed_table,
 )
-from .analysis import Unbalance
+from ...records.rule_tables import parse_rules, rules_table
+from ...records.tables import RecordSpec, TableReader, parse_head, parse_record, read_scenario_bytes
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
+from .response import Unbalance
 
 __all__ = [
     "MAX_ELEMENTS",

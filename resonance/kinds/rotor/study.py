@@ -30,20 +30,10 @@ from ...checks.margins import HalfPower, half_power_points
 from ...core.errors import InputValueError
 from ...core.units import UnitSystem, display_unit
 from ...dynamics.modes import Mode
-from .analysis import (
-    CampbellData,
-    CriticalSpeed,
-    CriticalSpeedMap,
-    Unbalance,
-    UnbalanceResponse,
-    campbell,
-    critical_speed_map,
-    critical_speeds,
-    deflected_shape,
-    rotor_modes,
-    unbalance_response_rotor,
-)
+from .analysis import CampbellData, campbell, deflected_shape, rotor_modes
+from .criticals import CriticalSpeed, CriticalSpeedMap, critical_speed_map, critical_speeds
 from .model import Rotor
+from .response import Unbalance, UnbalanceResponse, unbalance_response_rotor
 from .scenario import RotorScenario
 
 __all__ = ["RotorStudyResult", "run_rotor_study"]

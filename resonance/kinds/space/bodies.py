@@ -1,4 +1,4 @@
-"""Rigid bodies in space on mounts: six degrees of freedom per body, modes in words, response at points.
+"""Rigid bodies in space on mounts and frames: six degrees of freedom per body, assembled into one model.
 
 A machine, its skid and its block are rigid bodies (mass, centre of gravity, inertia tensor about the centre
 of gravity in global axes) joined to each other and to ground by mounts at given points: three translational
@@ -8,7 +8,8 @@ of its centre of gravity and a small rotation, ``q = [x, y, z, rx, ry, rz]``; a 
 moves ``u = t + r x p_rel`` with ``p_rel = p - cg``, i.e. ``u = T q`` with ``T = [I, -[p_rel]x]``.
 
 Global axes: any right-handed set; the demos take z up. Lengths in m, angles in rad, stiffness N/m and
-N m/rad, damping N s/m and N m s/rad.
+N m/rad, damping N s/m and N m s/rad. The modes in words are in :mod:`resonance.kinds.space.modes`, the
+response to unbalances and forces in :mod:`resonance.kinds.space.response`.
 
 References
 ----------
@@ -20,42 +21,39 @@ References
 
 from __future__ import annotations
 
-import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
 
-from ...core.errors import InputTypeError, InputValueError
+from ...core.errors import InputValueError
 from ...core.inputs import as_matrix, as_si, as_si_array, check_parts
 from ...dynamics.damping import modal_damping
 from ...dynamics.model import MatrixModel, matrix_model
-from ...dynamics.modes import ModeSet, model_modes
 from .frame import Beam, beam_matrices
 
 __all__ = [
     "DIRECTIONS",
     "FrameNode",
     "Mount",
-    "PointLoad",
     "RigidBody",
-    "SpaceMode",
     "SpaceModel",
     "box_inertia",
     "equivalent_box",
-    "orbit_major",
     "point_motion",
-    "rotating_unbalance",
-    "unbalance_reference",
     "space_model",
-    "space_modes",
-    "space_response",
 ]
+
 
 #: The six coordinates of a body, in order.
 DIRECTIONS = ("x", "y", "z", "rx", "ry", "rz")
+
+
 GROUND = "ground"
-_WORDS = {
+
+
+#: Each of the six rigid-body motions in words, as the mode descriptions and the errors say them.
+MOTION_WORDS = {
     "x": "sliding in x",
     "y": "sliding in y",
     "z": "vertical (z)",
@@ -65,7 +63,8 @@ _WORDS = {
 }
 
 
-def _vector(value: object, name: str, kind: str = "length", sign: str = "any") -> np.ndarray:
+def vector3(value: object, name: str, kind: str = "length", sign: str = "any") -> np.ndarray:
+    """Three values (x, y, z) in SI, or an error naming the parameter."""
     out = as_si_array(value, name, kind, sign)  # type: ignore[arg-type]
     if out.shape != (3,):
         raise InputValueError(f"{name}: got {out.size} values; expected three (x, y, z)")
@@ -160,7 +159,7 @@ class RigidBody:
             raise InputValueError(f"body name: got {self.name!r}; expected a name other than 'ground'")
         where = f"body {self.name!r}"
         object.__setattr__(self, "mass", as_si(self.mass, f"{where}: mass", "mass", "positive"))
-        object.__setattr__(self, "center", _vector(self.center, f"{where}: center"))
+        object.__setattr__(self, "center", vector3(self.center, f"{where}: center"))
         tensor = as_matrix(self.inertia, f"{where}: inertia", "inertia", 3)
         principal = np.linalg.eigvalsh(tensor)
         if principal[0] <= 0.0:
@@ -221,14 +220,14 @@ class Mount:
 
     def __post_init__(self) -> None:
         where = f"mount {self.label!r}"
-        object.__setattr__(self, "point", _vector(self.point, f"{where}: point"))
+        object.__setattr__(self, "point", vector3(self.point, f"{where}: point"))
         for name, kind in (
             ("stiffness", "stiffness"),
             ("damping", "damping"),
             ("rotational_stiffness", "moment_stiffness"),
             ("rotational_damping", "moment_damping"),
         ):
-            object.__setattr__(self, name, _vector(getattr(self, name), f"{where}: {name}", kind, "nonnegative"))
+            object.__setattr__(self, name, vector3(getattr(self, name), f"{where}: {name}", kind, "nonnegative"))
         if not (np.any(self.stiffness > 0.0) or np.any(self.rotational_stiffness > 0.0)):
             raise InputValueError(f"{where}: has no stiffness; expected at least one stiffness > 0")
         axes = np.asarray(self.axes, dtype=float)
@@ -257,7 +256,7 @@ class FrameNode:
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name or self.name == GROUND:
             raise InputValueError(f"node name: got {self.name!r}; expected a name other than 'ground'")
-        object.__setattr__(self, "point", _vector(self.point, f"node {self.name!r}: point"))
+        object.__setattr__(self, "point", vector3(self.point, f"node {self.name!r}: point"))
 
 
 @dataclass(frozen=True)
@@ -359,7 +358,7 @@ class SpaceModel:
 
 
 def _motion(origin: np.ndarray, point: object) -> np.ndarray:
-    return np.hstack([np.eye(3), -_skew(_vector(point, "point") - origin)])
+    return np.hstack([np.eye(3), -_skew(vector3(point, "point") - origin)])
 
 
 def point_motion(body: RigidBody, point: object) -> np.ndarray:
@@ -550,281 +549,6 @@ def _refuse_mechanism(mass: np.ndarray, stiffness: np.ndarray, labels: tuple[str
         dominant = labels[int(np.argmax(weight if np.any(weight > 0.0) else np.abs(shape)))]
         body, direction = dominant.rsplit(".", 1)
         raise InputValueError(
-            f"mounts: the model has a rigid-body mechanism: {body!r} moves freely ({_WORDS[direction]}); "
+            f"mounts: the model has a rigid-body mechanism: {body!r} moves freely ({MOTION_WORDS[direction]}); "
             "add a mount (or a mount stiffness) that resists it"
         )
-
-
-@dataclass(frozen=True)
-class SpaceMode:
-    """One mode of a body model, with the share of each body's coordinate in its kinetic energy.
-
-    Attributes
-    ----------
-    frequency : float
-        [Hz].
-    damping_ratio : float
-        [-].
-    shape : numpy.ndarray
-        Mode shape (complex when the damping is not proportional), scaled to a largest entry of 1.
-    shares : dict of str to float
-        Each coordinate's share of the mode's kinetic energy (``"block.ry"``: 0.71); they add up to 1.
-    words : str
-        What moves, in words (``"block: rocking about y with sliding in x"``).
-    """
-
-    frequency: float
-    damping_ratio: float
-    shape: np.ndarray
-    shares: dict[str, float]
-    words: str
-
-
-def _mode_words(shares: dict[str, float]) -> str:
-    # The body with the most energy and its two largest motions (a second one only above 15 %).
-    by_body: dict[str, float] = {}
-    for label, share in shares.items():
-        by_body[label.rsplit(".", 1)[0]] = by_body.get(label.rsplit(".", 1)[0], 0.0) + share
-    body = max(by_body, key=by_body.__getitem__)
-    own = sorted(((s, lab.rsplit(".", 1)[1]) for lab, s in shares.items() if lab.startswith(body + ".")), reverse=True)
-    text = f"{body}: {_WORDS[own[0][1]]}"
-    if len(own) > 1 and own[1][0] > 0.15:
-        text += f" with {_WORDS[own[1][1]]}"
-    others = [b for b, s in sorted(by_body.items(), key=lambda kv: -kv[1]) if b != body and s > 0.15]
-    if others:
-        text += f" (and {', '.join(others)})"
-    return text
-
-
-def space_modes(model: SpaceModel) -> list[SpaceMode]:
-    """The modes of a body model, each with its kinetic-energy shares and what moves in words.
-
-    Parameters
-    ----------
-    model : SpaceModel
-        From :func:`space_model`.
-
-    Returns
-    -------
-    list of SpaceMode
-        By ascending frequency.
-
-    Raises
-    ------
-    InputTypeError
-        Not a SpaceModel.
-    """
-    if not isinstance(model, SpaceModel):
-        raise InputTypeError(f"model: got {type(model).__name__}; expected a SpaceModel")
-    modes: ModeSet = model_modes(model.model)
-    out = []
-    labels = model.model.labels
-    for i, f in enumerate(modes.frequency):
-        shape = modes.shapes[:, i]
-        energy = np.real(np.conj(shape) * (model.model.mass @ shape))
-        total = float(energy.sum()) or 1.0
-        shares = {lab: float(e / total) for lab, e in zip(labels, energy, strict=True)}
-        scale = shape[np.argmax(np.abs(shape))]
-        # A node that carries an attached body is named by the body in words.
-        riders = {node: body for body, node in model.attached.items()}
-        named = {
-            f"{riders.get(lab.rsplit('.', 1)[0], lab.rsplit('.', 1)[0])}.{lab.rsplit('.', 1)[1]}": v
-            for lab, v in shares.items()
-        }
-        out.append(SpaceMode(float(f), float(modes.damping_ratio[i]), shape / scale, shares, _mode_words(named)))
-    return out
-
-
-@dataclass(frozen=True)
-class PointLoad:
-    """A harmonic force (and moment) at a body point: complex amplitudes in global axes.
-
-    Attributes
-    ----------
-    body : str
-        The body loaded.
-    point : numpy.ndarray
-        Where [m].
-    force : numpy.ndarray
-        Complex force amplitude [N], three components (``F e^{i w t}``), per frequency (``n x 3``) or one
-        for all.
-    moment : numpy.ndarray
-        Complex moment amplitude [N m], likewise.
-    """
-
-    body: str
-    point: np.ndarray
-    force: np.ndarray
-    moment: np.ndarray = field(default_factory=lambda: np.zeros(3, dtype=complex))
-
-
-def rotating_unbalance(body: str, point: object, axis: object, unbalance: object, frequency: object) -> PointLoad:
-    """The rotating force of an unbalance on a shaft of given direction, at every frequency.
-
-    Parameters
-    ----------
-    body : str
-        The body carrying the rotor.
-    point : array_like
-        The unbalance plane's centre on the shaft axis [m].
-    axis : array_like
-        The shaft direction (any length; the rotor spins right-handed about it).
-    unbalance : float or pint.Quantity
-        ``m e`` [kg m] (> 0).
-    frequency : array_like or pint.Quantity
-        Running frequencies [Hz] (>= 0).
-
-    Returns
-    -------
-    PointLoad
-        ``F = m e w^2 (e1 - i e2)`` per frequency: the force ``m e w^2 (e1 cos wt + e2 sin wt)``, turning
-        from ``e1`` towards ``e2`` with the shaft, right-handed about the axis (:func:`unbalance_reference`).
-
-    Raises
-    ------
-    InputValueError
-        A zero axis, a bad unbalance or frequency.
-
-    Notes
-    -----
-    The phase reference: at ``t = 0`` the unbalance mass, and the force it throws out, lie along ``e1``; a
-    quarter turn later along ``e2 = n x e1``. Every phase a study reports is a lag behind this force.
-
-    References
-    ----------
-    ISO 21940-11 (the force ``U w^2``); S. S. Rao, *Mechanical Vibrations*, 6th ed., 2017, sec. 3.7
-    (rotating unbalance); J. M. Vance, *Rotordynamics of Turbomachinery*, 1988, ch. 2 (the synchronous orbit
-    turns with the rotor on an isotropic support; from memory).
-    """
-    e1, e2 = unbalance_reference(axis)
-    u = as_si(unbalance, "unbalance", "unbalance", "positive")
-    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
-    force = (u * w**2)[:, None] * (e1 - 1j * e2)[None, :]
-    return PointLoad(body, _vector(point, "point"), force)
-
-
-def unbalance_reference(axis: object) -> tuple[np.ndarray, np.ndarray]:
-    """Where an unbalance on a shaft of this direction sits at ``t = 0``, and a quarter turn later.
-
-    Parameters
-    ----------
-    axis : array_like
-        The shaft direction ``n`` (any length); the rotor spins right-handed about it.
-
-    Returns
-    -------
-    e1 : numpy.ndarray
-        The unit direction of the unbalance at ``t = 0``: ``n x h`` normalised, ``h`` the global axis least
-        aligned with ``n`` (x for a shaft along z: ``e1`` is then +y).
-    e2 : numpy.ndarray
-        ``n x e1``, where it is a quarter turn later (-x for a shaft along z).
-
-    Raises
-    ------
-    InputValueError
-        A zero or non-finite axis.
-
-    Examples
-    --------
-    >>> e1, e2 = unbalance_reference([0, 0, 1])
-    >>> e1.tolist(), e2.tolist()
-    ([0.0, 1.0, 0.0], [-1.0, 0.0, 0.0])
-    """
-    n = _vector(axis, "axis", "ratio")
-    largest = float(np.max(np.abs(n)))
-    if not largest > 0.0:
-        raise InputValueError("axis: got a zero vector; expected the shaft direction")
-    n = n / largest  # a direction: scaled first, so that 1e300 components do not overflow the length
-    n = n / float(np.linalg.norm(n))
-    helper = np.eye(3)[int(np.argmin(np.abs(n)))]
-    e1 = np.cross(n, helper)
-    e1 /= np.linalg.norm(e1)
-    e2 = np.cross(n, e1)
-    return e1 + 0.0, e2 + 0.0  # + 0.0: no negative zeros in what is shown
-
-
-def space_response(
-    model: SpaceModel, loads: Sequence[PointLoad], frequency: object, points: Sequence[tuple[str, object]]
-) -> np.ndarray:
-    """Steady complex displacement at body points under harmonic point loads.
-
-    Parameters
-    ----------
-    model : SpaceModel
-        From :func:`space_model`.
-    loads : sequence of PointLoad
-        The loads (forces per frequency or one for all).
-    frequency : array_like or pint.Quantity
-        Frequencies [Hz] (>= 0).
-    points : sequence of (str, array_like)
-        ``(body, point)`` where the motion is read.
-
-    Returns
-    -------
-    numpy.ndarray
-        Complex displacement amplitudes [m], ``len(frequency) x len(points) x 3`` (global x, y, z).
-
-    Raises
-    ------
-    InputValueError
-        An unknown body, a load of the wrong shape, a bad frequency.
-
-    Notes
-    -----
-    ``(K - w^2 M + i w C) q = sum T_p^T F_p + [0; M_p]`` solved at every frequency; the amplitude of each
-    direction is ``|u|`` and the phase lag ``-angle(u)``; :func:`orbit_major` gives the largest excursion.
-    """
-    if not isinstance(model, SpaceModel):
-        raise InputTypeError(f"model: got {type(model).__name__}; expected a SpaceModel")
-    w = 2.0 * math.pi * as_si_array(frequency, "frequency", "frequency", "nonnegative")
-    n = model.model.size
-    rhs = np.zeros((w.size, n), dtype=complex)
-    for i, load in enumerate(loads):
-        j, motion = model.motion(load.body, load.point)
-        given = np.asarray(load.force, dtype=complex)
-        if given.ndim not in (1, 2) or given.shape[-1] != 3 or (given.ndim == 2 and given.shape[0] != w.size):
-            raise InputValueError(f"loads[{i}]: force: expected three components (per frequency or one for all)")
-        force = np.broadcast_to(given, (w.size, 3))
-        moment = np.broadcast_to(np.asarray(load.moment, dtype=complex), (w.size, 3))
-        rhs[:, j : j + 6] += force @ motion
-        rhs[:, j + 3 : j + 6] += moment
-    reads = [model.motion(b, p) for b, p in points]
-    m, k, c = model.model.mass, model.model.stiffness, model.model.damping
-    dynamic = k[None] - (w**2)[:, None, None] * m[None] + 1j * w[:, None, None] * c[None]
-    q = np.linalg.solve(dynamic, rhs[:, :, None])[:, :, 0]
-    return np.stack([q[:, j : j + 6] @ t.T for j, t in reads], axis=1)
-
-
-def orbit_major(displacement: np.ndarray) -> np.ndarray:
-    """Semi-major axis of the elliptical path of a point moving ``Re(u e^{i w t})`` in space.
-
-    Parameters
-    ----------
-    displacement : numpy.ndarray
-        Complex amplitudes, ``... x 3``.
-
-    Returns
-    -------
-    numpy.ndarray
-        The largest excursion from the mean position [m] (0-peak), shape ``...``.
-
-    Raises
-    ------
-    Nothing
-        Plain arithmetic.
-
-    Notes
-    -----
-    With ``u = a + i b`` the path is ``a cos wt - b sin wt``; its largest squared length is the largest
-    eigenvalue of ``[[a.a, -a.b], [-a.b, b.b]]``.
-    """
-    try:
-        u = np.asarray(displacement, dtype=complex)
-    except (TypeError, ValueError):
-        raise InputTypeError(f"displacement: got {displacement!r}; expected complex amplitudes (... x 3)") from None
-    if u.ndim < 1 or u.shape[-1] != 3 or not np.all(np.isfinite(u)):
-        raise InputValueError(f"displacement: got shape {u.shape}; expected finite complex amplitudes (... x 3)")
-    a, b = u.real, u.imag
-    aa, bb, ab = (a * a).sum(-1), (b * b).sum(-1), (a * b).sum(-1)
-    mean, half = 0.5 * (aa + bb), np.sqrt(0.25 * (aa - bb) ** 2 + ab**2)
-    return np.sqrt(mean + half)

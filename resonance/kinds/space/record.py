@@ -14,10 +14,7 @@ from ...checks.interference import verdict_line
 from ...core.units import display_unit
 from ...records.record import CAUTION, Record, record_head
 from ...records.sections import basis_lines, excitation_lines, excitation_rows, header_lines, methods_used
-from .bodies import (
-    orbit_major,
-    unbalance_reference,
-)
+from .response import orbit_major, unbalance_reference
 from .study import SpaceStudyResult
 
 __all__ = ["build_space_record"]

@@ -75,21 +75,15 @@ import numpy as np
 from ...checks.excitations import Excitation
 from ...checks.rules import RuleSet
 from ...checks.speed_range import OperatingRange
-from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
 from ...core.units import UnitSystem
+from ...records.excitation_tables import MotorSpec, parse_excitations, parse_motor, parse_speed
+from ...records.rule_tables import parse_rules, parse_vibration
 from ...records.tables import (
-    MotorSpec,
     RecordSpec,
-    ScenarioError,
     TableReader,
-    parse_excitations,
     parse_head,
-    parse_motor,
     parse_record,
-    parse_rules,
-    parse_speed,
-    parse_vibration,
     plain_tables,
     read_scenario_bytes,
 )
@@ -98,45 +92,22 @@ from .bodies import (
     Mount,
     RigidBody,
     SpaceModel,
-    box_inertia,
-    equivalent_box,
     space_model,
 )
 from .frame import Beam
 from .soil import FootingImpedance, footing_impedance, soil_mount
+from .tables import (
+    SoilSpec,
+    read_bodies,
+    read_forces,
+    read_frame,
+    read_mounts,
+    read_probes,
+    read_soil,
+    read_unbalances,
+)
 
 __all__ = ["SoilSpec", "SpaceScenario", "load_space_scenario", "parse_space_scenario"]
-
-
-@dataclass(frozen=True)
-class SoilSpec:
-    """The soil under a body, as given.
-
-    Attributes
-    ----------
-    body : str
-        The block.
-    point : numpy.ndarray
-        Centre of the footing's base [m].
-    shear_modulus, poisson_ratio, density : float
-        ``G`` [Pa], ``nu`` [-], ``rho`` [kg/m^3].
-    radius : float or None
-        A circular footing's radius [m].
-    width_x, width_y : float or None
-        A rectangular footing's sides [m].
-    embedment : float
-        [m].
-    """
-
-    body: str
-    point: np.ndarray
-    shear_modulus: float
-    poisson_ratio: float
-    density: float
-    radius: float | None
-    width_x: float | None
-    width_y: float | None
-    embedment: float
 
 
 @dataclass(frozen=True)
@@ -334,19 +305,6 @@ class SpaceScenario:
         return space_model(self.bodies, mounts, self.nodes, beams, self.attached, self.fixed, zeta)
 
 
-def _point(r: TableReader, raw: Any, field: str) -> np.ndarray:
-    if not isinstance(raw, list) or len(raw) != 3:
-        raise r.fail(field, f"got {raw!r}; expected three coordinates [x, y, z]")
-    return np.array([r.value(v, f"{field}[{i}]", "length") for i, v in enumerate(raw)])
-
-
-def _triple(r: TableReader, item: Mapping[str, Any], key: str, field: str, kind: Any) -> np.ndarray:
-    raw = item.get(key, [0.0, 0.0, 0.0])
-    if not isinstance(raw, list) or len(raw) != 3:
-        raise r.fail(f"{field}.{key}", f"got {raw!r}; expected three values (x, y, z)")
-    return np.array([r.value(v, f"{field}.{key}[{i}]", kind, "nonnegative") for i, v in enumerate(raw)])
-
-
 def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario>") -> SpaceScenario:
     """Validate a supports-in-space scenario given as nested tables (as read from TOML).
 
@@ -396,219 +354,15 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     zeta = r.value(t.get("damping_ratio", 0.0), "space.damping_ratio", "ratio", "nonnegative")
     if not zeta < 1.0:
         raise r.fail("space.damping_ratio", f"got {zeta:g}; expected a ratio below 1")
-    bodies = []
-    for i, item in enumerate(r.array(t, "bodies", "space.bodies")):
-        field = f"space.bodies[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table with name, mass, center and box or inertia")
-        r.known(item, ("name", "mass", "center", "box", "inertia"), field)
-        mass = r.quantity(item, "mass", f"{field}.mass", "mass", "positive")
-        if ("box" in item) == ("inertia" in item):
-            raise r.fail(field, "give exactly one of box (edge lengths) or inertia (a 3 x 3 tensor)")
-        if "box" in item:
-            box = item["box"]
-            if not isinstance(box, list) or len(box) != 3:
-                raise r.fail(f"{field}.box", f"got {box!r}; expected three edge lengths")
-            inertia = box_inertia(
-                mass, *(r.value(v, f"{field}.box[{k}]", "length", "positive") for k, v in enumerate(box))
-            )
-        else:
-            rows = item["inertia"]
-            if (
-                not isinstance(rows, list)
-                or len(rows) != 3
-                or not all(isinstance(x, list) and len(x) == 3 for x in rows)
-            ):
-                raise r.fail(f"{field}.inertia", "expected three rows of three values")
-            inertia = np.array(
-                [
-                    [r.value(v, f"{field}.inertia[{a}][{b}]", "inertia") for b, v in enumerate(row)]
-                    for a, row in enumerate(rows)
-                ]
-            )
-        try:
-            bodies.append(
-                RigidBody(
-                    r.text(item, "name", f"{field}.name"),
-                    mass,
-                    _point(r, item.get("center"), f"{field}.center"),
-                    inertia,
-                )
-            )
-        except ScenarioError:
-            raise  # already names the file and the field
-        except InputValueError as error:
-            raise r.fail(field, str(error)) from None
-    mounts = []
-    for i, item in enumerate(r.array(t, "mounts", "space.mounts", required=False)):
-        field = f"space.mounts[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table")
-        r.known(
-            item,
-            ("label", "body", "other", "point", "stiffness", "damping", "rotational_stiffness", "rotational_damping"),
-            field,
-        )
-        try:
-            mounts.append(
-                Mount(
-                    r.text(item, "label", f"{field}.label", f"mount {i + 1}"),
-                    _point(r, item.get("point"), f"{field}.point"),
-                    r.text(item, "body", f"{field}.body"),
-                    r.text(item, "other", f"{field}.other", "ground"),
-                    _triple(r, item, "stiffness", field, "stiffness"),
-                    _triple(r, item, "damping", field, "damping"),
-                    _triple(r, item, "rotational_stiffness", field, "moment_stiffness"),
-                    _triple(r, item, "rotational_damping", field, "moment_damping"),
-                )
-            )
-        except ScenarioError:
-            raise  # already names the file and the field
-        except InputValueError as error:
-            raise r.fail(field, str(error)) from None
-    soil = None
-    if "soil" in t:
-        s = r.table(t, "soil", "space.soil")
-        r.known(
-            s,
-            ("body", "point", "shear_modulus", "poisson_ratio", "density", "radius", "width_x", "width_y", "embedment"),
-            "space.soil",
-        )
-        body_name = r.text(s, "body", "space.soil.body")
-        owner = next((b for b in bodies if b.name == body_name), None)
-        if owner is None:
-            raise r.fail("space.soil.body", f"got {body_name!r}; expected one of {[b.name for b in bodies]}")
-        if "point" in s:
-            base = _point(r, s["point"], "space.soil.point")
-        else:  # the lowest face of the body's (equivalent) box: its centre minus half its height
-            sides, axes = equivalent_box(owner.mass, owner.inertia)
-            half = 0.5 * float(np.abs(axes[2]) @ sides)  # the box's half-height (its extent along z)
-            base = np.round(owner.center - np.array([0.0, 0.0, half]), 9)  # to the nanometre: no round-off
-        lengths = {
-            k: r.quantity(s, k, f"space.soil.{k}", "length", "positive")
-            for k in ("radius", "width_x", "width_y")
-            if k in s
-        }
-        soil = SoilSpec(
-            body_name,
-            base,
-            r.quantity(s, "shear_modulus", "space.soil.shear_modulus", "pressure", "positive"),
-            r.quantity(s, "poisson_ratio", "space.soil.poisson_ratio", "ratio", "nonnegative"),
-            r.quantity(s, "density", "space.soil.density", "density", "positive"),
-            lengths.get("radius"),
-            lengths.get("width_x"),
-            lengths.get("width_y"),
-            r.value(s.get("embedment", 0.0), "space.soil.embedment", "length", "nonnegative"),
-        )
-        height = 2.0 * float(owner.center[2] - base[2])  # the block's height, its base below its centre
-        if soil.embedment > 0.0 and not soil.embedment <= height:
-            raise r.fail(
-                "space.soil.embedment",
-                f"got {soil.embedment:g} m, deeper than the block {body_name!r} ({height:.4g} m from its base to "
-                "its top); expected an embedment up to the block's height",
-            )
-    nodes = []
-    for i, item in enumerate(r.array(t, "nodes", "space.nodes", required=False)):
-        field = f"space.nodes[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table with name and point")
-        r.known(item, ("name", "point"), field)
-        try:
-            nodes.append(
-                FrameNode(r.text(item, "name", f"{field}.name"), _point(r, item.get("point"), f"{field}.point"))
-            )
-        except ScenarioError:
-            raise  # already names the file and the field
-        except InputValueError as error:
-            raise r.fail(field, str(error)) from None
-    beams = []
-    for i, item in enumerate(r.array(t, "beams", "space.beams", required=False)):
-        field = f"space.beams[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table")
-        keys = ("youngs_modulus", "shear_modulus", "density", "area", "iy", "iz", "torsion_constant")
-        r.known(item, ("label", "between", "up", *keys), field)
-        between = r.array(item, "between", f"{field}.between")
-        if len(between) != 2 or not all(isinstance(x, str) for x in between):
-            raise r.fail(f"{field}.between", f"got {between!r}; expected two node names")
-        kinds = ("pressure", "pressure", "density", "area", "second_moment", "second_moment", "second_moment")
-        values = [r.quantity(item, k, f"{field}.{k}", kind, "positive") for k, kind in zip(keys, kinds, strict=True)]  # type: ignore[arg-type]
-        up = None
-        if "up" in item:
-            raw = item["up"]
-            if not isinstance(raw, list) or len(raw) != 3:
-                raise r.fail(f"{field}.up", f"got {raw!r}; expected a direction [x, y, z]")
-            up = np.array([r.value(v, f"{field}.up[{k}]", "ratio") for k, v in enumerate(raw)])
-        try:
-            e, g, rho, area, iy, iz, j = values
-            label = r.text(item, "label", f"{field}.label", f"{between[0]}-{between[1]}")
-            beams.append(Beam(label, between[0], between[1], e, g, rho, area, iy, iz, j, up))
-        except ScenarioError:
-            raise  # already names the file and the field
-        except InputValueError as error:
-            raise r.fail(field, str(error)) from None
+    bodies = read_bodies(r, t)
+    mounts = read_mounts(r, t)
+    soil = read_soil(r, t, bodies)
+    nodes, beams = read_frame(r, t)
     fixed = tuple(str(x) for x in r.array(t, "fixed", "space.fixed", required=False))
     attached = {str(k): str(v) for k, v in r.table(t, "attached", "space.attached", required=False).items()}
-    unbalance = []
-    rotor_speed = speed.speed_max
-    for i, item in enumerate(r.array(t, "unbalance", "space.unbalance", required=False)):
-        field = f"space.unbalance[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table")
-        r.known(item, ("body", "point", "axis", "amount", "balance_grade", "rotor_mass"), field)
-        if "amount" in item and ("balance_grade" in item or "rotor_mass" in item):
-            raise r.fail(
-                field, "gives amount and a balance grade; expected one of amount, or balance_grade with rotor_mass"
-            )
-        if "amount" in item:
-            amount = r.quantity(item, "amount", f"{field}.amount", "unbalance", "positive")
-        elif "balance_grade" in item and "rotor_mass" in item:
-            amount = permissible_unbalance(
-                r.quantity(item, "balance_grade", f"{field}.balance_grade", "balance_grade", "positive"),
-                r.quantity(item, "rotor_mass", f"{field}.rotor_mass", "mass", "positive"),
-                rotor_speed,
-            )
-        else:
-            raise r.fail(field, "give amount, or balance_grade with rotor_mass")
-        axis_raw = item.get("axis")
-        if not isinstance(axis_raw, list) or len(axis_raw) != 3:
-            raise r.fail(f"{field}.axis", f"got {axis_raw!r}; expected the shaft direction [x, y, z]")
-        axis = np.array([r.value(v, f"{field}.axis[{k}]", "ratio") for k, v in enumerate(axis_raw)])
-        if not np.any(axis != 0.0):
-            raise r.fail(f"{field}.axis", "got a zero vector; expected the shaft direction")
-        unbalance.append(
-            (r.text(item, "body", f"{field}.body"), _point(r, item.get("point"), f"{field}.point"), axis, amount)
-        )
-    forces = []
-    for i, item in enumerate(r.array(t, "forces", "space.forces", required=False)):
-        field = f"space.forces[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table with body, point, force or moment, and order")
-        r.known(item, ("body", "point", "force", "moment", "order"), field)
-        if "force" not in item and "moment" not in item:
-            raise r.fail(field, "give a force, a moment or both (three components each)")
-        vectors = []
-        for key, kind in (("force", "force"), ("moment", "torque")):
-            raw = item.get(key, [0.0, 0.0, 0.0])
-            if not isinstance(raw, list) or len(raw) != 3:
-                raise r.fail(f"{field}.{key}", f"got {raw!r}; expected three components [x, y, z]")
-            vectors.append(np.array([r.value(v, f"{field}.{key}[{k}]", kind) for k, v in enumerate(raw)]))  # type: ignore[arg-type]
-        order = r.value(item.get("order", 1.0), f"{field}.order", "ratio", "positive")
-        point = _point(r, item.get("point"), f"{field}.point")
-        forces.append((r.text(item, "body", f"{field}.body"), point, vectors[0], vectors[1], order))
-    probes = []
-    for i, item in enumerate(r.array(t, "probes", "space.probes", required=False)):
-        field = f"space.probes[{i}]"
-        if not isinstance(item, Mapping):
-            raise r.fail(field, f"got {item!r}; expected a table with label, body and point")
-        r.known(item, ("label", "body", "point"), field)
-        probes.append(
-            (
-                r.text(item, "label", f"{field}.label", f"probe {i + 1}"),
-                r.text(item, "body", f"{field}.body"),
-                _point(r, item.get("point"), f"{field}.point"),
-            )
-        )
+    unbalance = read_unbalances(r, t, speed.speed_max)
+    forces = read_forces(r, t)
+    probes = read_probes(r, t)
     group, support = parse_vibration(r, r.table(data, "vibration", "vibration", required=False))
     whatif = r.table(data, "whatif", "whatif", required=False)
     r.known(whatif, ("tolerance", "vary_mounts"), "whatif")

@@ -18,14 +18,9 @@ from ...checks.limits import iso_velocity_zone, support_class, zone_criterion
 from ...core.units import UnitSystem, display_unit
 from ...dynamics.harmonic import convert_amplitude
 from ...dynamics.modes import Mode
-from .bodies import (
-    PointLoad,
-    SpaceMode,
-    SpaceModel,
-    rotating_unbalance,
-    space_modes,
-    space_response,
-)
+from .bodies import SpaceModel
+from .modes import SpaceMode, space_modes
+from .response import PointLoad, rotating_unbalance, space_response
 from .scenario import SpaceScenario
 
 __all__ = ["SpaceStudyResult", "run_space_study"]

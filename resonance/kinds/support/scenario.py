@@ -95,24 +95,24 @@ from ...core.errors import InputValueError
 from ...core.units import UnitSystem
 from ...dynamics.lumped import MassSpec, ModelSpec, SpringSpec
 from ...dynamics.model import GROUND
-from ...records.tables import (
+from ...records.excitation_tables import (
     MotorSpec,
-    RecordSpec,
-    ScenarioError,
-    TableReader,
     excitation_table,
     motor_table,
     parse_excitations,
-    parse_head,
     parse_motor,
-    parse_record,
-    parse_rules,
     parse_speed,
-    parse_vibration,
+    speed_table,
+)
+from ...records.rule_tables import parse_rules, parse_vibration, rules_table
+from ...records.tables import (
+    RecordSpec,
+    ScenarioError,
+    TableReader,
+    parse_head,
+    parse_record,
     read_scenario_bytes,
     read_scenario_file,
-    rules_table,
-    speed_table,
     write_scenario_table,
 )
 

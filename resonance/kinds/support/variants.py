@@ -10,68 +10,25 @@ on the same scaled scenario (``tests/test_uncertainty.py`` compares them).
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
 
 import numpy as np
 
 from ...checks.margins import range_margins
 from ...checks.rules import is_flat
+from ...checks.variant_findings import VariantFindings
 from ...core.errors import InputValueError
 from ...dynamics.batch import lumped_modes_batch
 from ...dynamics.modes import model_modes
 from .scenario import Scenario
 from .study import study_modes
 
-__all__ = ["VariantFindings", "evaluate_variants", "run_study_labels"]
-
-
-@dataclass(frozen=True)
-class VariantFindings:
-    """Every mode against every excitation, for every variant.
-
-    Attributes
-    ----------
-    margin : numpy.ndarray
-        Separation margin [percent], ``variants x modes x excitations`` (NaN where a variant lacks the mode).
-    required : numpy.ndarray
-        Required margin [percent]: per excitation (flat rules, the same for every variant) or
-        ``variants x modes x excitations`` (rules that depend on each variant's AF); NaN where no margin is
-        required (an exemption).
-    mode_labels, excitation_labels : tuple of str
-        Modes numbered by ascending frequency (labelled as in the nominal scenario) and the excitations.
-    frequency : numpy.ndarray
-        Natural frequencies [Hz], ``variants x modes``.
-    """
-
-    margin: np.ndarray
-    required: np.ndarray
-    mode_labels: tuple[str, ...]
-    excitation_labels: tuple[str, ...]
-    frequency: np.ndarray
-
-    @property
-    def excess(self) -> np.ndarray:
-        """Margin minus required [percent points], ``variants x modes x excitations``; < 0 fails."""
-        required = self.required if self.required.ndim == 3 else self.required[None, None, :]
-        return self.margin - required
-
-    @property
-    def failed(self) -> np.ndarray:
-        """True where a finding fails (NaN margins do not fail), ``variants x modes x excitations``."""
-        return self.excess < 0.0
-
-    @property
-    def worst_excess(self) -> np.ndarray:
-        """Each variant's smallest margin minus required [percent points]; < 0 means it fails."""
-        return np.nanmin(self.excess.reshape(self.excess.shape[0], -1), axis=1)
-
-    @property
-    def worst_margin(self) -> np.ndarray:
-        """Each variant's margin [percent] at its worst finding (the one with the smallest excess)."""
-        flat = self.excess.reshape(self.excess.shape[0], -1)
-        worst = np.nanargmin(flat, axis=1)
-        return self.margin.reshape(flat.shape)[np.arange(flat.shape[0]), worst]
+__all__ = [
+    "evaluate_variants",
+    "run_study_labels",
+    "uncertain_targets",
+    "variant_findings",
+]
 
 
 def evaluate_variants(
@@ -167,3 +124,69 @@ def run_study_labels(scenario: Scenario) -> tuple[str, ...]:
     """
     model = scenario.model.build()
     return tuple(m.label for m in study_modes(model_modes(model), model.labels))
+
+
+def uncertain_targets(scenario: Scenario) -> list[str]:
+    """What an ``[uncertainty]`` table may vary in a support scenario.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+
+    Returns
+    -------
+    list of str
+        ``spring:<label>`` for every spring, ``mass:<name>`` for every mass, ``damping_ratio``, ``speed_min``
+        and ``speed_max``.
+
+    Raises
+    ------
+    Nothing
+        The scenario is already validated.
+    """
+    return [
+        *(f"spring:{s.label}" for s in scenario.model.springs),
+        *(f"mass:{m}" for m in scenario.model.labels),
+        "damping_ratio",
+        "speed_min",
+        "speed_max",
+    ]
+
+
+def variant_findings(scenario: Scenario, varies: Sequence[str], values: np.ndarray) -> VariantFindings:
+    """The findings of a block of variants of a support scenario, in one batched solve.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The nominal scenario.
+    varies : sequence of str
+        What each column of ``values`` varies (from :func:`uncertain_targets`).
+    values : numpy.ndarray
+        Factors on the nominal values, ``variants x inputs``.
+
+    Returns
+    -------
+    VariantFindings
+
+    Raises
+    ------
+    InputValueError
+        Factors that make an invalid variant (see :func:`evaluate_variants`).
+    """
+    stiffness: dict[str, np.ndarray] = {}
+    mass: dict[str, np.ndarray] = {}
+    other: dict[str, np.ndarray] = {}
+    for j, vary in enumerate(varies):
+        kind, _, name = vary.partition(":")
+        {"spring": stiffness, "mass": mass}.get(kind, other)[name or kind] = values[:, j]
+    return evaluate_variants(
+        scenario,
+        values.shape[0],
+        stiffness,
+        mass,
+        other.get("damping_ratio"),
+        other.get("speed_min"),
+        other.get("speed_max"),
+    )

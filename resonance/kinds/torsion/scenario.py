@@ -76,17 +76,14 @@ from ...checks.rules import RuleSet
 from ...checks.speed_range import OperatingRange
 from ...core.errors import InputValueError
 from ...core.units import UnitSystem
+from ...records.excitation_tables import MotorSpec, parse_excitations, parse_motor, parse_speed
+from ...records.rule_tables import parse_rules
 from ...records.tables import (
-    MotorSpec,
     RecordSpec,
     ScenarioError,
     TableReader,
-    parse_excitations,
     parse_head,
-    parse_motor,
     parse_record,
-    parse_rules,
-    parse_speed,
     plain_tables,
     read_scenario_bytes,
 )

@@ -18,10 +18,10 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 
-from ..core.errors import InputTypeError, InputValueError
-from ..core.executors import Executor, executor_for, progress_bar
-from ..records.tables import atomic_write
-from .registry import run_scenario_file
+from .core.errors import InputTypeError, InputValueError
+from .core.executors import Executor, executor_for, progress_bar
+from .records.tables import atomic_write
+from .studies.registry import run_scenario_file
 
 __all__ = ["FleetRow", "fleet_files", "fleet_summary_csv", "fleet_summary_text", "run_fleet"]
 
@@ -132,7 +132,7 @@ def check_file(item: tuple[str, str | None, str]) -> FleetRow:
     worst = findings[0] if findings else None
     record = None
     if folder is not None:
-        from ..ui.report import render_outcome_html  # plotly is only needed for the HTML records
+        from .ui.report import render_outcome_html  # plotly is only needed for the HTML records
 
         atomic_write(Path(folder) / f"{name}.json", json.dumps(outcome.record.data, indent=2))
         atomic_write(Path(folder) / f"{name}.html", render_outcome_html(outcome))
@@ -200,7 +200,7 @@ def run_fleet(
     with progress_bar(len(items), "fleet", progress) as tick:
         rows = (executor or executor_for(0)).map(check_file, items, tick)
     if folder is not None:
-        from ..ui.report import render_fleet_html
+        from .ui.report import render_fleet_html
 
         atomic_write(folder / "summary.txt", fleet_summary_text(rows))
         atomic_write(folder / "summary.csv", fleet_summary_csv(rows))
