@@ -34,7 +34,18 @@ STAMPS = (
 )
 
 
+#: A plotly figure in an HTML record: its data and layout are compared as JSON values (the order of a layout's
+#: keys follows the order the figure was styled in, which is not content).
+FIGURE = re.compile(r'(Plotly\.newPlot\(\s*"[^"]+",\s*)(\[.*?\]),\s*(\{.*?\}),(\s*\{[^{}]*\}\s*\))', re.S)
+
+
+def _sorted_figure(match: re.Match[str]) -> str:
+    data, layout = (json.dumps(json.loads(match.group(k)), sort_keys=True) for k in (2, 3))
+    return f"{match.group(1)}{data}, {layout},{match.group(4)}"
+
+
 def _normalised(text: str) -> str:
+    text = FIGURE.sub(_sorted_figure, text)
     for pattern, replacement in STAMPS:
         text = pattern.sub(replacement, text)
     return text

@@ -9,7 +9,7 @@ from plotly.subplots import make_subplots
 from ..core.units import UnitSystem, display_unit
 from ..kinds.field.study import FieldStudyResult
 from ..kinds.support.scenario import Scenario
-from .plots import FAIL, OPERATING, PASS, vertical_bands
+from .toolkit import FAIL, OPERATING, PASS, drawn, finished, styled, vertical_bands
 
 __all__ = [
     "bode_figure",
@@ -32,34 +32,11 @@ def _curves(
     return data.speed, x, fine, result.fit.evaluate(fine)
 
 
+@drawn()
 def bode_figure(
     result: FieldStudyResult, scenario: Scenario, channel: str, system: UnitSystem = "SI", widget: bool = False
 ) -> go.Figure:
-    """Measured amplitude (pk-pk) and phase lag against speed, the fitted model overlaid, resonances marked.
-
-    Parameters
-    ----------
-    result : FieldStudyResult
-        The field verification to draw.
-    scenario : Scenario
-        The scenario: its operating range is shaded (and, for a panel, what it runs).
-    channel : str
-        The coast-down channel drawn.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Measured amplitude (pk-pk) and phase lag against speed, the fitted model overlaid, resonances marked."""
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.6, 0.4])
     fig.add_trace(go.Scatter(name="measured", mode="markers", marker={"size": 4, "color": "#1f4e9c"}), row=1, col=1)
     fig.add_trace(go.Scatter(name="fitted model", mode="lines", line={"color": "#c2410c"}), row=1, col=1)
@@ -72,42 +49,18 @@ def bode_figure(
     fig.add_trace(
         go.Scatter(name="fitted phase", mode="lines", line={"color": "#c2410c"}, showlegend=False), row=2, col=1
     )
-    fig.update_layout(
-        height=540,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        title_text="Coast-down: amplitude and phase",
-        legend={"orientation": "h", "y": -0.15},
-    )
+    styled(fig, 540, legend_y=-0.15, title_text="Coast-down: amplitude and phase")
     fig.update_xaxes(title_text="speed [rpm]", row=2, col=1)
     fig.update_yaxes(title_text="phase lag [deg]", row=2, col=1)
     update_bode_figure(fig, result, scenario, channel, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_bode_figure(
     fig: go.Figure, result: FieldStudyResult, scenario: Scenario, channel: str, system: UnitSystem = "SI"
 ) -> None:
-    """Fill a :func:`bode_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : FieldStudyResult
-        The field verification to draw.
-    scenario : Scenario
-        The scenario: its operating range is shaded (and, for a panel, what it runs).
-    channel : str
-        The coast-down channel drawn.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`bode_figure` in place."""
     unit, factor = display_unit("displacement", system)
     speed, x, fine, fitted = _curves(result, channel)
     verdicts = [f.passed for f in result.findings] if result.findings is not None else []
@@ -137,64 +90,22 @@ def update_bode_figure(
         fig.layout.yaxis.title.text = f"amplitude [{unit} pk-pk]"
 
 
+@drawn()
 def polar_figure(result: FieldStudyResult, channel: str, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """The response in the complex plane (Nyquist / polar view), measured and fitted.
-
-    Parameters
-    ----------
-    result : FieldStudyResult
-        The field verification to draw.
-    channel : str
-        The coast-down channel drawn.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """The response in the complex plane (Nyquist / polar view), measured and fitted."""
     fig = go.Figure()
     fig.add_trace(go.Scatter(name="measured", mode="markers", marker={"size": 4, "color": "#1f4e9c"}))
     fig.add_trace(go.Scatter(name="fitted model", mode="lines", line={"color": "#c2410c"}))
-    fig.update_layout(
-        height=460,
-        width=520,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        title_text="Polar view (lag measured clockwise)",
-        yaxis={"scaleanchor": "x"},
+    styled(
+        fig, 460, legend_y=None, width=520, title_text="Polar view (lag measured clockwise)", yaxis={"scaleanchor": "x"}
     )
     update_polar_figure(fig, result, channel, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`polar_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : FieldStudyResult
-        The field verification to draw.
-    channel : str
-        The coast-down channel drawn.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`polar_figure` in place."""
     unit, factor = display_unit("displacement", system)
     speed, x, _, fitted = _curves(result, channel)
     with fig.batch_update():
@@ -211,26 +122,9 @@ def update_polar_figure(fig: go.Figure, result: FieldStudyResult, channel: str, 
         fig.layout.yaxis.title.text = f"imaginary [{unit}, 0-peak]"
 
 
+@drawn()
 def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
-    """Impact test: ``|receptance|`` (H1) and coherence against frequency, the identified modes marked.
-
-    Parameters
-    ----------
-    result : FieldStudyResult
-        The field verification to draw.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Impact test: ``|receptance|`` (H1) and coherence against frequency, the identified modes marked."""
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.7, 0.3])
     fig.add_trace(go.Scatter(name="|H1| (receptance)", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
     fig.add_trace(
@@ -239,35 +133,17 @@ def impact_figure(result: FieldStudyResult, widget: bool = False) -> go.Figure:
         col=1,
     )
     fig.add_trace(go.Scatter(name="coherence", mode="lines", line={"color": "#444444"}, showlegend=False), row=2, col=1)
-    fig.update_layout(
-        height=440,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        title_text="Impact test: H1 and coherence",
-        legend={"orientation": "h", "y": -0.2},
-    )
+    styled(fig, 440, legend_y=-0.2, title_text="Impact test: H1 and coherence")
     fig.update_yaxes(type="log", title_text="|H| [m/N]", row=1, col=1)
     fig.update_yaxes(range=[0, 1.05], title_text="coherence", row=2, col=1)
     fig.update_xaxes(title_text="frequency [Hz]", row=2, col=1)
     update_impact_figure(fig, result)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_impact_figure(fig: go.Figure, result: FieldStudyResult) -> None:
-    """Fill an :func:`impact_figure` in place (empty when the scenario has no impact test).
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : FieldStudyResult
-        The field verification to draw.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill an :func:`impact_figure` in place (empty when the scenario has no impact test)."""
     frf = result.frf
     with fig.batch_update():
         if frf is None:

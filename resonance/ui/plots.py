@@ -25,10 +25,27 @@ from ..core.units import UnitSystem, display_unit
 from ..dynamics.modes import Mode
 from ..kinds.support.study import StudyResult
 from ..kinds.support.whatif import ToleranceResult
+from .toolkit import (
+    CLEAR_BAND,
+    FAIL,
+    OPERATING,
+    PASS,
+    TOLERANCE,
+    af_text,
+    drawn,
+    finished,
+    html_table,
+    styled,
+    vertical_bands,
+)
+
+#: A logarithmic frequency axis, the interference diagram's option for drive trains.
+LOG_FREQUENCY = (
+    "A logarithmic frequency axis (drive trains: a coupling mode at 15 Hz and a gear mesh at 2 kHz on one diagram)."
+)
 
 __all__ = [
     "CheckedStudy",
-    "vertical_bands",
     "response_figure",
     "update_response_figure",
     "interference_figure",
@@ -36,14 +53,6 @@ __all__ = [
     "modes_table_html",
     "findings_table_html",
 ]
-
-# Colours of our own: operating speeds blue, required clear bands orange,
-# passing coincidences green, failing ones red.
-OPERATING = "rgba(60, 120, 216, 0.15)"
-CLEAR_BAND = "rgba(230, 140, 20, 0.22)"
-TOLERANCE = "rgba(120, 120, 120, 0.18)"
-PASS = "#2a9d4b"
-FAIL = "#d62828"
 
 
 class _CheckedScenario(Protocol):
@@ -80,54 +89,7 @@ class CheckedStudy(Protocol):
         """Their findings."""
 
 
-def vertical_bands(spans: Sequence[tuple[float, float]], colour: str, rows: Sequence[int]) -> list[dict]:
-    """Rectangles spanning the full height of the given subplot rows, one per speed span.
-
-    Parameters
-    ----------
-    spans : sequence of (float, float)
-        Speed spans [rpm].
-    colour : str
-        Fill colour.
-    rows : sequence of int
-        Subplot rows the rectangles span.
-
-    Returns
-    -------
-    list of dict
-        plotly shape dictionaries.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
-    shapes = []
-    for low, high in spans:
-        for row in rows:
-            axis = "" if row == 1 else str(row)
-            shapes.append(
-                {
-                    "type": "rect",
-                    "xref": f"x{axis}",
-                    "yref": f"y{axis} domain",
-                    "x0": low,
-                    "x1": high,
-                    "y0": 0,
-                    "y1": 1,
-                    "fillcolor": colour,
-                    # A fixed speed is a band of no width: drawn as a line of the band's colour, made opaque.
-                    **(
-                        {"line": {"color": colour.rsplit(",", 1)[0] + ", 0.9)", "width": 2}}
-                        if low == high
-                        else {"line_width": 0}
-                    ),
-                    "layer": "below",
-                }
-            )
-    return shapes
-
-
+@drawn()
 def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
     """Unbalance response, receptance and phase lag against speed.
 
@@ -135,25 +97,6 @@ def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool
     pk-pk), response per unit harmonic force (receptance magnitude), and
     phase lag; the operating speeds shaded, the speeds the range must keep
     clear of around each 1x coincidence shaded, and the half-power peak marked.
-
-    Parameters
-    ----------
-    result : StudyResult
-        The support study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
     """
     fig = make_subplots(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.06, row_heights=[0.42, 0.3, 0.28])
     fig.add_trace(go.Scatter(name="unbalance response", mode="lines", line={"color": "#1f4e9c"}), row=1, col=1)
@@ -162,34 +105,18 @@ def response_figure(result: StudyResult, system: UnitSystem = "SI", widget: bool
     )
     fig.add_trace(go.Scatter(name="per unit force", mode="lines", line={"color": "#6a4c93"}), row=2, col=1)
     fig.add_trace(go.Scatter(name="phase lag", mode="lines", line={"color": "#444444"}), row=3, col=1)
-    fig.update_layout(
-        height=620, margin={"l": 70, "r": 20, "t": 40, "b": 50}, showlegend=False, template="plotly_white"
-    )
+    styled(fig, 620, legend_y=None, showlegend=False)
     fig.update_xaxes(title_text="speed [rpm]", row=3, col=1)
     fig.update_yaxes(range=[0, 180], dtick=45, title_text="phase lag [deg]", row=3, col=1)
     update_response_figure(fig, result, system)
     # Wrap after filling: a FigureWidget sends later changes as messages to live views, so the data
     # must be in its initial state for a view that opens afterwards (Voila, a re-opened notebook).
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`response_figure` from a result, in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : StudyResult
-        The support study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`response_figure` from a result, in place."""
     d_unit, d_factor = display_unit("displacement", system)
     h_unit, h_factor = display_unit("receptance", system)
     pk_pk = 2.0 * result.displacement * d_factor
@@ -218,6 +145,7 @@ def update_response_figure(fig: go.Figure, result: StudyResult, system: UnitSyst
         fig.layout.title.text = html.escape(result.scenario.title)
 
 
+@drawn(log_frequency=LOG_FREQUENCY)
 def interference_figure(
     result: CheckedStudy,
     system: UnitSystem = "SI",
@@ -232,30 +160,6 @@ def interference_figure(
     clear around each coincidence shaded on its frequency, coincidences marked
     green (pass) or red (fail), and the tolerance band of each mode (when given)
     shaded grey.
-
-    Parameters
-    ----------
-    result : CheckedStudy
-        Any study's result with modes, excitations and findings (support, rotor, torsion).
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    tolerance : ToleranceResult, optional
-        A what-if tolerance band, drawn as grey bands around each mode.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-    log_frequency : bool
-        A logarithmic frequency axis (drive trains: a coupling mode at 15 Hz and a gear mesh at 2 kHz on one
-        diagram).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
     """
     fig = go.Figure()
     if log_frequency:
@@ -267,38 +171,16 @@ def interference_figure(
     fig.add_trace(
         go.Scatter(name="coincidences", mode="markers", marker={"size": 11, "symbol": "circle-open", "line_width": 3})
     )
-    fig.update_layout(
-        height=480,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="speed [rpm]",
-        legend={"orientation": "h", "y": -0.18},
-    )
+    styled(fig, 480, legend_y=-0.18, xaxis_title="speed [rpm]")
     update_interference_figure(fig, result, system, tolerance)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_interference_figure(
     fig: go.Figure, result: CheckedStudy, system: UnitSystem = "SI", tolerance: ToleranceResult | None = None
 ) -> None:
-    """Fill an :func:`interference_figure` from a result, in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : CheckedStudy
-        Any study's result with modes, excitations and findings (support, rotor, torsion).
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    tolerance : ToleranceResult, optional
-        A what-if tolerance band, drawn as grey bands around each mode.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill an :func:`interference_figure` from a result, in place."""
     f_unit, f_factor = display_unit("frequency", system)
     speed_max = result.scenario.speed.speed_max
     x_max = 1.4 * speed_max
@@ -380,57 +262,23 @@ def update_interference_figure(
         fig.layout.title.text = "Natural frequencies against excitations"
 
 
+def _dec_af(m: Mode) -> tuple[str, str]:
+    return f"{m.log_decrement:.3f}", af_text(m.amplification_factor)
+
+
+@drawn(returns="The modes table's HTML.")
 def modes_table_html(result: StudyResult, system: UnitSystem = "SI") -> str:
-    """Modes as an HTML table: frequency, damping ratio, log decrement, AF.
-
-    Parameters
-    ----------
-    result : StudyResult
-        The support study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Returns
-    -------
-    str
-        HTML.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Modes as an HTML table: frequency, damping ratio, log decrement, AF."""
     f_unit, f_factor = display_unit("frequency", system)
-    rows = "".join(
-        f"<tr><td>{html.escape(m.label)}</td><td>{m.frequency * f_factor:.2f}</td><td>{m.speed:.0f}</td>"
-        f"<td>{m.damping_ratio:.4f}</td><td>{m.log_decrement:.3f}</td>"
-        f"<td>{'inf' if math.isinf(m.amplification_factor) else f'{m.amplification_factor:.1f}'}</td></tr>"
+    rows = [
+        (m.label, f"{m.frequency * f_factor:.2f}", f"{m.speed:.0f}", f"{m.damping_ratio:.4f}", *_dec_af(m))
         for m in result.modes
-    )
-    return (
-        f"<table class='modes'><thead><tr><th>mode</th><th>f<sub>n</sub> [{f_unit}]</th><th>1x speed [rpm]</th>"
-        f"<th>damping ratio</th><th>log dec.</th><th>AF</th></tr></thead><tbody>{rows}</tbody></table>"
-    )
+    ]
+    headers = ("mode", f"f<sub>n</sub> [{f_unit}]", "1x speed [rpm]", "damping ratio", "log dec.", "AF")
+    return html_table("modes", headers, rows)
 
 
+@drawn(returns="The findings table's HTML, worst first.")
 def findings_table_html(result: CheckedStudy, system: UnitSystem = "SI") -> str:
-    """The findings table, worst first, as HTML.
-
-    Parameters
-    ----------
-    result : CheckedStudy
-        Any study's result with modes, excitations and findings (support, rotor, torsion).
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Returns
-    -------
-    str
-        HTML.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """The findings table, worst first, as HTML."""
     return result.findings.to_html(system=system)

@@ -12,7 +12,7 @@ from plotly.subplots import make_subplots
 from ..checks.margins import clear_band
 from ..core.units import UnitSystem, display_unit
 from ..kinds.rotor.study import RotorStudyResult
-from .plots import CLEAR_BAND, FAIL, OPERATING, PASS, vertical_bands
+from .toolkit import CLEAR_BAND, FAIL, OPERATING, PASS, drawn, finished, styled, vertical_bands
 
 __all__ = [
     "campbell_figure",
@@ -28,28 +28,9 @@ __all__ = [
 _PROBE_COLOURS = ("#1f4e9c", "#c2410c", "#2a9d4b", "#6a4c93", "#8a6d00")
 
 
+@drawn()
 def campbell_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Whirl frequencies against speed: forward branches solid, backward dotted, order lines, criticals marked.
-
-    Parameters
-    ----------
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Whirl frequencies against speed: forward branches solid, backward dotted, order lines, criticals marked."""
     fig = go.Figure()
     for b, whirl in enumerate(result.campbell.whirl):
         dash = "solid" if whirl == "forward" else "dot"
@@ -61,35 +42,14 @@ def campbell_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget:
             name="critical speeds", mode="markers", marker={"size": 11, "symbol": "circle-open", "line_width": 3}
         )
     )
-    fig.update_layout(
-        height=460,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="speed [rpm]",
-        legend={"orientation": "h", "y": -0.2},
-        title_text="Campbell diagram",
-    )
+    styled(fig, 460, legend_y=-0.2, xaxis_title="speed [rpm]", title_text="Campbell diagram")
     update_campbell_figure(fig, result, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`campbell_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`campbell_figure` in place."""
     f_unit, f_factor = display_unit("frequency", system)
     data = result.campbell
     x_max = float(data.speed[-1])
@@ -118,28 +78,9 @@ def update_campbell_figure(fig: go.Figure, result: RotorStudyResult, system: Uni
         fig.layout.yaxis.title.text = f"whirl frequency [{f_unit}]"
 
 
+@drawn()
 def rotor_response_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Unbalance response at the probes: orbit major axis (pk-pk) and x phase lag against speed.
-
-    Parameters
-    ----------
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Unbalance response at the probes: orbit major axis (pk-pk) and x phase lag against speed."""
     fig = make_subplots(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.08, row_heights=[0.62, 0.38])
     for j, station in enumerate(result.scenario.probes):
         colour = _PROBE_COLOURS[j % len(_PROBE_COLOURS)]
@@ -152,36 +93,16 @@ def rotor_response_figure(result: RotorStudyResult, system: UnitSystem = "SI", w
             col=1,
         )
     fig.add_trace(go.Scatter(name="API limit", mode="lines", line={"color": "#d62828", "dash": "dash"}), row=1, col=1)
-    fig.update_layout(
-        height=560,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        legend={"orientation": "h", "y": -0.15},
-        title_text="Unbalance response",
-    )
+    styled(fig, 560, legend_y=-0.15, title_text="Unbalance response")
     fig.update_xaxes(title_text="speed [rpm]", row=2, col=1)
     fig.update_yaxes(range=[0, 360], dtick=90, title_text="x phase lag [deg]", row=2, col=1)
     update_rotor_response_figure(fig, result, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`rotor_response_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`rotor_response_figure` in place."""
     d_unit, d_factor = display_unit("displacement", system)
     response = result.response
     n = len(result.scenario.probes)
@@ -202,65 +123,31 @@ def update_rotor_response_figure(fig: go.Figure, result: RotorStudyResult, syste
             axis.range = [float(response.speed[0]), float(response.speed[-1])]
 
 
+@drawn()
 def speed_map_figure(result: RotorStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """Undamped critical speed map: criticals against support stiffness, bearing stiffness curves overlaid.
-
-    Parameters
-    ----------
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Undamped critical speed map: criticals against support stiffness, bearing stiffness curves overlaid."""
     fig = go.Figure()
     for i in range(result.speed_map.speed.shape[1]):
         fig.add_trace(go.Scatter(name=f"critical {i + 1}", mode="lines", line={"color": "#1f4e9c", "width": 1.5}))
     for label, *_ in result.bearing_curves:
         fig.add_trace(go.Scatter(name=f"{label} kxx", mode="lines", line={"color": "#c2410c"}))
         fig.add_trace(go.Scatter(name=f"{label} kyy", mode="lines", line={"color": "#c2410c", "dash": "dot"}))
-    fig.update_layout(
-        height=440,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
+    styled(
+        fig,
+        440,
+        legend_y=-0.2,
         yaxis_title="critical speed [rpm]",
         yaxis_type="log",
         xaxis_type="log",
         title_text="Undamped critical speed map",
-        legend={"orientation": "h", "y": -0.2},
     )
     update_speed_map_figure(fig, result, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_speed_map_figure(fig: go.Figure, result: RotorStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`speed_map_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : RotorStudyResult
-        The rotor study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes and labels.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`speed_map_figure` in place."""
     k_unit, k_factor = display_unit("stiffness", system)
     m = result.speed_map
     with fig.batch_update():
@@ -287,56 +174,20 @@ def update_speed_map_figure(fig: go.Figure, result: RotorStudyResult, system: Un
         fig.layout.xaxis.title.text = f"support stiffness [{k_unit}]"
 
 
+@drawn()
 def mode_shape_figure(result: RotorStudyResult, widget: bool = False) -> go.Figure:
-    """Deflected shapes (orbit semi-major axis along the shaft) of the lowest modes at the chosen speed.
-
-    Parameters
-    ----------
-    result : RotorStudyResult
-        The rotor study to draw.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Deflected shapes (orbit semi-major axis along the shaft) of the lowest modes at the chosen speed."""
     fig = go.Figure()
     for b in range(min(6, len(result.shapes_at_max))):
         fig.add_trace(go.Scatter(name=f"mode {b + 1}", mode="lines+markers", marker={"size": 3}))
-    fig.update_layout(
-        height=360,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="axial position [m]",
-        yaxis_title="relative amplitude",
-        legend={"orientation": "h", "y": -0.25},
-    )
+    styled(fig, 360, legend_y=-0.25, xaxis_title="axial position [m]", yaxis_title="relative amplitude")
     update_mode_shape_figure(fig, result)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_mode_shape_figure(fig: go.Figure, result: RotorStudyResult) -> None:
-    """Fill a :func:`mode_shape_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : RotorStudyResult
-        The rotor study to draw.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`mode_shape_figure` in place."""
     with fig.batch_update():
         for b in range(len(fig.data)):
             z, shape = result.shapes_at_max[b]

@@ -7,6 +7,7 @@ place); the interference diagram is the one of :mod:`resonance.ui.plots`.
 from __future__ import annotations
 
 import html
+import math
 
 import numpy as np
 import plotly.graph_objects as go
@@ -14,7 +15,7 @@ import plotly.graph_objects as go
 from ..core.units import UnitSystem, display_unit
 from ..kinds.space.bodies import equivalent_box
 from ..kinds.space.study import SpaceStudyResult
-from .plots import OPERATING, vertical_bands
+from .toolkit import OPERATING, af_text, drawn, finished, html_table, styled, vertical_bands
 
 __all__ = [
     "space_modes_html",
@@ -87,27 +88,9 @@ def _geometry(result: SpaceStudyResult, mode: int | None) -> tuple[np.ndarray, l
     return np.array(points), pairs
 
 
+@drawn()
 def space_shape_figure(result: SpaceStudyResult, mode: int = 0, widget: bool = False) -> go.Figure:
-    """One mode in 3D: every body's box (and the frame) at rest in grey and displaced in colour.
-
-    Parameters
-    ----------
-    result : SpaceStudyResult
-        The study.
-    mode : int
-        Which mode (0: the lowest).
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """One mode in 3D: every body's box (and the frame) at rest in grey and displaced in colour."""
     fig = go.Figure(
         [
             go.Scatter3d(name="at rest", mode="lines", line={"color": "#aaaaaa", "width": 2}),
@@ -122,26 +105,12 @@ def space_shape_figure(result: SpaceStudyResult, mode: int = 0, widget: bool = F
         legend={"orientation": "h", "y": -0.05},
     )
     update_space_shape_figure(fig, result, mode)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_space_shape_figure(fig: go.Figure, result: SpaceStudyResult, mode: int = 0) -> None:
-    """Fill a :func:`space_shape_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder.
-    result : SpaceStudyResult
-        The study.
-    mode : int
-        Which mode.
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """Fill a :func:`space_shape_figure` in place."""
     mode = min(max(mode, 0), len(result.shapes) - 1)
     rest, pairs = _geometry(result, None)
     moved, _ = _geometry(result, mode)
@@ -155,60 +124,22 @@ def update_space_shape_figure(fig: go.Figure, result: SpaceStudyResult, mode: in
         fig.layout.title.text = html.escape(f"Mode {mode + 1}: {shape.frequency:.2f} Hz, {shape.words} (exaggerated)")
 
 
+@drawn()
 def space_response_figure(result: SpaceStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
-    """RMS velocity of the 1x unbalance response at each probe in x, y and z against speed.
-
-    Parameters
-    ----------
-    result : SpaceStudyResult
-        The study.
-    system : {"SI", "US"}
-        Units.
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """RMS velocity of the 1x unbalance response at each probe in x, y and z against speed."""
     fig = go.Figure()
     dashes = ("solid", "dash", "dot")
     for label, _body, _point in result.scenario.probes:
         for d, direction in enumerate("xyz"):
             fig.add_trace(go.Scatter(name=f"{label} {direction}", mode="lines", line={"dash": dashes[d]}))
-    fig.update_layout(
-        height=400,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="speed [rpm]",
-        legend={"orientation": "h", "y": -0.22},
-    )
+    styled(fig, 400, legend_y=-0.22, xaxis_title="speed [rpm]")
     update_space_response_figure(fig, result, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_space_response_figure(fig: go.Figure, result: SpaceStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`space_response_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder.
-    result : SpaceStudyResult
-        The study.
-    system : {"SI", "US"}
-        Units.
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """Fill a :func:`space_response_figure` in place."""
     unit, factor = display_unit("velocity", system)
     with fig.batch_update():
         for k in range(len(result.scenario.probes)):
@@ -220,33 +151,17 @@ def update_space_response_figure(fig: go.Figure, result: SpaceStudyResult, syste
         fig.layout.title.text = "Unbalance response at the bearings (operating speeds shaded)"
 
 
+def _af(zeta: float) -> float:
+    # A space mode carries its damping ratio; its AF is Q = 1 / (2 zeta) (inf undamped).
+    return math.inf if zeta <= 0 else 1 / (2 * zeta)
+
+
+@drawn(returns="The modes table's HTML.")
 def space_modes_html(result: SpaceStudyResult, system: UnitSystem = "SI") -> str:
-    """The modes as an HTML table: frequency, damping, AF and what moves.
-
-    Parameters
-    ----------
-    result : SpaceStudyResult
-        The study.
-    system : {"SI", "US"}
-        Units.
-
-    Returns
-    -------
-    str
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """The modes as an HTML table: frequency, damping, AF and what moves."""
     f_unit, f_factor = display_unit("frequency", system)
-    rows = "".join(
-        f"<tr><td>{i + 1}</td><td>{s.frequency * f_factor:.2f}</td><td>{s.damping_ratio:.4f}</td>"
-        f"<td>{'inf' if s.damping_ratio <= 0 else f'{1 / (2 * s.damping_ratio):.1f}'}</td>"
-        f"<td>{html.escape(s.words)}</td></tr>"
+    rows = [
+        (i + 1, f"{s.frequency * f_factor:.2f}", f"{s.damping_ratio:.4f}", af_text(_af(s.damping_ratio)), s.words)
         for i, s in enumerate(result.shapes)
-    )
-    return (
-        f"<table class='modes'><thead><tr><th>mode</th><th>f<sub>n</sub> [{f_unit}]</th><th>damping ratio</th>"
-        f"<th>AF</th><th>what moves</th></tr></thead><tbody>{rows}</tbody></table>"
-    )
+    ]
+    return html_table("modes", ("mode", f"f<sub>n</sub> [{f_unit}]", "damping ratio", "AF", "what moves"), rows)

@@ -13,6 +13,7 @@ import plotly.graph_objects as go
 
 from ..core.units import UnitSystem, display_unit
 from ..kinds.torsion.study import TorsionStudyResult
+from .toolkit import af_text, drawn, finished, html_table, styled
 
 __all__ = [
     "torque_figure",
@@ -29,56 +30,20 @@ _ROW_CLASS = {"EXCEEDS ALLOWABLE": "fail", "within allowable": "pass", "no allow
 SHAPES_DRAWN = 4
 
 
+@drawn()
 def torsion_shape_figure(result: TorsionStudyResult, widget: bool = False) -> go.Figure:
-    """Each elastic mode's station angles (in each station's own shaft), largest scaled to 1.
-
-    Parameters
-    ----------
-    result : TorsionStudyResult
-        The torsional study to draw.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Each elastic mode's station angles (in each station's own shaft), largest scaled to 1."""
     fig = go.Figure()
     for n in range(min(SHAPES_DRAWN, len(result.shapes))):
         fig.add_trace(go.Scatter(name=f"mode {n + 1}", mode="lines+markers", marker={"size": 8}))
-    fig.update_layout(
-        height=360,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="station (shaft)",
-        yaxis_title="angle in its own shaft [-]",
-        legend={"orientation": "h", "y": -0.3},
-    )
+    styled(fig, 360, legend_y=-0.3, xaxis_title="station (shaft)", yaxis_title="angle in its own shaft [-]")
     update_torsion_shape_figure(fig, result)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_torsion_shape_figure(fig: go.Figure, result: TorsionStudyResult) -> None:
-    """Fill a :func:`torsion_shape_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : TorsionStudyResult
-        The torsional study to draw.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`torsion_shape_figure` in place."""
     stations = result.scenario.train.stations
     names = [f"{s.name} ({s.shaft})" for s in stations]
     with fig.batch_update():
@@ -96,62 +61,23 @@ def update_torsion_shape_figure(fig: go.Figure, result: TorsionStudyResult) -> N
         fig.layout.title.text = "Torsional mode shapes (the element named takes most of the twist)"
 
 
+@drawn()
 def torque_figure(result: TorsionStudyResult, system: UnitSystem = "SI", widget: bool = False) -> go.Figure:
     """Dynamic torque amplitude in every element over the operating speeds, the cases' amplitudes added.
 
     Allowable torques, where given, are dotted lines of the element's colour; the operating speeds are shaded.
-
-    Parameters
-    ----------
-    result : TorsionStudyResult
-        The torsional study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes.
-    widget : bool
-        Return a ``go.FigureWidget`` (filled before wrapping, so late views see the data).
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        A ``go.FigureWidget`` when ``widget`` is True.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
     """
     fig = go.Figure()
     for label, *_ in result.scenario.train.elements:
         fig.add_trace(go.Scatter(name=label, mode="lines"))
-    fig.update_layout(
-        height=400,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
-        xaxis_title="driver speed [rpm]",
-        yaxis_type="log",
-        legend={"orientation": "h", "y": -0.22},
-    )
+    styled(fig, 400, legend_y=-0.22, xaxis_title="driver speed [rpm]", yaxis_type="log")
     update_torque_figure(fig, result, system)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_torque_figure(fig: go.Figure, result: TorsionStudyResult, system: UnitSystem = "SI") -> None:
-    """Fill a :func:`torque_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder; updated in place.
-    result : TorsionStudyResult
-        The torsional study to draw.
-    system : {"SI", "US"}
-        Unit system of the axes.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Fill a :func:`torque_figure` in place."""
     unit, factor = display_unit("torque", system)
     sweep = result.torque
     shapes: list[dict] = []
@@ -197,59 +123,26 @@ def update_torque_figure(fig: go.Figure, result: TorsionStudyResult, system: Uni
         )
 
 
+@drawn(returns="The torsional modes table's HTML.")
 def torsion_modes_html(result: TorsionStudyResult, system: UnitSystem = "SI") -> str:
-    """The torsional modes as an HTML table: frequency, damping, AF and the element that twists most.
-
-    Parameters
-    ----------
-    result : TorsionStudyResult
-        The torsional study.
-    system : {"SI", "US"}
-        Unit system.
-
-    Returns
-    -------
-    str
-        HTML.
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """The torsional modes as an HTML table: frequency, damping, AF and the element that twists most."""
     f_unit, f_factor = display_unit("frequency", system)
-    rows = "".join(
-        f"<tr><td>{html.escape(m.label)}</td><td>{m.frequency * f_factor:.2f}</td><td>{m.damping_ratio:.4f}</td>"
-        f"<td>{'inf' if math.isinf(m.amplification_factor) else f'{m.amplification_factor:.1f}'}</td>"
-        f"<td>{html.escape(s.twists_most)}</td></tr>"
+    rows = [
+        (
+            m.label,
+            f"{m.frequency * f_factor:.2f}",
+            f"{m.damping_ratio:.4f}",
+            af_text(m.amplification_factor),
+            s.twists_most,
+        )
         for m, s in zip(result.modes, result.shapes, strict=True)
-    )
-    return (
-        f"<table class='modes'><thead><tr><th>mode</th><th>f<sub>n</sub> [{f_unit}]</th><th>damping ratio</th>"
-        f"<th>AF</th><th>twist</th></tr></thead><tbody>{rows}</tbody></table>"
-    )
+    ]
+    return html_table("modes", ("mode", f"f<sub>n</sub> [{f_unit}]", "damping ratio", "AF", "twist"), rows)
 
 
+@drawn(returns="HTML (a sentence when the scenario gives no harmonic torque).")
 def torque_table_html(result: TorsionStudyResult, system: UnitSystem = "SI") -> str:
-    """Each element's largest dynamic torque over the operating speeds against its allowable, as HTML.
-
-    Parameters
-    ----------
-    result : TorsionStudyResult
-        The torsional study.
-    system : {"SI", "US"}
-        Unit system.
-
-    Returns
-    -------
-    str
-        HTML (a sentence when the scenario gives no harmonic torque).
-
-    Raises
-    ------
-    Nothing
-        Drawing only: the result is already validated.
-    """
+    """Each element's largest dynamic torque over the operating speeds against its allowable, as HTML."""
     sweep = result.torque
     if sweep is None:
         return "<p>No harmonic torque given: forced response not computed.</p>"

@@ -13,7 +13,7 @@ import plotly.graph_objects as go
 
 from ..kinds.support.whatif import FixMap
 from ..studies.uncertainty import UncertaintyResult
-from .plots import FAIL, PASS
+from .toolkit import FAIL, PASS, drawn, finished, styled
 
 __all__ = [
     "fix_map_figure",
@@ -27,81 +27,33 @@ __all__ = [
 _LAYOUT = {"height": 340, "margin": {"l": 70, "r": 20, "t": 40, "b": 50}, "template": "plotly_white"}
 
 
+@drawn()
 def worst_margin_figure(result: UncertaintyResult, widget: bool = False) -> go.Figure:
-    """Histogram of each variant's worst margin minus required; variants left of 0 fail.
-
-    Parameters
-    ----------
-    result : UncertaintyResult
-        The study.
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """Histogram of each variant's worst margin minus required; variants left of 0 fail."""
     fig = go.Figure([go.Histogram(name="variants", marker_color="#3c78d8", nbinsx=60)])
     fig.update_layout(**_LAYOUT, xaxis_title="worst margin minus required [percent points]", yaxis_title="variants")
     update_uncertainty_figures(result, histogram=fig)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def failure_probability_figure(result: UncertaintyResult, widget: bool = False) -> go.Figure:
-    """The probability that each finding fails (findings that never fail left out), largest at the top.
-
-    Parameters
-    ----------
-    result : UncertaintyResult
-        The study.
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """The probability that each finding fails (findings that never fail left out), largest at the top."""
     fig = go.Figure([go.Bar(orientation="h", marker_color=FAIL, name="P(fail)")])
     fig.update_layout(**_LAYOUT, xaxis_title="probability that the finding fails [%]")
     fig.update_layout(margin={"l": 330})
     update_uncertainty_figures(result, probability=fig)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def sensitivity_figure(result: UncertaintyResult, widget: bool = False) -> go.Figure:
-    """First-order sensitivity index of the worst margin to each input, with its 95 % confidence.
-
-    Parameters
-    ----------
-    result : UncertaintyResult
-        The study.
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """First-order sensitivity index of the worst margin to each input, with its 95 % confidence."""
     fig = go.Figure([go.Bar(orientation="h", marker_color="#7e22ce", name="first-order index")])
     fig.update_layout(**_LAYOUT, xaxis_title="first-order index of the worst margin (RBD-FAST)")
     fig.update_layout(margin={"l": 160})
     update_uncertainty_figures(result, sensitivity=fig)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
 def update_uncertainty_figures(
@@ -160,25 +112,9 @@ def update_uncertainty_figures(
             sensitivity.layout.title.text = "Which inputs drive the worst margin"
 
 
+@drawn()
 def fix_map_figure(fixes: FixMap, widget: bool = False) -> go.Figure:
-    """The worst margin over a stiffness factor and a mass factor: passing region outlined, fixes marked.
-
-    Parameters
-    ----------
-    fixes : FixMap
-        From :func:`resonance.kinds.support.whatif.combined_fix_map`.
-    widget : bool
-        Return a ``go.FigureWidget``.
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """The worst margin over a stiffness factor and a mass factor: passing region outlined, fixes marked."""
     fig = go.Figure(
         [
             go.Heatmap(name="worst margin", colorscale="RdBu", zmid=0.0, colorbar={"title": "pp"}),
@@ -192,33 +128,20 @@ def fix_map_figure(fixes: FixMap, widget: bool = False) -> go.Figure:
             go.Scatter(name="smallest combined fix", mode="markers", marker={"size": 14, "color": PASS}),
         ]
     )
-    fig.update_layout(
-        height=460,
-        margin={"l": 70, "r": 20, "t": 40, "b": 50},
-        template="plotly_white",
+    styled(
+        fig,
+        460,
+        legend_y=-0.2,
         xaxis={"type": "log", "title": "stiffness factor"},
         yaxis={"type": "log", "title": "mass factor"},
-        legend={"orientation": "h", "y": -0.2},
     )
     update_fix_map_figure(fig, fixes)
-    return go.FigureWidget(fig) if widget else fig
+    return finished(fig, widget)
 
 
+@drawn()
 def update_fix_map_figure(fig: go.Figure, fixes: FixMap) -> None:
-    """Fill a :func:`fix_map_figure` in place.
-
-    Parameters
-    ----------
-    fig : plotly.graph_objects.Figure
-        A figure made by the matching builder.
-    fixes : FixMap
-        The map.
-
-    Raises
-    ------
-    Nothing
-        Drawing only.
-    """
+    """Fill a :func:`fix_map_figure` in place."""
     z = np.where(np.isfinite(fixes.worst_excess), fixes.worst_excess, np.nan)
     limit = float(np.nanmax(np.abs(z))) if np.any(np.isfinite(z)) else 1.0
     with fig.batch_update():
