@@ -7,6 +7,7 @@ summary, findings, record). Each kind's ``kind`` module implements the protocol;
 
 from __future__ import annotations
 
+import importlib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -19,6 +20,7 @@ from .record import Record
 __all__ = [
     "StudyKind",
     "StudyOutcome",
+    "TableKind",
     "plain_outcome",
 ]
 
@@ -103,6 +105,53 @@ class StudyKind(Protocol):
         ``uncertainty`` is the scenario's uncertainty study when it has one (run by the studies layer, which
         owns where the work runs); ``progress`` shows progress bars of long work.
         """
+
+
+class TableKind:
+    """What most kinds' registry entries share: one table claims a scenario, no measurement file is read.
+
+    The scenario's class and parser sit in the kind's ``scenario`` module (imported when first asked).
+
+    A kind's entry sets :attr:`name`, :attr:`table` and :attr:`package` and writes its own ``run``.
+
+    Attributes
+    ----------
+    name : str
+        The kind's name.
+    table : str
+        The top-level table that makes a scenario of this kind (``"space"`` for ``[space]``).
+    package : str
+        The kind's package (``__package__`` of its ``kind`` module); its ``scenario`` module holds
+        :attr:`scenario_class` and :attr:`parser`.
+    scenario_class, parser : str
+        The names of the scenario class and of its parser in that module.
+    """
+
+    name = ""
+    table = ""
+    package = ""
+    scenario_class = ""
+    parser = ""
+
+    def _scenario_module(self) -> Any:
+        return importlib.import_module(f"{self.package}.scenario")
+
+    @property
+    def scenario_type(self) -> type:
+        """The class of the scenarios this kind runs (imported when asked)."""
+        return getattr(self._scenario_module(), self.scenario_class)
+
+    def claims(self, tables: Mapping[str, Any]) -> bool:
+        """Scenarios with this kind's table."""
+        return self.table in tables
+
+    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
+        """The kind's parser on the tables; errors name ``source`` and the field."""
+        return getattr(self._scenario_module(), self.parser)(tables, source)
+
+    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
+        """None: the study reads no measurement file."""
+        return []
 
 
 def plain_outcome(kind: str, scenario: Any, result: Any, record: Record) -> StudyOutcome:

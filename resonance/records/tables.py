@@ -17,10 +17,10 @@ import hashlib
 import os
 import re
 import sys
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, TypeVar
 
 import tomli_w
 
@@ -29,6 +29,7 @@ from ..core.inputs import Sign, as_si, parse_quantity
 from ..core.units import UNIT_SYSTEMS, QuantityKind, UnitSystem
 
 __all__ = [
+    "scenario_loader",
     "plain_tables",
     "RecordSpec",
     "ScenarioError",
@@ -211,6 +212,50 @@ def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
             raise r.fail(f"record.{key}", f"got {raw!r}; expected text")
         values[key] = raw
     return RecordSpec(**values)
+
+
+_S = TypeVar("_S")
+
+
+def scenario_loader(parse: Callable[[Mapping[str, Any], str], _S], what: str) -> Callable[[str | os.PathLike[str]], _S]:
+    """The ``load_*_scenario`` function of a kind: read a file, parse it by ``parse``, keep the file's hash.
+
+    Every kind's loader is this one flow (written once); :func:`resonance.load` picks the kind by the tables.
+
+    Parameters
+    ----------
+    parse : callable
+        The kind's parser, ``parse(tables, source)``, returning a scenario with ``replace(sha256=...)``.
+    what : str
+        The kind in words (``"rotor"``), for the loader's docstring.
+
+    Returns
+    -------
+    callable
+        ``load(path)``, named after the parser (``parse_rotor_scenario`` -> ``load_rotor_scenario``) and in its
+        module.
+
+    Raises
+    ------
+    Nothing
+        The loader raises :class:`ScenarioError` when called on a file that cannot be read, is not TOML or has
+        an invalid field.
+    """
+
+    def load(path: str | os.PathLike[str]) -> _S:
+        data, sha256 = read_scenario_bytes(path)
+        return parse(data, Path(os.fspath(path)).name).replace(sha256=sha256)  # type: ignore[attr-defined]
+
+    returned = parse.__annotations__.get("return", "scenario")
+    load.__name__ = load.__qualname__ = parse.__name__.replace("parse_", "load_", 1)
+    load.__module__ = parse.__module__
+    load.__doc__ = (
+        f"Read and validate a {what} scenario file (TOML). The file is only read.\n\n"
+        "Parameters\n----------\npath : path-like\n    The scenario file.\n\n"
+        f"Returns\n-------\n{returned}\n    With the file's SHA-256.\n\n"
+        "Raises\n------\nScenarioError\n    The file cannot be read, is not TOML, or has an invalid field.\n"
+    )
+    return load
 
 
 def read_scenario_file(path: str | os.PathLike[str]) -> dict[str, Any]:

@@ -2,14 +2,14 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from ...checks.variant_findings import VariantFindings
-from ...records.outcome import StudyOutcome
+from ...records.outcome import StudyOutcome, TableKind
 from ...records.record import Record
 
 __all__ = [
@@ -18,31 +18,14 @@ __all__ = [
 ]
 
 
-class RotorStudy:
+class RotorStudy(TableKind):
     """A rotor on its bearings: Campbell data, critical speeds, API margins, stability, shaft vibration."""
 
     name = "rotor"
-
-    @property
-    def scenario_type(self) -> type:
-        """The class of the scenarios this kind runs (imported when asked)."""
-        from .scenario import RotorScenario
-
-        return RotorScenario
-
-    def claims(self, tables: Mapping[str, Any]) -> bool:
-        """Scenarios with a ``[rotor]`` table."""
-        return "rotor" in tables
-
-    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
-        """See :func:`resonance.kinds.rotor.scenario.parse_rotor_scenario`."""
-        from .scenario import parse_rotor_scenario
-
-        return parse_rotor_scenario(tables, source)
-
-    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
-        """None: a rotor study reads no measurement file."""
-        return []
+    table = "rotor"
+    package = __package__
+    scenario_class = "RotorScenario"
+    parser = "parse_rotor_scenario"
 
     def run(self, scenario: Any, base_dir: Path, uncertainty: Any = None, progress: bool = False) -> StudyOutcome:
         """See :func:`resonance.kinds.rotor.study.run_rotor_study`."""

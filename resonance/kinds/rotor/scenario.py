@@ -40,11 +40,9 @@ Errors name the file and the field, as for support scenarios.
 from __future__ import annotations
 
 import dataclasses
-import os
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any
 
 import numpy as np
@@ -65,7 +63,7 @@ from ...records.excitation_tables import (
     speed_table,
 )
 from ...records.rule_tables import parse_rules, rules_table
-from ...records.tables import RecordSpec, TableReader, parse_head, parse_record, read_scenario_bytes
+from ...records.tables import RecordSpec, TableReader, parse_head, parse_record, scenario_loader
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
 from .response import Unbalance
 
@@ -536,28 +534,6 @@ def rotor_scenario_to_dict(scenario: RotorScenario) -> dict[str, Any]:
     }
 
 
-def load_rotor_scenario(path: str | os.PathLike[str]) -> RotorScenario:
-    """Read and validate a rotor scenario file (TOML). The file is only read.
-
-    Parameters
-    ----------
-    path : path-like
-        The scenario file.
-
-    Returns
-    -------
-    RotorScenario
-        With the file's SHA-256.
-
-    Raises
-    ------
-    ScenarioError
-        The file cannot be read, is not TOML, or has an invalid field.
-    """
-    data, sha256 = read_scenario_bytes(path)
-    return parse_rotor_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
-
-
 def _uncertainty_table(r: TableReader, data: Mapping[str, Any]) -> dict[str, Any] | None:
     # The [uncertainty] table as given; an empty one is refused rather than silently running nothing.
     table = r.table(data, "uncertainty", "uncertainty", required=False)
@@ -578,3 +554,6 @@ def _speed_following(r: TableReader, excitations: tuple[Excitation, ...]) -> tup
                 "drive-fed electrical frequencies): check fixed sources in a support scenario",
             )
     return excitations
+
+
+load_rotor_scenario = scenario_loader(parse_rotor_scenario, "rotor")

@@ -2,42 +2,24 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
 
-from ...records.outcome import StudyOutcome, plain_outcome
+from ...records.outcome import StudyOutcome, TableKind, plain_outcome
 
 __all__ = [
     "SpaceStudy",
 ]
 
 
-class SpaceStudy:
+class SpaceStudy(TableKind):
     """Supports in space: rigid bodies, frames, mounts and soil; modes in words, findings, bearing response."""
 
     name = "space"
-
-    @property
-    def scenario_type(self) -> type:
-        """The class of the scenarios this kind runs (imported when asked)."""
-        from .scenario import SpaceScenario
-
-        return SpaceScenario
-
-    def claims(self, tables: Mapping[str, Any]) -> bool:
-        """Scenarios with a ``[space]`` table."""
-        return "space" in tables
-
-    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
-        """See :func:`resonance.kinds.space.scenario.parse_space_scenario`."""
-        from .scenario import parse_space_scenario
-
-        return parse_space_scenario(tables, source)
-
-    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
-        """None: the study reads no measurement file."""
-        return []
+    table = "space"
+    package = __package__
+    scenario_class = "SpaceScenario"
+    parser = "parse_space_scenario"
 
     def run(self, scenario: Any, base_dir: Path, uncertainty: Any = None, progress: bool = False) -> StudyOutcome:
         """See :func:`resonance.kinds.space.study.run_space_study`."""

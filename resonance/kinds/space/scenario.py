@@ -64,10 +64,8 @@ from __future__ import annotations
 
 import dataclasses
 import math
-import os
 from collections.abc import Mapping
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any
 
 import numpy as np
@@ -85,7 +83,7 @@ from ...records.tables import (
     parse_head,
     parse_record,
     plain_tables,
-    read_scenario_bytes,
+    scenario_loader,
 )
 from .bodies import (
     FrameNode,
@@ -430,23 +428,4 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     return scenario
 
 
-def load_space_scenario(path: str | os.PathLike[str]) -> SpaceScenario:
-    """Read and validate a supports-in-space scenario file (TOML). The file is only read.
-
-    Parameters
-    ----------
-    path : path-like
-        The scenario file.
-
-    Returns
-    -------
-    SpaceScenario
-        With the file's SHA-256.
-
-    Raises
-    ------
-    ScenarioError
-        The file cannot be read, is not TOML, or has an invalid field.
-    """
-    data, sha256 = read_scenario_bytes(path)
-    return parse_space_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
+load_space_scenario = scenario_loader(parse_space_scenario, "supports-in-space")

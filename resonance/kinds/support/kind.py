@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
@@ -10,7 +10,7 @@ import numpy as np
 
 from ...checks.interference import FindingsTable
 from ...checks.variant_findings import VariantFindings
-from ...records.outcome import StudyOutcome
+from ...records.outcome import StudyOutcome, TableKind
 from ...records.record import Record
 from .record import build_record
 
@@ -20,27 +20,14 @@ __all__ = [
 ]
 
 
-class SupportStudy:
+class SupportStudy(TableKind):
     """A machine on its support: modes, interference, response, zones; field verification with ``[field]``."""
 
     name = "support"
-
-    @property
-    def scenario_type(self) -> type:
-        """The class of the scenarios this kind runs (imported when asked)."""
-        from .scenario import Scenario
-
-        return Scenario
-
-    def claims(self, tables: Mapping[str, Any]) -> bool:
-        """Scenarios with a ``[model]`` table."""
-        return "model" in tables
-
-    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
-        """See :func:`resonance.kinds.support.scenario.parse_scenario`."""
-        from .scenario import parse_scenario
-
-        return parse_scenario(tables, source)
+    table = "model"
+    package = __package__
+    scenario_class = "Scenario"
+    parser = "parse_scenario"
 
     def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
         """The coast-down and impact files of the ``[field]`` table, if any."""

@@ -113,6 +113,7 @@ from ...records.tables import (
     parse_record,
     read_scenario_bytes,
     read_scenario_file,
+    scenario_loader,
     write_scenario_table,
 )
 
@@ -459,30 +460,6 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     )
 
 
-def load_scenario(path: str | os.PathLike[str]) -> Scenario:
-    """Read and validate a scenario file (TOML). The file is only read.
-
-    The scenario keeps the SHA-256 of the file's bytes for the record.
-
-    Parameters
-    ----------
-    path : path-like
-        The scenario file.
-
-    Returns
-    -------
-    Scenario
-        The validated scenario, with the file's SHA-256.
-
-    Raises
-    ------
-    ScenarioError
-        The file is missing, is not valid TOML, or has an invalid field.
-    """
-    data, sha256 = read_scenario_bytes(path)
-    return parse_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
-
-
 def scenario_to_dict(scenario: Scenario) -> dict[str, Any]:
     """The scenario as nested tables, in the package convention, ready for TOML.
 
@@ -567,3 +544,6 @@ def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: b
         ``path`` exists and ``overwrite`` is False.
     """
     return write_scenario_table(scenario_to_dict(scenario), path, overwrite)
+
+
+load_scenario = scenario_loader(parse_scenario, "support")

@@ -2,42 +2,24 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
 
-from ...records.outcome import StudyOutcome, plain_outcome
+from ...records.outcome import StudyOutcome, TableKind, plain_outcome
 
 __all__ = [
     "TorsionStudy",
 ]
 
 
-class TorsionStudy:
+class TorsionStudy(TableKind):
     """A drive train: torsional modes against every shaft's orders, gear meshes and electrical sources."""
 
     name = "torsion"
-
-    @property
-    def scenario_type(self) -> type:
-        """The class of the scenarios this kind runs (imported when asked)."""
-        from .scenario import TorsionScenario
-
-        return TorsionScenario
-
-    def claims(self, tables: Mapping[str, Any]) -> bool:
-        """Scenarios with a ``[torsion]`` table."""
-        return "torsion" in tables
-
-    def parse(self, tables: Mapping[str, Any], source: str) -> Any:
-        """See :func:`resonance.kinds.torsion.scenario.parse_torsion_scenario`."""
-        from .scenario import parse_torsion_scenario
-
-        return parse_torsion_scenario(tables, source)
-
-    def inputs(self, scenario: Any, base_dir: Path) -> list[Path]:
-        """None: a torsional study reads no measurement file."""
-        return []
+    table = "torsion"
+    package = __package__
+    scenario_class = "TorsionScenario"
+    parser = "parse_torsion_scenario"
 
     def run(self, scenario: Any, base_dir: Path, uncertainty: Any = None, progress: bool = False) -> StudyOutcome:
         """See :func:`resonance.kinds.torsion.study.run_torsion_study`."""

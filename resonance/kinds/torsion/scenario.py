@@ -65,10 +65,8 @@ from __future__ import annotations
 
 import dataclasses
 import math
-import os
 from collections.abc import Mapping
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any
 
 from ...checks.excitations import Excitation
@@ -85,7 +83,7 @@ from ...records.tables import (
     parse_head,
     parse_record,
     plain_tables,
-    read_scenario_bytes,
+    scenario_loader,
 )
 from .elements import Coupling, GearMesh, Station, TorsionalShaft, hollow_shaft_stiffness, stepped_shaft_stiffness
 from .torque import Allowable, TorqueCase
@@ -532,23 +530,4 @@ def _parse_forcing(
     return tuple(cases)
 
 
-def load_torsion_scenario(path: str | os.PathLike[str]) -> TorsionScenario:
-    """Read and validate a torsional scenario file (TOML). The file is only read.
-
-    Parameters
-    ----------
-    path : path-like
-        The scenario file.
-
-    Returns
-    -------
-    TorsionScenario
-        With the file's SHA-256.
-
-    Raises
-    ------
-    ScenarioError
-        The file cannot be read, is not TOML, or has an invalid field.
-    """
-    data, sha256 = read_scenario_bytes(path)
-    return parse_torsion_scenario(data, Path(os.fspath(path)).name).replace(sha256=sha256)
+load_torsion_scenario = scenario_loader(parse_torsion_scenario, "torsional")
