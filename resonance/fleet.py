@@ -219,6 +219,7 @@ def fleet_summary_text(rows: Sequence[FleetRow]) -> str:
     Returns
     -------
     str
+        The counts line, then one line per machine with its verdict.
 
     Raises
     ------
@@ -252,6 +253,7 @@ def fleet_summary_csv(rows: Sequence[FleetRow]) -> str:
     Returns
     -------
     str
+        CSV text, a header row and one row per machine.
 
     Raises
     ------

@@ -85,6 +85,7 @@ def lumped_modes_batch(
     Returns
     -------
     BatchModes
+        Natural frequencies and damping ratios of every variant, one row a variant.
 
     Raises
     ------

@@ -171,6 +171,7 @@ def plain_outcome(kind: str, scenario: Any, result: Any, record: Record) -> Stud
     Returns
     -------
     StudyOutcome
+        Verdict and summary from the result, no further tables.
 
     Raises
     ------

@@ -137,6 +137,7 @@ def header_lines(heading: str, title: str, description: str, data: dict[str, Any
     Returns
     -------
     list of str
+        The heading block of the record, ending with a blank line.
 
     Raises
     ------
@@ -169,6 +170,7 @@ def basis_lines(data: dict[str, Any]) -> list[str]:
     Returns
     -------
     list of str
+        The assumptions and the methods with their references, ending with a blank line.
 
     Raises
     ------

@@ -196,6 +196,7 @@ def parse_record(r: TableReader, data: Mapping[str, Any]) -> RecordSpec:
     Returns
     -------
     RecordSpec
+        The review fields, empty where not given.
 
     Raises
     ------

@@ -250,6 +250,7 @@ def run_scenario_file(path: str | os.PathLike[str]) -> StudyOutcome:
     Returns
     -------
     StudyOutcome
+        The outcome of the scenario's kind, with the file's hash in its record.
 
     Raises
     ------

@@ -347,6 +347,7 @@ def evaluate_chunk(scenario: Any, inputs: Sequence[UncertainInput], values: np.n
     Returns
     -------
     VariantFindings
+        Margins and required margins of every variant of the block.
 
     Raises
     ------
@@ -449,6 +450,7 @@ class UncertaintyResult:
         Returns
         -------
         str
+            A few lines: P(fail), percentiles of the worst margin, the ranking.
 
         Raises
         ------

@@ -214,6 +214,7 @@ def single_mode_panel(scenario: Scenario) -> DesignPanel:
     Returns
     -------
     DesignPanel
+        Its ``widget`` shows the controls and the views.
 
     Raises
     ------
@@ -234,6 +235,7 @@ def multi_mode_panel(scenario: Scenario) -> DesignPanel:
     Returns
     -------
     DesignPanel
+        Its ``widget`` shows the controls and the views.
 
     Raises
     ------

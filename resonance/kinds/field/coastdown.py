@@ -261,6 +261,7 @@ def fit_modes(
     Returns
     -------
     ModalFit
+        The fitted modes with their standard errors and the fit's residual.
 
     Raises
     ------
@@ -417,6 +418,7 @@ def measured_findings(
     Returns
     -------
     FindingsTable
+        One finding per measured mode and excitation, worst first.
 
     Raises
     ------

@@ -214,6 +214,7 @@ def read_coastdown(
     Returns
     -------
     CoastDown
+        The validated channels, with the safe repairs logged.
 
     Raises
     ------

@@ -397,6 +397,7 @@ def campbell(
     Returns
     -------
     CampbellData
+        Each branch's whirl frequency and damping at every speed of the sweep.
 
     Raises
     ------

@@ -61,6 +61,7 @@ def rotor_outcome(result: Any, record: Record | None = None, uncertainty: Any = 
     Returns
     -------
     StudyOutcome
+        Its verdict, summary, findings and record.
 
     Raises
     ------

@@ -72,6 +72,7 @@ def build_rotor_record(
     Returns
     -------
     Record
+        Data (JSON-ready, SI) and text (in the scenario's units) of the rotor study.
 
     Raises
     ------

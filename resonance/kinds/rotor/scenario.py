@@ -294,6 +294,7 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     Returns
     -------
     RotorScenario
+        The rotor, its bearings, unbalance and speeds, validated (no file hash).
 
     Raises
     ------

@@ -188,6 +188,7 @@ def run_rotor_study(
     Returns
     -------
     RotorStudyResult
+        Campbell data, critical speeds, findings, response and stability of the rotor.
 
     Raises
     ------

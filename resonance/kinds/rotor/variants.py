@@ -58,6 +58,7 @@ def rotor_variant(scenario: RotorScenario, varies: Sequence[str], row: np.ndarra
     Returns
     -------
     RotorScenario
+        The scenario with its bearings and speed limits scaled.
 
     Raises
     ------

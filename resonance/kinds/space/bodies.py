@@ -418,6 +418,7 @@ def space_model(
     Returns
     -------
     SpaceModel
+        The bodies, mounts and beams with the assembled matrix model and whose each coordinate is.
 
     Raises
     ------

@@ -57,6 +57,7 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
     Returns
     -------
     Record
+        Data (JSON-ready, SI) and text (in the scenario's units) of the study in space.
 
     Raises
     ------

@@ -269,6 +269,7 @@ class SpaceScenario:
         Returns
         -------
         SpaceModel
+            The model of the scaled scenario.
 
         Raises
         ------
@@ -316,6 +317,7 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     Returns
     -------
     SpaceScenario
+        Bodies, mounts, frame, soil, loads and probes, validated (no file hash).
 
     Raises
     ------

@@ -82,6 +82,7 @@ class SpaceStudyResult:
         Returns
         -------
         str
+            PASS or how many of the band's combinations fail, and what the band varies.
 
         Raises
         ------
@@ -126,6 +127,7 @@ class SpaceStudyResult:
         Returns
         -------
         str
+            Verdict, modes and velocities, in the given units.
 
         Raises
         ------

@@ -89,6 +89,7 @@ def support_outcome(
     Returns
     -------
     StudyOutcome
+        Its verdict (the model's and the field's together), summary, findings and record.
 
     Raises
     ------

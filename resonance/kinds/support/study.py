@@ -209,6 +209,7 @@ def shape_words(shape: np.ndarray | None, labels: tuple[str, ...]) -> str:
     Returns
     -------
     str
+        The moving masses and their sense, as a phrase.
 
     Raises
     ------

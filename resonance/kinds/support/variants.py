@@ -58,6 +58,7 @@ def evaluate_variants(
     Returns
     -------
     VariantFindings
+        Margins and required margins of every variant, mode and excitation.
 
     Raises
     ------
@@ -169,6 +170,7 @@ def variant_findings(scenario: Scenario, varies: Sequence[str], values: np.ndarr
     Returns
     -------
     VariantFindings
+        Margins and required margins of each variant, from one batched eigen-solve.
 
     Raises
     ------

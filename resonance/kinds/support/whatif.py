@@ -324,6 +324,7 @@ class FixMap:
         Returns
         -------
         str
+            The smallest combined change that passes, or why there is none, as a sentence.
 
         Raises
         ------
@@ -364,6 +365,7 @@ def combined_fix_map(
     Returns
     -------
     FixMap
+        The grid of worst margins and the smallest combined change that passes.
 
     Raises
     ------

@@ -61,6 +61,7 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
     Returns
     -------
     Record
+        Data (JSON-ready, SI) and text (in the scenario's units) of the torsional study.
 
     Raises
     ------

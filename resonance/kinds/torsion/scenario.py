@@ -181,6 +181,7 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
     Returns
     -------
     TorsionScenario
+        The train, its excitations, forcing and allowables, validated (no file hash).
 
     Raises
     ------

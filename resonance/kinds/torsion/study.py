@@ -66,6 +66,7 @@ class TorsionStudyResult:
         Returns
         -------
         str
+            Verdict, frequencies and margins, in the given units.
 
         Raises
         ------
@@ -99,6 +100,7 @@ def run_torsion_study(scenario: TorsionScenario) -> TorsionStudyResult:
     Returns
     -------
     TorsionStudyResult
+        Modes, shapes, findings and, with forcing, the torque sweep of the train.
 
     Raises
     ------

@@ -140,6 +140,7 @@ class TorqueSweep:
         Returns
         -------
         str
+            The governing element's torque and use of its allowable, in the given units.
 
         Raises
         ------

@@ -240,6 +240,7 @@ def scale_couplings(train: TorsionalTrain, factor: object) -> TorsionalTrain:
     Returns
     -------
     TorsionalTrain
+        A new train; the shafts keep their stiffness.
 
     Raises
     ------
@@ -265,6 +266,7 @@ def scale_dampers(train: TorsionalTrain, factor: object) -> TorsionalTrain:
     Returns
     -------
     TorsionalTrain
+        A new train; the stiffnesses are unchanged.
 
     Raises
     ------
