@@ -7,6 +7,8 @@ benchmarks/start_time.py, never by a timed test; here the guard is which modules
 
 from __future__ import annotations
 
+import importlib
+import re
 import subprocess
 import sys
 from pathlib import Path
@@ -75,3 +77,28 @@ def test_the_layers_are_reachable_as_attributes_in_a_fresh_interpreter():
     code = "import resonance as R\nprint(R.checks.__name__, R.kinds.__name__)"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.split() == ["resonance.checks", "resonance.kinds"]
+
+
+def _moved_paths() -> list[tuple[str, str, str]]:
+    text = (Path(__file__).resolve().parent.parent / "CHANGELOG.md").read_text()
+    rows = re.findall(r"^\| `(resonance[\w.]*)` \| `(resonance[\w.]*)` \| (.*) \|$", text, flags=re.M)
+    assert len(rows) > 40, "the CHANGELOG's table of moved module paths is missing"
+    return rows
+
+
+@pytest.mark.parametrize(("old", "new", "elsewhere"), _moved_paths(), ids=lambda v: v if v.startswith("res") else "")
+def test_every_moved_module_path_of_the_changelog_is_where_it_says(old, new, elsewhere):
+    # The CHANGELOG is the map from 0.2's module paths to the layers: each new path imports, each old one is gone
+    # (or is now a layer's package), and each name the table sends elsewhere is there.
+    importlib.import_module(new)
+    if old != new:
+        try:
+            kept = importlib.import_module(old)
+        except ModuleNotFoundError:
+            pass
+        else:  # only a layer's package may now have the old name (resonance.studies)
+            assert hasattr(kept, "__path__"), f"{old} still imports as the module of 0.2"
+    for names, target in re.findall(r"((?:`\w+`(?:, )?)+) -> `([\w.]+)`", elsewhere):
+        there = importlib.import_module(f"resonance.{target}")
+        for name in re.findall(r"`(\w+)`", names):
+            assert hasattr(there, name), f"{name} is not in resonance.{target}"
