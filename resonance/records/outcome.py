@@ -8,6 +8,7 @@ summary, findings, record). Each kind's ``kind`` module implements the protocol;
 from __future__ import annotations
 
 import importlib
+import sys
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -140,6 +141,15 @@ class TableKind:
     def scenario_type(self) -> type:
         """The class of the scenarios this kind runs (imported when asked)."""
         return getattr(self._scenario_module(), self.scenario_class)
+
+    def owns(self, scenario: object) -> bool:
+        """True when ``scenario`` is of this kind, without importing the kind when it cannot be.
+
+        A scenario of a kind whose ``scenario`` module was never imported cannot exist, so a check of a support
+        scenario does not import the rotor, torsion and space flows just to look.
+        """
+        module = sys.modules.get(f"{self.package}.scenario")
+        return module is not None and isinstance(scenario, getattr(module, self.scenario_class))
 
     def claims(self, tables: Mapping[str, Any]) -> bool:
         """Scenarios with this kind's table."""

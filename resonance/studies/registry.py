@@ -195,8 +195,8 @@ def kind_of(scenario: Any) -> StudyKind:
         An object no registered kind runs.
     """
     for kind in STUDY_KINDS:
-        scenario_type = getattr(kind, "scenario_type", None)
-        if scenario_type is not None and isinstance(scenario, scenario_type):
+        owns = getattr(kind, "owns", None)  # a TableKind looks without importing other kinds
+        if owns(scenario) if owns is not None else isinstance(scenario, kind.scenario_type):
             return kind
     raise InputTypeError(
         f"scenario: got {type(scenario).__name__}; expected a scenario of one of the kinds "

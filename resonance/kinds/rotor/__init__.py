@@ -7,35 +7,47 @@ tables), :mod:`.study` (findings and the API checks), :mod:`.record`. All produc
 :class:`~resonance.dynamics.modes.Mode`, so the interference check and the records work unchanged.
 """
 
-from .analysis import CampbellData, RotorModes, campbell, rotor_modes
-from .criticals import critical_speed_map, critical_speeds
-from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
-from .response import Unbalance, UnbalanceResponse, rotor_unbalance_response, unbalance_response_rotor
-from .scenario import RotorScenario, load_rotor_scenario, parse_rotor_scenario
-from .study import RotorStudyResult, run_rotor_study
+import importlib
+from typing import Any
 
-__all__ = [
-    "Material",
-    "STEEL",
-    "ShaftSection",
-    "Disc",
-    "Bearing",
-    "Pedestal",
-    "Rotor",
-    "rotor_model",
-    "RotorModes",
-    "rotor_modes",
-    "CampbellData",
-    "campbell",
-    "critical_speeds",
-    "critical_speed_map",
-    "Unbalance",
-    "UnbalanceResponse",
-    "rotor_unbalance_response",
-    "unbalance_response_rotor",
-    "RotorScenario",
-    "load_rotor_scenario",
-    "parse_rotor_scenario",
-    "RotorStudyResult",
-    "run_rotor_study",
-]
+#: Where each name of the rotor kind lives: loaded on first use, so the registry's rotor entry (and with it
+#: every ``check``) does not import the rotor analyses until a rotor scenario is run.
+_NAMES = {
+    "CampbellData": "analysis",
+    "RotorModes": "analysis",
+    "campbell": "analysis",
+    "rotor_modes": "analysis",
+    "critical_speed_map": "criticals",
+    "critical_speeds": "criticals",
+    "STEEL": "model",
+    "Bearing": "model",
+    "Disc": "model",
+    "Material": "model",
+    "Pedestal": "model",
+    "Rotor": "model",
+    "ShaftSection": "model",
+    "rotor_model": "model",
+    "Unbalance": "response",
+    "UnbalanceResponse": "response",
+    "rotor_unbalance_response": "response",
+    "unbalance_response_rotor": "response",
+    "RotorScenario": "scenario",
+    "load_rotor_scenario": "scenario",
+    "parse_rotor_scenario": "scenario",
+    "RotorStudyResult": "study",
+    "run_rotor_study": "study",
+}
+__all__ = list(_NAMES)  # the table above: one list of the kind's names
+
+
+def __getattr__(name: str) -> Any:
+    # PEP 562, as the top-level namespace: import the module that holds a name when it is first asked for.
+    if name not in _NAMES:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(f".{_NAMES[name]}", __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted({*globals(), *_NAMES})

@@ -149,7 +149,7 @@ def smallest_change(
 ) -> SmallestChange:
     """Find the factor closest to 1 (in ratio) that makes every margin check pass.
 
-    The factors in ``bounds`` are scanned on a logarithmic grid; the pass/fail
+    The factors in ``bounds`` are scanned on a logarithmic grid, outwards from 1; the pass/fail
     edge nearest to 1 is then refined by bisection to 0.01 %.
 
     Parameters
@@ -186,11 +186,13 @@ def smallest_change(
     if passes(1.0):
         return SmallestChange(parameter, 1.0, bounds)
     grid = np.geomspace(low, high, points)
-    ok = np.array([passes(float(s)) for s in grid])
-    if not ok.any():
+    # The passing grid factor nearest 1 in ratio (ties: the smaller factor): scanned outwards from 1, so the
+    # scan stops at the first that passes instead of checking every factor of the grid.
+    order = np.argsort(np.abs(np.log(grid)), kind="stable")
+    best_index = next((int(i) for i in order if passes(float(grid[i]))), None)
+    if best_index is None:
         return SmallestChange(parameter, None, bounds)
-    candidates = grid[ok]
-    best = float(candidates[np.argmin(np.abs(np.log(candidates)))])
+    best = float(grid[best_index])
     # Bisect between the best passing factor and its failing neighbour towards 1.
     fail_side = (
         float(grid[np.searchsorted(grid, best) - 1]) if best > 1.0 else float(grid[np.searchsorted(grid, best) + 1])
