@@ -148,7 +148,7 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
             "touching the panel; move its slider to see the same)."
         ),
         code(
-            "from resonance.kinds.rotor import run_rotor_study\nfrom resonance.checks.speed_range import operating_range\n\n"
+            "from resonance.checks.speed_range import operating_range\nfrom resonance.kinds.rotor import run_rotor_study\n\n"
             "faster = scenario.replace(speed=operating_range(900, 2200))\nprint(run_rotor_study(faster).summary())"
         ),
     ],
@@ -192,8 +192,8 @@ NOTEBOOKS: dict[str, list[nbformat.NotebookNode]] = {
         ),
         code(
             "import resonance as R\n"
-            "from resonance.kinds.torsion.train import scale_couplings\n"
-            "from resonance.kinds.torsion.study import run_torsion_study"
+            "from resonance.kinds.torsion.study import run_torsion_study\n"
+            "from resonance.kinds.torsion.train import scale_couplings"
         ),
         code(
             'scenario = R.load("scenarios/compressor_train.toml")\npanel = R.panel(scenario)\npanel',

@@ -162,7 +162,7 @@ def write_json(record: Record, path: str | os.PathLike[str]) -> Path:
     Returns
     -------
     pathlib.Path
-        The file written.
+        The JSON file, written whole (through :func:`~resonance.records.tables.atomic_write`).
 
     Raises
     ------

@@ -341,7 +341,7 @@ def write_scenario_table(table: Mapping[str, Any], path: str | os.PathLike[str],
     Returns
     -------
     pathlib.Path
-        The file written.
+        The new TOML file (an existing one is kept unless ``overwrite``).
 
     Raises
     ------
@@ -369,7 +369,7 @@ def atomic_write(path: str | os.PathLike[str], text: str) -> Path:
     Returns
     -------
     pathlib.Path
-        The file written.
+        The file, replaced in one step: a reader never sees a partial file.
 
     Raises
     ------

@@ -112,7 +112,7 @@ def render_html(result: StudyResult, record: Record, field: FieldStudyResult | N
     Returns
     -------
     str
-        HTML.
+                The support record's page: the record, its tables and figures.
 
     Raises
     ------
@@ -135,7 +135,7 @@ def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
     Returns
     -------
     str
-        HTML.
+                The rotor record's page: the record, its tables and figures.
 
     Raises
     ------
@@ -214,7 +214,7 @@ def render_outcome_html(outcome: StudyOutcome) -> str:
     Returns
     -------
     str
-        HTML.
+                The page of any kind's record, with the views its kind registers.
 
     Raises
     ------
@@ -250,7 +250,7 @@ def write_html(result: StudyResult, record: Record, path: str | os.PathLike[str]
     Returns
     -------
     pathlib.Path
-        The file written.
+        The self-contained HTML file (it opens offline).
 
     Raises
     ------

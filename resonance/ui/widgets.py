@@ -49,7 +49,7 @@ def verdict_html(text: str, passed: bool) -> str:
     Returns
     -------
     str
-        HTML.
+                A coloured box with the lines escaped.
 
     Raises
     ------

@@ -287,9 +287,10 @@ def parse_rotor_scenario(data: Mapping[str, Any], source: str = "<rotor scenario
     Parameters
     ----------
     data : mapping
-        The scenario's tables.
+        The tables as read from TOML: ``[scenario]``, ``[speed]``, ``[rotor]`` (sections, discs, bearings,
+        pedestals, unbalance, probes), ``[[excitations]]``, ``[motor]``, ``[margin]``, ``[uncertainty]``, ``[record]``.
     source : str
-        The file name errors start with.
+        The file name errors start with (``fan.toml: rotor.bearings[1].speeds: ...``).
 
     Returns
     -------

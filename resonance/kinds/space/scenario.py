@@ -310,9 +310,10 @@ def parse_space_scenario(data: Mapping[str, Any], source: str = "<space scenario
     Parameters
     ----------
     data : mapping
-        The scenario's tables.
+        The tables as read from TOML: ``[scenario]``, ``[speed]``, ``[space]`` (bodies, mounts, soil, frame,
+        loads, probes), ``[[excitations]]``, ``[motor]``, ``[margin]``, ``[vibration]``, ``[whatif]``, ``[record]``.
     source : str
-        The file name errors start with.
+        The file name errors start with (``skid.toml: space.mounts[2].stiffness: ...``).
 
     Returns
     -------

@@ -370,9 +370,10 @@ def parse_scenario(data: Mapping[str, Any], source: str = "<scenario>") -> Scena
     Parameters
     ----------
     data : mapping
-        The scenario's tables.
+        The tables as read from TOML: ``[scenario]``, ``[speed]``, ``[model]``, ``[[excitations]]``, ``[motor]``,
+        ``[margin]``, ``[vibration]``, ``[whatif]``, ``[field]``, ``[uncertainty]``, ``[record]``.
     source : str
-        The file name errors start with.
+        The file name errors start with (``pump.toml: model.springs[0].stiffness: ...``).
 
     Returns
     -------
@@ -536,7 +537,7 @@ def save_scenario(scenario: Scenario, path: str | os.PathLike[str], overwrite: b
     Returns
     -------
     pathlib.Path
-        The file written.
+        The scenario's TOML file, which :func:`load_scenario` reads back to the same scenario.
 
     Raises
     ------

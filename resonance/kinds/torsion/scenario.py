@@ -174,9 +174,10 @@ def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scen
     Parameters
     ----------
     data : mapping
-        The scenario's tables.
+        The tables as read from TOML: ``[scenario]``, ``[speed]``, ``[torsion]`` (stations, shafts, couplings,
+        meshes, forcing, allowables), ``[[excitations]]``, ``[motor]``, ``[margin]``, ``[record]``.
     source : str
-        The file name errors start with.
+        The file name errors start with (``train.toml: torsion.couplings[0].stiffness: ...``).
 
     Returns
     -------
