@@ -48,11 +48,9 @@ from typing import Any
 import numpy as np
 
 from ...checks.excitations import Excitation
-from ...checks.rules import RuleSet
-from ...checks.speed_range import OperatingRange
 from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
-from ...core.units import QuantityKind, UnitSystem
+from ...core.units import QuantityKind
 from ...records.excitation_tables import (
     MotorSpec,
     excitation_table,
@@ -62,6 +60,7 @@ from ...records.excitation_tables import (
     parse_speed,
     speed_table,
 )
+from ...records.head import ScenarioHead
 from ...records.rule_tables import parse_rules, rules_table
 from ...records.tables import RecordSpec, TableReader, parse_head, parse_record, scenario_loader
 from .model import STEEL, Bearing, Disc, Material, Pedestal, Rotor, ShaftSection, rotor_model
@@ -107,21 +106,14 @@ class UnbalanceSpec:
 
 
 @dataclass(frozen=True)
-class RotorScenario:
+class RotorScenario(ScenarioHead):
     """A validated rotor scenario.
+
+    The head (title, description, units, speed, excitations, rules) is that of
+    :class:`~resonance.records.head.ScenarioHead`; these follow it.
 
     Attributes
     ----------
-    title, description : str
-        As written.
-    units : {"SI", "US"}
-        Display units.
-    speed : OperatingRange
-        Speeds of continuous operation [rpm].
-    excitations : tuple of Excitation
-        Sources that follow the speed.
-    rules : RuleSet
-        Margin rules by scope.
     sections, discs, bearings : tuple
         The rotor as given.
     unbalance : tuple of UnbalanceSpec
@@ -144,12 +136,6 @@ class RotorScenario:
         The ``[uncertainty]`` table, validated by :func:`resonance.studies.uncertainty.uncertainty_spec`.
     """
 
-    title: str
-    description: str
-    units: UnitSystem
-    speed: OperatingRange
-    excitations: tuple[Excitation, ...]
-    rules: RuleSet
     sections: tuple[ShaftSection, ...]
     discs: tuple[Disc, ...]
     bearings: tuple[Bearing, ...]
@@ -162,10 +148,6 @@ class RotorScenario:
     record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
     sha256: str | None = dataclasses.field(default=None, compare=False)
     uncertainty: Mapping[str, Any] | None = dataclasses.field(default=None, compare=False)
-
-    def replace(self, **changes: Any) -> RotorScenario:
-        """A copy with some fields changed (the copy has no file hash)."""
-        return dataclasses.replace(self, **{"sha256": None, **changes})
 
     def build(self, stiffness_scale: float = 1.0, damping_scale: float = 1.0) -> Rotor:
         """The assembled rotor, with every bearing's stiffness and damping scaled by the factors."""

@@ -70,12 +70,9 @@ from typing import Any
 
 import numpy as np
 
-from ...checks.excitations import Excitation
-from ...checks.rules import RuleSet
-from ...checks.speed_range import OperatingRange
 from ...core.errors import InputValueError
-from ...core.units import UnitSystem
 from ...records.excitation_tables import MotorSpec, parse_excitations, parse_motor, parse_speed
+from ...records.head import ScenarioHead
 from ...records.rule_tables import parse_rules, parse_vibration
 from ...records.tables import (
     RecordSpec,
@@ -109,21 +106,14 @@ __all__ = ["SoilSpec", "SpaceScenario", "load_space_scenario", "parse_space_scen
 
 
 @dataclass(frozen=True)
-class SpaceScenario:
+class SpaceScenario(ScenarioHead):
     """A validated supports-in-space scenario.
+
+    The head (title, description, units, speed, excitations, rules) is that of
+    :class:`~resonance.records.head.ScenarioHead`; these follow it.
 
     Attributes
     ----------
-    title, description : str
-        As written.
-    units : {"SI", "US"}
-        Display units.
-    speed : OperatingRange
-        Speeds of continuous operation [rpm].
-    excitations : tuple of Excitation
-        Orders, electrical and fixed sources.
-    rules : RuleSet
-        Margin rules (a flat margin is required).
     bodies, mounts, nodes, beams : tuple
         The model as given.
     fixed : tuple of str
@@ -161,12 +151,6 @@ class SpaceScenario:
         SHA-256 of the file's bytes.
     """
 
-    title: str
-    description: str
-    units: UnitSystem
-    speed: OperatingRange
-    excitations: tuple[Excitation, ...]
-    rules: RuleSet
     bodies: tuple[RigidBody, ...]
     mounts: tuple[Mount, ...]
     nodes: tuple[FrameNode, ...]
@@ -187,25 +171,6 @@ class SpaceScenario:
     motor: MotorSpec | None = None
     record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
     sha256: str | None = dataclasses.field(default=None, compare=False)
-
-    def replace(self, **changes: Any) -> SpaceScenario:
-        """A copy with some fields changed (the copy has no file hash unless given).
-
-        Parameters
-        ----------
-        **changes
-            Fields to change.
-
-        Returns
-        -------
-        SpaceScenario
-
-        Raises
-        ------
-        TypeError
-            An unknown field.
-        """
-        return dataclasses.replace(self, **{"sha256": None, **changes})
 
     def footing(self, shear_factor: float = 1.0) -> FootingImpedance | None:
         """The soil's impedance (None without soil), with the shear modulus scaled.

@@ -87,12 +87,9 @@ from typing import Any
 
 import numpy as np
 
-from ...checks.excitations import Excitation
-from ...checks.rules import RuleSet
 from ...checks.speed_range import OperatingRange
 from ...checks.unbalance import permissible_unbalance
 from ...core.errors import InputValueError
-from ...core.units import UnitSystem
 from ...dynamics.lumped import MassSpec, ModelSpec, SpringSpec
 from ...dynamics.model import GROUND
 from ...records.excitation_tables import (
@@ -104,6 +101,7 @@ from ...records.excitation_tables import (
     parse_speed,
     speed_table,
 )
+from ...records.head import ScenarioHead
 from ...records.rule_tables import parse_rules, parse_vibration, rules_table
 from ...records.tables import (
     RecordSpec,
@@ -212,24 +210,17 @@ class WhatIfSpec:
 
 
 @dataclass(frozen=True)
-class Scenario:
+class Scenario(ScenarioHead):
     """A validated scenario (see the module notes for the file format).
 
     ``sha256`` is the SHA-256 of the scenario file's bytes when it was loaded
     from a file (None for a scenario built or edited in memory).
 
+    The head (title, description, units, speed, excitations, rules) is that of
+    :class:`~resonance.records.head.ScenarioHead`; these follow it.
+
     Attributes
     ----------
-    title, description : str
-        As written.
-    units : {"SI", "US"}
-        Display units.
-    speed : OperatingRange
-        Speeds of continuous operation [rpm].
-    excitations : tuple of Excitation
-        Orders, electrical and fixed sources.
-    rules : RuleSet
-        Margin rules by scope.
     model : ModelSpec
         The lumped model.
     response : ResponseSpec
@@ -252,12 +243,6 @@ class Scenario:
         The ``[uncertainty]`` table, validated by :func:`resonance.studies.uncertainty.uncertainty_spec`.
     """
 
-    title: str
-    description: str
-    units: UnitSystem
-    speed: OperatingRange
-    excitations: tuple[Excitation, ...]
-    rules: RuleSet
     model: ModelSpec
     response: ResponseSpec
     vibration: VibrationSpec
@@ -268,10 +253,6 @@ class Scenario:
     record: RecordSpec = dataclasses.field(default_factory=RecordSpec)
     sha256: str | None = dataclasses.field(default=None, compare=False)
     uncertainty: Mapping[str, Any] | None = dataclasses.field(default=None, compare=False)
-
-    def replace(self, **changes: Any) -> Scenario:
-        """A copy with some fields changed (the original is untouched; the copy has no file hash)."""
-        return dataclasses.replace(self, **{"sha256": None, **changes})
 
     def with_speed(self, speed: OperatingRange) -> Scenario:
         """A copy with another speed range; a grade-based unbalance follows the new maximum speed."""

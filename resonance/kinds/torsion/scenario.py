@@ -70,11 +70,9 @@ from dataclasses import dataclass
 from typing import Any
 
 from ...checks.excitations import Excitation
-from ...checks.rules import RuleSet
-from ...checks.speed_range import OperatingRange
 from ...core.errors import InputValueError
-from ...core.units import UnitSystem
 from ...records.excitation_tables import MotorSpec, parse_excitations, parse_motor, parse_speed
+from ...records.head import ScenarioHead
 from ...records.rule_tables import parse_rules
 from ...records.tables import (
     RecordSpec,
@@ -97,21 +95,14 @@ __all__ = [
 
 
 @dataclass(frozen=True)
-class TorsionScenario:
+class TorsionScenario(ScenarioHead):
     """A validated torsional scenario.
+
+    The head (title, description, units, speed, excitations, rules) is that of
+    :class:`~resonance.records.head.ScenarioHead`; these follow it.
 
     Attributes
     ----------
-    title, description : str
-        As written.
-    units : {"SI", "US"}
-        Display units.
-    speed : OperatingRange
-        The driver shaft's speeds of continuous operation [rpm].
-    excitations : tuple of Excitation
-        Every source checked (shaft orders, gear meshes, electrical, given ones), in driver orders.
-    rules : RuleSet
-        Margin rules (the torsional rule applies to every torsional mode).
     train : TorsionalTrain
         The referred train.
     damping_ratio : float or None
@@ -132,12 +123,6 @@ class TorsionScenario:
         By element label, as given.
     """
 
-    title: str
-    description: str
-    units: UnitSystem
-    speed: OperatingRange
-    excitations: tuple[Excitation, ...]
-    rules: RuleSet
     train: TorsionalTrain
     damping_ratio: float | None
     tables: dict[str, Any] = dataclasses.field(compare=False)
@@ -147,25 +132,6 @@ class TorsionScenario:
     sha256: str | None = dataclasses.field(default=None, compare=False)
     forcing: tuple[TorqueCase, ...] = ()
     allowables: dict[str, Allowable] = dataclasses.field(default_factory=dict)
-
-    def replace(self, **changes: Any) -> TorsionScenario:
-        """A copy with some fields changed (the copy has no file hash unless given).
-
-        Parameters
-        ----------
-        **changes
-            Fields to change.
-
-        Returns
-        -------
-        TorsionScenario
-
-        Raises
-        ------
-        TypeError
-            An unknown field.
-        """
-        return dataclasses.replace(self, **{"sha256": None, **changes})
 
 
 def parse_torsion_scenario(data: Mapping[str, Any], source: str = "<torsion scenario>") -> TorsionScenario:
