@@ -17,6 +17,7 @@ import json
 import math
 
 import pytest
+from conftest import SCENARIOS
 from numpy.testing import assert_allclose
 
 import resonance as R
@@ -298,3 +299,30 @@ def test_a_user_table_exemption_is_named_without_the_api_words():
     (finding,) = R.interference_check([mode], [R.running_speed_order(1)], R.operating_range(1400, 1600), rules)
     assert finding.verdict == "EXEMPT"
     assert finding.exemption == "owner's table requires no separation margin for AF 2.00"
+
+
+@pytest.mark.parametrize(
+    ("scenario", "listed", "absent"),
+    [
+        ("compressor_train.toml", ["torsional modes: torsional"], ["rotor lateral modes", "structural modes"]),
+        ("cooling_water_pump.toml", ["structural modes, other orders"], ["rotor lateral modes", "torsional modes"]),
+        ("fan_rotor.toml", ["rotor lateral modes against 1x"], ["torsional modes"]),
+        ("fan_skid_block.toml", ["structural modes, other orders"], ["rotor lateral modes", "torsional modes"]),
+    ],
+)
+def test_a_record_lists_only_the_rules_it_applied(scenario, listed, absent):
+    # A reviewer reads the rules a record was judged by; a rule whose scope held no mode is not one of them
+    # (the project's own record requirement, issue 21; no outside source).
+    text = R.run(R.load(SCENARIOS / scenario)).record.text
+    line = next(x for x in text.splitlines() if "Margin rules by scope" in x)
+    assert all(words in line for words in listed), line
+    assert not any(words in line for words in absent), line
+
+
+def test_the_applied_rules_name_no_rule_when_nothing_was_checked():
+    # A rule set with no pair checked says so instead of listing every rule (the project's own requirement).
+    assert R.RuleSet().applied_description([]) == "none applied (no mode met an excitation to check)"
+    both = R.RuleSet(flat=R.FlatRule(15.0)).applied_description([("structural", "order"), ("torsional", "order")])
+    assert "torsional modes" in both
+    assert "structural modes" in both
+    assert "rotor lateral" not in both

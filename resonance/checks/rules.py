@@ -25,6 +25,7 @@ References
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 
 from ..core.errors import InputTypeError, InputValueError
@@ -249,17 +250,50 @@ class RuleSet:
     @property
     def description(self) -> str:
         """The rules in words, one clause per scope."""
-        parts = [f"rotor lateral modes against 1x: {self.lateral_1x.name} ({self.lateral_1x.source})"]
+        return "; ".join(text for text, _ in self._clauses())
+
+    def applied_description(self, pairs: Iterable[tuple[ModeKind, ExcitationKind]]) -> str:
+        """The rules in words, only the clauses whose scope holds one of the pairs checked.
+
+        Parameters
+        ----------
+        pairs : iterable of (mode kind, excitation kind)
+            The pairs a study checked (one per finding).
+
+        Returns
+        -------
+        str
+            One clause per rule applied, as :attr:`description` words them; ``"none applied (no mode met an
+            excitation to check)"`` when there is no pair.
+
+        Raises
+        ------
+        InputValueError
+            A pair that needs the flat margin when none was given.
+        """
+        used = [self.rule_for(m, e) for m, e in set(pairs)]
+        rules = {id(s.rule) for s in used} | {id(s.damped) for s in used if s.damped is not None}
+        parts = [text for text, rule in self._clauses() if id(rule) in rules]
+        return "; ".join(parts) or "none applied (no mode met an excitation to check)"
+
+    def _clauses(self) -> list[tuple[str, object]]:
+        # (words, the rule object they describe), in the order the record lists them.
+        parts: list[tuple[str, object]] = [
+            (f"rotor lateral modes against 1x: {self.lateral_1x.name} ({self.lateral_1x.source})", self.lateral_1x)
+        ]
         if self.flat is not None:
             parts.append(
-                f"structural modes, other orders, electrical and fixed sources: {self.flat.name} "
-                f"({self.flat.source}), in frequency, both sides"
+                (
+                    f"structural modes, other orders, electrical and fixed sources: {self.flat.name} "
+                    f"({self.flat.source}), in frequency, both sides",
+                    self.flat,
+                )
             )
-        parts.append(f"torsional modes: {self.torsional.name} ({self.torsional.source})")
-        parts += [f"{scope_words(m, e)}: {r.name} ({r.source})" for m, e, r in self.overrides]
+        parts.append((f"torsional modes: {self.torsional.name} ({self.torsional.source})", self.torsional))
+        parts += [(f"{scope_words(m, e)}: {r.name} ({r.source})", r) for m, e, r in self.overrides]
         if self.damped is not None:
-            parts.append(self.damped.description)
-        return "; ".join(parts)
+            parts.append((self.damped.description, self.damped))
+        return parts
 
 
 def as_rule_set(rules: RuleSet | MarginRule | None) -> RuleSet:

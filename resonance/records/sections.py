@@ -7,15 +7,17 @@ the uncertainty study.
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, cast
 
-from ..checks.excitations import Excitation
+from ..checks.excitations import Excitation, ExcitationKind
 from ..checks.interference import FindingsTable
+from ..dynamics.modes import ModeKind
 
 if TYPE_CHECKING:
     pass
 
 __all__ = [
+    "finding_pairs",
     "uncertainty_lines",
     "basis_lines",
     "excitation_lines",
@@ -30,6 +32,28 @@ _AF_REFERENCES = {
     "1/(2 zeta)": "S. S. Rao, Mechanical Vibrations, 6th ed., 2017, sec. 3.4 (Q = 1 / (2 zeta))",
     "measured": "D. J. Ewins, Modal Testing, 2nd ed., 2000, ch. 4",
 }
+
+
+def finding_pairs(findings: FindingsTable) -> list[tuple[ModeKind, ExcitationKind]]:
+    """The (mode kind, excitation kind) of each finding: the pairs whose rules a record lists.
+
+    Parameters
+    ----------
+    findings : FindingsTable
+        A study's findings.
+
+    Returns
+    -------
+    list of (str, str)
+        One pair per finding, in the table's order.
+
+    Raises
+    ------
+    Nothing
+        The findings are already validated.
+    """
+    # An excitation's kind is always set once it is built (None only before its __post_init__).
+    return [(f.mode.kind, cast("ExcitationKind", f.excitation.kind)) for f in findings]
 
 
 def methods_used(base: tuple[tuple[str, str], ...], findings: FindingsTable) -> list[dict[str, str]]:

@@ -12,6 +12,7 @@ from ...records.sections import (
     basis_lines,
     excitation_lines,
     excitation_rows,
+    finding_pairs,
     header_lines,
     methods_used,
     uncertainty_lines,
@@ -50,7 +51,7 @@ def _assumptions(result: RotorStudyResult) -> list[str]:
         + ", ".join(f"{u.amount * u_factor:.4g} {u_unit} at station {u.station}" for u in s.unbalances(result.rotor))
         + "; "
         "predicted vibration is the orbit's major axis, peak-to-peak, at the probe stations.",
-        f"Margin rules by scope: {s.rules.description}.",
+        f"Margin rules by scope (those applied): {s.rules.applied_description(finding_pairs(result.findings))}.",
         "A negative log decrement of any tracked mode up to the maximum continuous speed fails the check.",
     ]
 

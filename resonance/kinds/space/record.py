@@ -13,7 +13,14 @@ import numpy as np
 from ...checks.interference import verdict_line
 from ...core.units import display_unit
 from ...records.record import CAUTION, Record, record_head
-from ...records.sections import basis_lines, excitation_lines, excitation_rows, header_lines, methods_used
+from ...records.sections import (
+    basis_lines,
+    excitation_lines,
+    excitation_rows,
+    finding_pairs,
+    header_lines,
+    methods_used,
+)
 from .response import orbit_major, unbalance_reference
 from .study import SpaceStudyResult
 
@@ -82,7 +89,7 @@ def build_space_record(result: SpaceStudyResult, created: _dt.datetime | None = 
             f"Damping: the mounts' and the soil's dashpots plus modal damping {s.damping_ratio:g} on every mode.",
             "Soil: a rigid footing on a homogeneous elastic half-space; soil properties are the least certain "
             "input: check them with a geotechnical engineer and over the tolerance band.",
-            f"Margin rules by scope: {s.rules.description}.",
+            f"Margin rules by scope (those applied): {s.rules.applied_description(finding_pairs(result.findings))}.",
             "Vibration: the 1x unbalance response, RMS, against the ISO 10816-3 zones (broadband field criteria): "
             "an estimate.",
         ],

@@ -11,7 +11,7 @@ import math
 from typing import TYPE_CHECKING, Any
 
 from ...checks.interference import verdict_line
-from ...records.sections import uncertainty_lines
+from ...records.sections import finding_pairs, uncertainty_lines
 from .scenario import scenario_to_dict
 from .study import ACCEPTABLE_ZONES, StudyResult
 
@@ -71,7 +71,7 @@ def _assumptions(result: StudyResult) -> list[str]:
         "Predicted vibration is the 1x unbalance response only (not a broadband overall value); "
         "velocity RMS = w X / sqrt(2).",
         *([motor] if motor else []),
-        f"Margin rules by scope: {s.rules.description}.",
+        f"Margin rules by scope (those applied): {s.rules.applied_description(finding_pairs(result.findings))}.",
         f"ISO 10816-3 group {s.vibration.group}, {result.support_note(s.units)}. The zones judge broadband "
         f"vibration measured on site: the predicted 1x value against them is an estimate, not a design margin; "
         f"zones {' and '.join(ACCEPTABLE_ZONES)} are those for unrestricted long-term operation.",

@@ -14,7 +14,14 @@ from ...checks.interference import verdict_line
 from ...core.units import UnitSystem, display_unit
 from ...dynamics.modes import Mode
 from ...records.record import CAUTION, Record, record_head
-from ...records.sections import basis_lines, excitation_lines, excitation_rows, header_lines, methods_used
+from ...records.sections import (
+    basis_lines,
+    excitation_lines,
+    excitation_rows,
+    finding_pairs,
+    header_lines,
+    methods_used,
+)
 from .study import TorsionStudyResult
 from .torque import TorqueSweep
 from .train import TorsionalTrain
@@ -88,7 +95,7 @@ def build_torsion_record(result: TorsionStudyResult, created: _dt.datetime | Non
                 if s.damping_ratio is not None
                 else "the elements' dampers."
             ),
-            f"Margin rules by scope: {s.rules.description}.",
+            f"Margin rules by scope (those applied): {s.rules.applied_description(finding_pairs(result.findings))}.",
             "Where a margin cannot be met, the steady dynamic torque and shear stress must be shown acceptable; "
             "fatigue design belongs to the governing code and a qualified engineer.",
         ],
