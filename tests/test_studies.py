@@ -7,7 +7,9 @@ other change.
 
 from __future__ import annotations
 
+import html
 import json
+import re
 from dataclasses import dataclass, replace
 from datetime import datetime, timezone
 from pathlib import Path
@@ -134,3 +136,28 @@ def test_one_naming_convention_keeps_the_pinned_names():
 
     assert R.modal_properties is R.model_modes
     assert rotor_api.unbalance_response_rotor is rotor_api.rotor_unbalance_response
+
+
+@pytest.mark.parametrize(
+    "scenario",
+    [
+        "cooling_water_pump.toml",
+        "fan_on_pedestal.toml",
+        "fan_rotor.toml",
+        "compressor_train.toml",
+        "fan_skid_block.toml",
+    ],
+)
+def test_the_html_record_has_one_heading_one_verdict_and_one_caution(scenario):
+    # What a reviewer signs reads once at the top (the project's own record requirement, issue 21).
+    from resonance.records.record import CAUTION
+    from resonance.ui.report import render_outcome_html
+
+    outcome = R.run(R.load(SCENARIOS / scenario))
+    page = render_outcome_html(outcome)
+    text = re.sub(r"<script.*?</script>", "", page, flags=re.S)
+    assert text.count("<h1>") == 1
+    assert text.count(html.escape(CAUTION)) == 1
+    top = text.split("<h2>Findings")[0]
+    assert len(re.findall(r"Verdict: ", top)) == 1
+    assert f"Verdict: {outcome.verdict}" in top

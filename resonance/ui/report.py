@@ -51,7 +51,11 @@ tr.fail td,tr.pass td,tr.exempt td,.caution{-webkit-print-color-adjust:exact;pri
 def _page(
     title: str, passed: bool, summary: str, findings: str, tables: list[tuple[str, str]], figures: list, record: Record
 ) -> str:
-    """A self-contained page: caution, verdict, findings, tables, figures (plotly.js inline once), record."""
+    """A self-contained page: caution, verdict, findings, tables, figures (plotly.js inline once), record.
+
+    One heading, one verdict and one caution at the top; the full text record below them without its own
+    closing caution (the page's is at the top).
+    """
     plots = [fig.to_html(full_html=False, include_plotlyjs=(i == 0)) for i, fig in enumerate(figures)]
     data = record.data
     verdict = str(data["verdict"])
@@ -74,13 +78,24 @@ def _page(
         + "</tr></table>"
     )
     extra = "".join(f"<h2>{html.escape(heading)}</h2>{body}" for heading, body in tables)
+    # One verdict at the top: the summary's own verdict line (with its reason) where it is the record's verdict.
+    first, _, rest = summary.partition("\n")
+    said = first.removeprefix("Verdict: ").split(" (", 1)[0]
+    verdict_line, summary = (
+        (first, rest.strip("\n"))
+        if first.startswith("Verdict: ") and said == verdict
+        else (
+            f"Verdict: {verdict}",
+            summary,
+        )
+    )
     return f"""<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>{html.escape(title)}</title>
 <style>{_STYLE}</style></head><body>
 <h1>{html.escape(title)}</h1>
 {revision}
 <p class="caution"><b>Caution.</b> {html.escape(CAUTION)}</p>
-<p class="verdict" style="color:{verdict_colour}">Verdict: {html.escape(verdict)}</p>
+<p class="verdict" style="color:{verdict_colour}">{html.escape(verdict_line)}</p>
 <pre>{html.escape(summary)}</pre>
 <h2>Findings (worst first)</h2>{findings}
 {extra}
@@ -89,7 +104,7 @@ def _page(
 <h2>Methods and references</h2><ul>{
         "".join(f"<li>{html.escape(m['method'])} <i>[{html.escape(m['reference'])}]</i></li>" for m in data["methods"])
     }</ul>
-<h2>Full text record</h2><pre>{html.escape(record.text)}</pre>
+<h2>Full text record</h2><pre>{html.escape(record.body)}</pre>
 <p><small>Created {html.escape(data["created_utc"])} with {
         html.escape(", ".join(f"{k} {v}" for k, v in data["software"].items()))
     }.</small></p>

@@ -107,7 +107,8 @@ def support_outcome(
             tables.append(("Field verification: tuned model", field.tuned_study.findings))
         summary = (
             f"Verdict: {record.data['verdict']} (the design model and its field verification together)\n\n"
-            f"Design model:\n{summary}\n\n{field.summary()}"
+            # The design model's own verdict is one line of it, so the outcome says "Verdict" once.
+            f"{summary.replace('Verdict: ', 'Design model: ', 1)}\n\n{field.summary()}"
         )
     if fixes is not None:
         summary += "\n\nWhat would fix it:\n" + "\n".join(fixes.lines())
