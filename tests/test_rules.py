@@ -326,3 +326,11 @@ def test_the_applied_rules_name_no_rule_when_nothing_was_checked():
     assert "torsional modes" in both
     assert "structural modes" in both
     assert "rotor lateral" not in both
+
+
+def test_a_failing_verdict_names_what_fails_before_its_exemptions():
+    # The space demo fails on a skid mode while its radiation-damped block modes are exempt: the verdict line
+    # must not read as if the exemptions were the cause (the project's own record requirement, issue 21).
+    line = R.run(R.load(SCENARIOS / "fan_skid_block.toml")).summary.splitlines()[0]
+    assert line.startswith("Verdict: FAIL (governed by mode 6 (fan and motor: rocking about x (and skid)) x 1x; ")
+    assert "exempt, not the cause: mode 12 (block: rocking about x) x 2x" in line

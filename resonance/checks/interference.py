@@ -541,7 +541,7 @@ def verdict_of(passed: bool, findings: FindingsTable) -> str:
 
 
 def verdict_line(verdict: str, findings: FindingsTable, heading: str = "Verdict") -> str:
-    """``Verdict: ...``, naming every exempt coincidence inside the operating range.
+    """``Verdict: ...``: what governs a failing verdict, and every exempt coincidence inside the operating range.
 
     Parameters
     ----------
@@ -563,9 +563,14 @@ def verdict_line(verdict: str, findings: FindingsTable, heading: str = "Verdict"
         Pure text.
     """
     exempt = findings.exempt_inside
-    if not exempt:
-        return f"{heading}: {verdict}"
+    failing = [f for f in findings if not f.passed]
     names = "; ".join(
         f"{f.mode.label} x {f.excitation.label} inside the operating range, exempt: {f.exemption}" for f in exempt
     )
-    return f"{heading}: {verdict} ({names})"
+    if not exempt:
+        return f"{heading}: {verdict}"
+    if verdict != "FAIL" or not failing:
+        return f"{heading}: {verdict} ({names})"
+    # A failing verdict with exemptions names what fails first, so the exemptions do not read as its cause.
+    worst = f"{failing[0].mode.label} x {failing[0].excitation.label}"
+    return f"{heading}: FAIL (governed by {worst}; exempt, not the cause: {names})"

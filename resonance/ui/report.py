@@ -23,6 +23,7 @@ from .field_plots import bode_figure, impact_figure, polar_figure
 from .plots import interference_figure, modes_table_html, response_figure
 from .rotor_plots import campbell_figure, mode_shape_figure, rotor_response_figure, speed_map_figure
 from .space_plots import space_modes_html, space_response_figure, space_shape_figure
+from .toolkit import modes_to_draw
 from .torsion_plots import torque_figure, torque_table_html, torsion_modes_html, torsion_shape_figure
 from .uncertainty_plots import failure_probability_figure, sensitivity_figure, worst_margin_figure
 
@@ -127,7 +128,7 @@ def render_html(result: StudyResult, record: Record, field: FieldStudyResult | N
     Returns
     -------
     str
-                The support record's page: the record, its tables and figures.
+        The support record's page: the record, its tables and figures.
 
     Raises
     ------
@@ -150,7 +151,7 @@ def render_rotor_html(result: RotorStudyResult, record: Record) -> str:
     Returns
     -------
     str
-                The rotor record's page: the record, its tables and figures.
+        The rotor record's page: the record, its tables and figures.
 
     Raises
     ------
@@ -203,7 +204,8 @@ def _space_view(outcome: StudyOutcome) -> tuple[list[tuple[str, str]], list]:
     figures = [
         interference_figure(result, system, log_frequency=True),
         space_response_figure(result, system),
-        *(space_shape_figure(result, i) for i in range(min(3, len(result.shapes)))),
+        # The governing mode and every failing finding's mode, whatever their rank (then the lowest, to three).
+        *(space_shape_figure(result, i) for i in modes_to_draw(result.findings, result.modes)),
     ]
     return [("Modes in space", space_modes_html(result, system))], figures
 
@@ -229,7 +231,7 @@ def render_outcome_html(outcome: StudyOutcome) -> str:
     Returns
     -------
     str
-                The page of any kind's record, with the views its kind registers.
+        The page of any kind's record, with the views its kind registers.
 
     Raises
     ------

@@ -27,6 +27,7 @@ __all__ = [
     "drawn",
     "finished",
     "html_table",
+    "modes_to_draw",
     "styled",
     "vertical_bands",
 ]
@@ -169,6 +170,37 @@ def finished(fig: go.Figure, widget: bool) -> go.Figure:
     the figure before the wrap for a view opened later (a saved notebook, a test) to show it.
     """
     return go.FigureWidget(fig) if widget else fig
+
+
+def modes_to_draw(findings: Sequence[Any], modes: Sequence[Any], lowest: int = 3) -> list[int]:
+    """Which modes a record draws: the governing finding's first, then every failing finding's, else the lowest.
+
+    Parameters
+    ----------
+    findings : sequence of Finding
+        The study's findings, worst first (the first governs).
+    modes : sequence of Mode
+        The study's modes, in the order the figures index them.
+    lowest : int
+        How many modes to draw at least, the lowest filling up (when few findings fail).
+
+    Returns
+    -------
+    list of int
+        Indices into ``modes``, each once: the governing mode, the modes of failing findings worst first, then
+        the lowest modes up to ``lowest``.
+
+    Raises
+    ------
+    Nothing
+        Selection only.
+    """
+    picked: list[int] = []
+    for i, f in enumerate(findings):
+        if (i == 0 or not f.passed) and f.mode in modes and modes.index(f.mode) not in picked:
+            picked.append(modes.index(f.mode))
+    picked += [i for i in range(len(modes)) if i not in picked][: max(0, lowest - len(picked))]
+    return picked
 
 
 def af_text(af: float) -> str:

@@ -49,7 +49,7 @@ def verdict_html(text: str, passed: bool) -> str:
     Returns
     -------
     str
-                A coloured box with the lines escaped.
+        A coloured box with the lines escaped.
 
     Raises
     ------
