@@ -89,11 +89,12 @@ def variant_findings(scenario: RotorScenario, varies: Sequence[str], values: np.
     Parameters
     ----------
     scenario : RotorScenario
-        The nominal scenario.
+        The nominal rotor scenario; each variant is it with scaled bearings and speed limits.
     varies : sequence of str
-        What each column of ``values`` varies (from :func:`uncertain_targets`).
+        ``bearing:<label>:stiffness``, ``bearing:<label>:damping``, ``speed_min`` or ``speed_max``, one per column
+        of ``values`` (from :func:`uncertain_targets`).
     values : numpy.ndarray
-        Factors on the nominal values, ``variants x inputs``.
+        Factors on those nominal values, ``variants x inputs``.
 
     Returns
     -------

@@ -122,7 +122,7 @@ class SpaceStudyResult:
         Parameters
         ----------
         system : {"SI", "US"}
-            Display units.
+            Units of the frequencies and velocities.
 
         Returns
         -------

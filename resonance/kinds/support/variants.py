@@ -161,11 +161,12 @@ def variant_findings(scenario: Scenario, varies: Sequence[str], values: np.ndarr
     Parameters
     ----------
     scenario : Scenario
-        The nominal scenario.
+        The nominal support scenario; each variant scales its springs, masses, damping and speed limits.
     varies : sequence of str
-        What each column of ``values`` varies (from :func:`uncertain_targets`).
+        ``spring:<label>``, ``mass:<name>``, ``damping_ratio``, ``speed_min`` or ``speed_max``, one per column of
+        ``values`` (from :func:`uncertain_targets`).
     values : numpy.ndarray
-        Factors on the nominal values, ``variants x inputs``.
+        Factors on those nominal values, ``variants x inputs``.
 
     Returns
     -------

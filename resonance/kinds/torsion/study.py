@@ -61,7 +61,7 @@ class TorsionStudyResult:
         Parameters
         ----------
         system : {"SI", "US"}
-            Display units.
+            Units of the frequencies (margins are in percent in both).
 
         Returns
         -------
