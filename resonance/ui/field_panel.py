@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import html
 import os
 from pathlib import Path
 
@@ -18,12 +17,12 @@ from .field_plots import (
     update_impact_figure,
     update_polar_figure,
 )
-from .widgets import Panel, caution_banner, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import KindPanel, slider_range, verdict_html
 
 __all__ = ["FieldPanel"]
 
 
-class FieldPanel(Panel):
+class FieldPanel(KindPanel):
     """Field verification of a scenario with a ``[field]`` table.
 
     Controls: the operating speed range, the coast-down channel, the fitting band and the units.
@@ -38,14 +37,12 @@ class FieldPanel(Panel):
     """
 
     def __init__(self, scenario: Scenario, base_dir: str | os.PathLike[str] = "."):
-        self.original = scenario
-        self.scenario = scenario
+        self._start(scenario, "110px")
         self.base_dir = Path(base_dir)
         first = run_field_study(scenario, self.base_dir)
         channels = sorted(first.coastdown.channels)
         speeds = first.coastdown.speed
         band = first.spec.band or (float(speeds[0]), float(speeds[-1]))
-        self.speed = speed_slider(scenario.speed)
         self.channel = w.Dropdown(
             options=channels, value=first.spec.channel, description="channel", style={"description_width": "110px"}
         )
@@ -59,28 +56,16 @@ class FieldPanel(Panel):
             style={"description_width": "110px"},
             layout=w.Layout(width="520px"),
         )
-        self.units = units_toggle(scenario.units, "110px")
-        self.verdict = w.HTML()
-        self.message = w.HTML()
-        self.findings_html = w.HTML()
         self.tuned_html = w.HTML()
         self.result: FieldStudyResult = first
         self.bode = bode_figure(first, scenario, self.channel.value, self.system, widget=True)
         self.polar = polar_figure(first, self.channel.value, self.system, widget=True)
         self.impact = impact_figure(first, widget=True)
         self._render_text()
-        for control in (self.speed, self.channel, self.band, self.units):
-            control.observe(self._changed, names="value")
-        self.widget = w.VBox(
+        self._lay_out(
+            f"Field verification: {scenario.title}",
+            [self.speed, self.channel, self.band, self.units],
             [
-                caution_banner(),
-                w.HTML(f"<h3>Field verification: {html.escape(scenario.title)}</h3>"),
-                self.speed,
-                self.channel,
-                self.band,
-                self.units,
-                self.verdict,
-                self.message,
                 self.bode,
                 self.polar,
                 self.impact,
@@ -88,7 +73,7 @@ class FieldPanel(Panel):
                 self.findings_html,
                 w.HTML("<h4>Tuned model</h4>"),
                 self.tuned_html,
-            ]
+            ],
         )
 
     def compute(self) -> FieldStudyResult:

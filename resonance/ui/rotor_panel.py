@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import html
-
 import ipywidgets as w
 
 from ..kinds.rotor.scenario import RotorScenario
@@ -19,12 +17,12 @@ from .rotor_plots import (
     update_rotor_response_figure,
     update_speed_map_figure,
 )
-from .widgets import Panel, caution_banner, factor_slider, slider_range, speed_slider, units_toggle, verdict_html
+from .widgets import KindPanel, factor_slider, slider_range, verdict_html
 
 __all__ = ["RotorPanel"]
 
 
-class RotorPanel(Panel):
+class RotorPanel(KindPanel):
     """Live rotor critical-speed check of a rotor scenario.
 
     Controls: the operating speed range, factors on every bearing's stiffness
@@ -38,9 +36,7 @@ class RotorPanel(Panel):
     """
 
     def __init__(self, scenario: RotorScenario):
-        self.original = scenario
-        self.scenario = scenario
-        self.speed = speed_slider(scenario.speed)
+        self._start(scenario, "110px")
         self.stiffness = factor_slider("bearing stiffness x", label_width="150px", width="540px")
         self.damping = factor_slider("bearing damping x", label_width="150px", width="540px")
         self.shape_speed = w.IntSlider(
@@ -53,35 +49,17 @@ class RotorPanel(Panel):
             style={"description_width": "150px"},
             layout=w.Layout(width="540px"),
         )
-        self.units = units_toggle(scenario.units, "110px")
-        self.verdict = w.HTML()
-        self.message = w.HTML()
-        self.findings_html = w.HTML()
         self.result: RotorStudyResult = self.compute()
         self.campbell_fig = campbell_figure(self.result, self.system, widget=True)
         self.response_fig = rotor_response_figure(self.result, self.system, widget=True)
         self.map_fig = speed_map_figure(self.result, self.system, widget=True)
         self.shape_fig = mode_shape_figure(self.result, widget=True)
         self._render_text()
-        for control in (self.speed, self.stiffness, self.damping, self.shape_speed, self.units):
-            control.observe(self._changed, names="value")
-        self.widget = w.VBox(
-            [
-                caution_banner(),
-                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
-                self.speed,
-                self.stiffness,
-                self.damping,
-                self.units,
-                self.verdict,
-                self.message,
-                self.campbell_fig,
-                self.response_fig,
-                self.findings_html,
-                self.map_fig,
-                self.shape_speed,
-                self.shape_fig,
-            ]
+        self._lay_out(
+            scenario.title,
+            [self.speed, self.stiffness, self.damping, self.units],
+            [self.campbell_fig, self.response_fig, self.findings_html, self.map_fig, self.shape_speed, self.shape_fig],
+            also=[self.shape_speed],
         )
 
     def edited_scenario(self) -> RotorScenario:
@@ -110,10 +88,6 @@ class RotorPanel(Panel):
         update_speed_map_figure(self.map_fig, self.result, self.system)
         update_mode_shape_figure(self.shape_fig, self.result)
         self._render_text()
-
-    def summary(self) -> str:
-        """What the panel says, as plain text."""
-        return self.result.summary(self.system)
 
     def _render_text(self) -> None:
         self.verdict.value = verdict_html(self.summary(), self.result.passed)

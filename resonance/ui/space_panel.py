@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import html
-
 import ipywidgets as w
 
 from ..kinds.space.scenario import SpaceScenario
@@ -17,20 +15,17 @@ from .space_plots import (
     update_space_shape_figure,
 )
 from .widgets import (
-    Panel,
-    caution_banner,
+    KindPanel,
     factor_slider,
     modal_damping_slider,
     slider_range,
-    speed_slider,
-    units_toggle,
     verdict_html,
 )
 
 __all__ = ["SpacePanel"]
 
 
-class SpacePanel(Panel):
+class SpacePanel(KindPanel):
     """Live check of a machine on its support in space (bodies, frame, mounts, soil).
 
     Controls: the speed range, the modal damping ratio, a factor on the soil's shear modulus (the least
@@ -46,19 +41,13 @@ class SpacePanel(Panel):
     """
 
     def __init__(self, scenario: SpaceScenario):
-        self.original = scenario
-        self.scenario = scenario
-        self.speed = speed_slider(scenario.speed)
+        self._start(scenario, "170px")
         self.damping = modal_damping_slider(scenario.damping_ratio)
         self.soil = factor_slider("soil shear modulus x", 0.6)
         self.soil.disabled = scenario.soil is None
         self.mounts = factor_slider("isolator stiffness x", 0.6)
         self.frame = factor_slider("frame stiffness x", 0.6)
         self.frame.disabled = not scenario.beams
-        self.units = units_toggle(scenario.units, "170px")
-        self.verdict = w.HTML()
-        self.message = w.HTML()
-        self.findings_html = w.HTML()
         self.modes_html = w.HTML()
         self.result: SpaceStudyResult = self.compute()
         self.mode = w.Dropdown(
@@ -71,28 +60,11 @@ class SpacePanel(Panel):
         self.response_fig = space_response_figure(self.result, self.system, widget=True)
         self.shape_fig = space_shape_figure(self.result, 0, widget=True)
         self._render_text()
-        for control in (self.speed, self.damping, self.soil, self.mounts, self.frame, self.units):
-            control.observe(self._changed, names="value")
         self.mode.observe(self._mode_changed, names="value")
-        self.widget = w.VBox(
-            [
-                caution_banner(),
-                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
-                self.speed,
-                self.damping,
-                self.soil,
-                self.mounts,
-                self.frame,
-                self.units,
-                self.verdict,
-                self.message,
-                self.interference_fig,
-                self.findings_html,
-                self.modes_html,
-                self.mode,
-                self.shape_fig,
-                self.response_fig,
-            ]
+        self._lay_out(
+            scenario.title,
+            [self.speed, self.damping, self.soil, self.mounts, self.frame, self.units],
+            [self.interference_fig, self.findings_html, self.modes_html, self.mode, self.shape_fig, self.response_fig],
         )
 
     def edited_scenario(self) -> SpaceScenario:
@@ -117,10 +89,6 @@ class SpacePanel(Panel):
 
     def _mode_changed(self, _change: object) -> None:
         update_space_shape_figure(self.shape_fig, self.result, int(self.mode.value))
-
-    def summary(self) -> str:
-        """What the panel says, as plain text."""
-        return self.result.summary(self.system)
 
     def _render_text(self) -> None:
         self.verdict.value = verdict_html(self.summary(), self.result.passed)

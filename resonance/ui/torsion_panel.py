@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import html
-
 import ipywidgets as w
 
 from ..kinds.torsion.scenario import TorsionScenario
@@ -19,20 +17,17 @@ from .torsion_plots import (
     update_torsion_shape_figure,
 )
 from .widgets import (
-    Panel,
-    caution_banner,
+    KindPanel,
     factor_slider,
     modal_damping_slider,
     slider_range,
-    speed_slider,
-    units_toggle,
     verdict_html,
 )
 
 __all__ = ["TorsionPanel"]
 
 
-class TorsionPanel(Panel):
+class TorsionPanel(KindPanel):
     """Live torsional check of a drive train.
 
     Controls: the driver's operating speed range, a factor on every coupling's stiffness (the maker's data
@@ -47,18 +42,12 @@ class TorsionPanel(Panel):
     """
 
     def __init__(self, scenario: TorsionScenario):
-        self.original = scenario
-        self.scenario = scenario
-        self.speed = speed_slider(scenario.speed)
+        self._start(scenario, "170px")
         self.coupling = factor_slider("coupling stiffness x")
         if scenario.damping_ratio is not None:
             self.damping: w.FloatSlider | w.FloatLogSlider = modal_damping_slider(scenario.damping_ratio)
         else:
             self.damping = factor_slider("element dampers x")
-        self.units = units_toggle(scenario.units, "170px")
-        self.verdict = w.HTML()
-        self.message = w.HTML()
-        self.findings_html = w.HTML()
         self.modes_html = w.HTML()
         self.torque_html = w.HTML()
         self.result: TorsionStudyResult = self.compute()
@@ -66,25 +55,17 @@ class TorsionPanel(Panel):
         self.shape_fig = torsion_shape_figure(self.result, widget=True)
         self.torque_fig = torque_figure(self.result, self.system, widget=True)
         self._render_text()
-        for control in (self.speed, self.coupling, self.damping, self.units):
-            control.observe(self._changed, names="value")
-        self.widget = w.VBox(
+        self._lay_out(
+            scenario.title,
+            [self.speed, self.coupling, self.damping, self.units],
             [
-                caution_banner(),
-                w.HTML(f"<h3>{html.escape(scenario.title)}</h3>"),
-                self.speed,
-                self.coupling,
-                self.damping,
-                self.units,
-                self.verdict,
-                self.message,
                 self.interference_fig,
                 self.findings_html,
                 self.modes_html,
                 self.shape_fig,
                 self.torque_fig,
                 self.torque_html,
-            ]
+            ],
         )
 
     def edited_scenario(self) -> TorsionScenario:
@@ -111,10 +92,6 @@ class TorsionPanel(Panel):
         update_torsion_shape_figure(self.shape_fig, self.result)
         update_torque_figure(self.torque_fig, self.result, self.system)
         self._render_text()
-
-    def summary(self) -> str:
-        """What the panel says, as plain text."""
-        return self.result.summary(self.system)
 
     def _render_text(self) -> None:
         self.verdict.value = verdict_html(self.summary(), self.result.passed)

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import html
 import math
+from collections.abc import Sequence
+from typing import Any
 
 import ipywidgets as w
 
@@ -243,3 +245,37 @@ class Panel:
 
     def _repr_mimebundle_(self, **kwargs: object) -> dict | None:
         return self.widget._repr_mimebundle_(**kwargs)
+
+
+class KindPanel(Panel):
+    """What the panels of one kind of study share: the speed and unit controls, verdict, message, findings.
+
+    They are laid out on one page: the caution, the title, the controls, the verdict, then the kind's views.
+
+    A kind's panel calls :meth:`_start` first, builds its own controls and views, then :meth:`_lay_out`.
+    """
+
+    original: Any
+    scenario: Any
+    result: Any
+
+    def _start(self, scenario: Any, units_width: str) -> None:
+        self.original = self.scenario = scenario
+        self.speed = speed_slider(scenario.speed)
+        self.units = units_toggle(scenario.units, units_width)
+        self.verdict = w.HTML()
+        self.message = w.HTML()
+        self.findings_html = w.HTML()
+
+    def _lay_out(
+        self, title: str, controls: Sequence[w.Widget], views: Sequence[w.Widget], also: Sequence = ()
+    ) -> None:
+        # Every control above the verdict re-runs the study, and so do the ``also`` ones shown among the views.
+        for control in (*controls, *also):
+            control.observe(self._changed, names="value")
+        top = [caution_banner(), w.HTML(f"<h3>{html.escape(title)}</h3>"), *controls, self.verdict, self.message]
+        self.widget = w.VBox([*top, *views])
+
+    def summary(self) -> str:
+        """What the panel says, as plain text."""
+        return str(self.result.summary(self.system))
