@@ -333,4 +333,5 @@ def test_a_failing_verdict_names_what_fails_before_its_exemptions():
     # must not read as if the exemptions were the cause (the project's own record requirement, issue 21).
     line = R.run(R.load(SCENARIOS / "fan_skid_block.toml")).summary.splitlines()[0]
     assert line.startswith("Verdict: FAIL (governed by mode 6 (fan and motor: rocking about x (and skid)) x 1x; ")
-    assert "exempt, not the cause: mode 12 (block: rocking about x) x 2x" in line
+    assert "5 exempt coincidences inside the operating range, not the cause, reasons in the findings: " in line
+    assert "mode 12 (block: rocking about x) x 2x; mode 7 (block: sliding in x) x 1x" in line

@@ -571,6 +571,9 @@ def verdict_line(verdict: str, findings: FindingsTable, heading: str = "Verdict"
         return f"{heading}: {verdict}"
     if verdict != "FAIL" or not failing:
         return f"{heading}: {verdict} ({names})"
-    # A failing verdict with exemptions names what fails first, so the exemptions do not read as its cause.
+    # A failing verdict with exemptions names what fails first, so the exemptions do not read as its cause; the
+    # exempt pairs are named only (each one's reason is in its finding).
     worst = f"{failing[0].mode.label} x {failing[0].excitation.label}"
-    return f"{heading}: FAIL (governed by {worst}; exempt, not the cause: {names})"
+    pairs = "; ".join(f"{f.mode.label} x {f.excitation.label}" for f in exempt)
+    count = f"{len(exempt)} exempt coincidence{'s' if len(exempt) > 1 else ''} inside the operating range"
+    return f"{heading}: FAIL (governed by {worst}; {count}, not the cause, reasons in the findings: {pairs})"

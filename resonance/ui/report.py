@@ -34,7 +34,7 @@ body{font-family:system-ui,sans-serif;max-width:1100px;margin:24px auto;padding:
 table{border-collapse:collapse;font-size:90%;margin:8px 0}td,th{border:1px solid #bbb;padding:3px 8px;text-align:left}
 tr.fail td{background:#fde2e2}tr.pass td{background:#e6f4ea}.caution{background:#fff4e0;border-left:6px solid #e08a00;
 padding:8px 12px}.verdict{font-size:120%;font-weight:bold}
-pre{background:#f6f6f6;padding:8px;overflow-x:auto;font-size:85%}
+pre{background:#f6f6f6;padding:8px;overflow-x:auto;font-size:85%;white-space:pre-wrap}
 tr.exempt td{background:#fff4e0}table.revision td{min-width:9em}
 @media print{
 @page{size:A4;margin:15mm 12mm 18mm 12mm}
