@@ -335,3 +335,15 @@ def test_a_failing_verdict_names_what_fails_before_its_exemptions():
     assert line.startswith("Verdict: FAIL (governed by mode 6 (fan and motor: rocking about x (and skid)) x 1x; ")
     assert "5 exempt coincidences inside the operating range, not the cause, reasons in the findings: " in line
     assert "mode 12 (block: rocking about x) x 2x; mode 7 (block: sliding in x) x 1x" in line
+
+
+def test_one_rule_in_two_scopes_is_listed_only_for_the_scope_it_was_applied_in():
+    # A flat rule given alone governs rotor lateral 1x and every other pair; a rotor checked at 1x only applied
+    # it as the lateral rule (the project's own record requirement, issue 21).
+    from resonance.checks.rules import as_rule_set
+
+    rules = as_rule_set(R.FlatRule(15.0))
+    assert rules.lateral_1x is rules.flat
+    assert rules.applied_description([("rotor-lateral", "synchronous")]) == (
+        "rotor lateral modes against 1x: flat 15 % (common practice, no single source)"
+    )

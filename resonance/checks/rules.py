@@ -155,12 +155,16 @@ class ScopedRule:
         Why this rule: the default for the pair, or the scenario's override.
     damped : DampedModeRule or None
         The heavily damped rule where it may apply to the pair (not where the pair has an override).
+    clause : str
+        Which clause of the rule set chose it (``"lateral"``, ``"flat"``, ``"torsional"`` or
+        ``"override:<mode kind>:<excitation kind>"``): the same rule object may stand in two clauses.
     """
 
     rule: MarginRule
     scope: str
     basis: str
     damped: DampedModeRule | None = None
+    clause: str = ""
 
 
 @dataclass(frozen=True)
@@ -234,18 +238,18 @@ class RuleSet:
         scope = scope_words(mode_kind, excitation_kind)
         for m, e, rule in self.overrides:
             if (m, e) == (mode_kind, excitation_kind):
-                return ScopedRule(rule, scope, "override for this pair")
+                return ScopedRule(rule, scope, "override for this pair", clause=f"override:{m}:{e}")
         damped = self.damped if self.damped is not None and mode_kind in self.damped.kinds else None
         if mode_kind == "torsional":
-            return ScopedRule(self.torsional, scope, "torsional rule", damped)
+            return ScopedRule(self.torsional, scope, "torsional rule", damped, "torsional")
         if (mode_kind, excitation_kind) == ("rotor-lateral", "synchronous"):
-            return ScopedRule(self.lateral_1x, scope, "rotor lateral rule at 1x", damped)
+            return ScopedRule(self.lateral_1x, scope, "rotor lateral rule at 1x", damped, "lateral")
         if self.flat is None:
             raise InputValueError(
                 f"flat: missing; a {scope} needs a flat separation margin in percent "
                 "(10 to 20 % is common practice, no single source): give margin.flat in the scenario"
             )
-        return ScopedRule(self.flat, scope, "flat margin, in frequency, the same on both sides", damped)
+        return ScopedRule(self.flat, scope, "flat margin, in frequency, the same on both sides", damped, "flat")
 
     @property
     def description(self) -> str:
@@ -272,27 +276,25 @@ class RuleSet:
             A pair that needs the flat margin when none was given.
         """
         used = [self.rule_for(m, e) for m, e in set(pairs)]
-        rules = {id(s.rule) for s in used} | {id(s.damped) for s in used if s.damped is not None}
-        parts = [text for text, rule in self._clauses() if id(rule) in rules]
+        clauses = {s.clause for s in used} | ({"damped"} if any(s.damped is not None for s in used) else set())
+        parts = [text for text, clause in self._clauses() if clause in clauses]
         return "; ".join(parts) or "none applied (no mode met an excitation to check)"
 
-    def _clauses(self) -> list[tuple[str, object]]:
-        # (words, the rule object they describe), in the order the record lists them.
-        parts: list[tuple[str, object]] = [
-            (f"rotor lateral modes against 1x: {self.lateral_1x.name} ({self.lateral_1x.source})", self.lateral_1x)
-        ]
+    def _clauses(self) -> list[tuple[str, str]]:
+        # (words, the clause key rule_for gives), in the order the record lists them.
+        parts = [(f"rotor lateral modes against 1x: {self.lateral_1x.name} ({self.lateral_1x.source})", "lateral")]
         if self.flat is not None:
             parts.append(
                 (
                     f"structural modes, other orders, electrical and fixed sources: {self.flat.name} "
                     f"({self.flat.source}), in frequency, both sides",
-                    self.flat,
+                    "flat",
                 )
             )
-        parts.append((f"torsional modes: {self.torsional.name} ({self.torsional.source})", self.torsional))
-        parts += [(f"{scope_words(m, e)}: {r.name} ({r.source})", r) for m, e, r in self.overrides]
+        parts.append((f"torsional modes: {self.torsional.name} ({self.torsional.source})", "torsional"))
+        parts += [(f"{scope_words(m, e)}: {r.name} ({r.source})", f"override:{m}:{e}") for m, e, r in self.overrides]
         if self.damped is not None:
-            parts.append((self.damped.description, self.damped))
+            parts.append((self.damped.description, "damped"))
         return parts
 
 
