@@ -24,7 +24,7 @@ RANK = {layer: rank for rank, layer in enumerate(LAYERS)}
 MODELS = {
     "support": (),  # its model is the lumped model of the dynamics layer
     "rotor": ("elements", "model", "analysis", "criticals", "response"),
-    "torsion": ("train", "elements"),
+    "torsion": ("train", "elements", "response"),
     "space": ("bodies", "frame", "soil", "modes", "response"),
     "field": ("readers", "impact", "coastdown", "tuning"),
 }
