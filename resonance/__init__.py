@@ -20,13 +20,12 @@ notebook panel of any scenario.
 
 from __future__ import annotations
 
-import importlib
-import importlib.util
 import sys
 import types
 from typing import Any
 
 from ._version import __version__
+from .core.lazy import lazy_names
 
 #: Where each public name lives: loaded from there on first use.
 _NAMES: dict[str, str] = {
@@ -131,17 +130,4 @@ class _Namespace(types.ModuleType):
 sys.modules[__name__].__class__ = _Namespace
 
 
-def __getattr__(name: str) -> Any:
-    # PEP 562: import the module that holds a public name when it is first asked for.
-    module = _NAMES.get(name)
-    if module is None:
-        if not name.startswith("_") and importlib.util.find_spec(f"{__name__}.{name}") is not None:
-            return importlib.import_module(f".{name}", __name__)  # a layer: ``resonance.checks``
-        raise AttributeError(f"module 'resonance' has no attribute {name!r}")
-    value = getattr(importlib.import_module(f".{module}", __name__), name)
-    globals()[name] = value  # later look-ups skip this function
-    return value
-
-
-def __dir__() -> list[str]:
-    return sorted({*globals(), *_NAMES})
+__getattr__, __dir__ = lazy_names(__name__, _NAMES, globals(), layers=True)  # a layer too: ``resonance.checks``

@@ -7,8 +7,7 @@ tables), :mod:`.study` (findings and the API checks), :mod:`.record`. All produc
 :class:`~resonance.dynamics.modes.Mode`, so the interference check and the records work unchanged.
 """
 
-import importlib
-from typing import Any
+from ...core.lazy import lazy_names
 
 #: Where each name of the rotor kind lives: loaded on first use, so the registry's rotor entry (and with it
 #: every ``check``) does not import the rotor analyses until a rotor scenario is run.
@@ -40,14 +39,4 @@ _NAMES = {
 __all__ = list(_NAMES)  # the table above: one list of the kind's names
 
 
-def __getattr__(name: str) -> Any:
-    # PEP 562, as the top-level namespace: import the module that holds a name when it is first asked for.
-    if name not in _NAMES:
-        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-    value = getattr(importlib.import_module(f".{_NAMES[name]}", __name__), name)
-    globals()[name] = value
-    return value
-
-
-def __dir__() -> list[str]:
-    return sorted({*globals(), *_NAMES})
+__getattr__, __dir__ = lazy_names(__name__, _NAMES, globals())
