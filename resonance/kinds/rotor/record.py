@@ -129,7 +129,7 @@ def build_rotor_record(
         "  bearings: "
         + ", ".join(f"{b.label} at station {b.station}" + (" (speed table)" if b.speeds else "") for b in s.bearings),
         *excitation_lines(s.excitations),
-        f"  margin rules: {s.rules.description}",
+        f"  margin rules (those applied): {s.rules.applied_description(finding_pairs(result.findings))}",
         "",
         *basis_lines(data),
         "CRITICAL SPEEDS (forward whirl)",

@@ -96,7 +96,7 @@ def _text(result: StudyResult, data: dict[str, Any]) -> str:
             + (f", {x.damping * c_factor:.5g} {c_unit}" if x.damping else "")
             for x in s.model.springs
         ),
-        f"  margin rules: {s.rules.description}",
+        f"  margin rules (those applied): {s.rules.applied_description(finding_pairs(result.findings))}",
         "",
         *basis_lines(data),
         "MODES",
